@@ -1,0 +1,43 @@
+# Plumbline — the two commands of the quick start are `make demo` and `make test`.
+PYTHON ?= python3
+VENV   ?= .venv
+BIN    := $(VENV)/bin
+DEMO   := sample_requests/bus-cooperative-monthly.json
+export SOURCE_DATE_EPOCH ?= 1767225600
+
+.PHONY: demo test lint unit serve schema clean
+
+$(BIN)/python:
+	$(PYTHON) -m venv $(VENV)
+	$(BIN)/python -m pip install --quiet --upgrade pip
+
+$(VENV)/.installed: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e .
+	@touch $@
+
+$(VENV)/.installed-test: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install --quiet -e '.[test]'
+	@touch $@ $(VENV)/.installed
+
+demo: $(VENV)/.installed
+	@mkdir -p out
+	$(BIN)/plumbline render $(DEMO) -o out/bus-cooperative-monthly.pdf
+
+lint: $(VENV)/.installed-test
+	$(BIN)/ruff check service tests
+	$(BIN)/ruff format --check service tests
+	$(BIN)/mypy
+
+unit: $(VENV)/.installed-test
+	$(BIN)/python -m pytest
+
+test: lint unit
+
+serve: $(VENV)/.installed
+	$(BIN)/plumbline serve
+
+schema: $(VENV)/.installed
+	$(BIN)/plumbline schema
+
+clean:
+	rm -rf $(VENV) out .pytest_cache .mypy_cache .ruff_cache

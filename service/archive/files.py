@@ -1,0 +1,56 @@
+"""Crash-safe file writes and a content-addressed store (files named by their SHA-256)."""
+
+from __future__ import annotations
+
+import hashlib
+import os
+import tempfile
+from pathlib import Path
+
+from service.errors import NotFound
+
+
+def write_atomic(path: Path, data: bytes) -> None:
+    """Write to a temp file in the same folder, fsync, rename, fsync the folder."""
+    path.parent.mkdir(parents=True, exist_ok=True)
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
+    try:
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
+            handle.flush()
+            os.fsync(handle.fileno())
+        Path(tmp).replace(path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+    folder = os.open(path.parent, os.O_RDONLY)
+    try:
+        os.fsync(folder)
+    finally:
+        os.close(folder)
+
+
+class Store:
+    """Blobs under ``root/ab/cdef…``; a blob's name is its SHA-256, so it is written once."""
+
+    def __init__(self, root: Path) -> None:
+        self.root = root
+
+    def path(self, digest: str) -> Path:
+        if len(digest) != 64 or any(c not in "0123456789abcdef" for c in digest):
+            raise NotFound(f"no stored file {digest!r}")
+        return self.root / digest[:2] / digest[2:]
+
+    def put(self, data: bytes) -> str:
+        digest = hashlib.sha256(data).hexdigest()
+        target = self.path(digest)
+        if not target.exists():
+            write_atomic(target, data)
+        return digest
+
+    def get(self, digest: str) -> bytes:
+        target = self.path(digest)
+        try:
+            return target.read_bytes()
+        except FileNotFoundError:
+            raise NotFound(f"no stored file {digest}") from None

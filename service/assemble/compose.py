@@ -1,0 +1,114 @@
+"""Compose a checked report into the pack PDF: draw charts, lay out the document, place the charts."""
+
+from __future__ import annotations
+
+import io
+import math
+from collections.abc import Mapping
+
+import pandas as pd
+import pikepdf
+
+from service import formatting
+from service.assemble import pack, place
+from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock, TableBlock
+from service.checks import registry
+from service.checks.outcome import Checked, CheckedChart
+from service.checks.results import CheckResult, summary, summary_line
+from service.data import periods
+from service.data.frames import Table
+from service.definition.model import ColumnType
+from service.definition.model import Table as TableSpec
+from service.render import charts as chart_render
+
+
+def compose(checked: Checked, *, status_line: str) -> bytes:
+    drawn = {c.plan.chart_id: chart_render.draw(c.plan) for c in checked.charts}
+    content = content_for(checked, drawn, status_line=status_line)
+    document, slots = pack.build(content)
+    return place.place(document, slots, drawn)
+
+
+def content_for(checked: Checked, drawn: Mapping[str, bytes], *, status_line: str) -> PackContent:
+    definition = checked.definition
+    report = definition.report
+    by_id = {c.plan.chart_id: c for c in checked.charts}
+    sections: list[SectionBlock] = []
+    for section in definition.sections:
+        blocks: list[ChartBlock | TableBlock] = []
+        for chart in section.charts:
+            blocks.append(_chart_block(by_id[chart.id], drawn[chart.id]))
+        for table in section.tables:
+            blocks.append(_table_block(table, checked.tables[table.dataset], report.locale))
+        sections.append(SectionBlock(section.heading, section.narrative, blocks))
+    results = checked.results
+    used = list(dict.fromkeys(r.check for r in results))
+    return PackContent(
+        title=report.title,
+        period=definition.period_text(),
+        as_of=report.as_of.isoformat(timespec="minutes"),
+        owner=report.owner,
+        audience=report.audience,
+        status_line=status_line,
+        summary_line=summary_line(results),
+        sections=sections,
+        appendix=[_appendix_row(r, report.locale) for r in results],
+        sources=[(check, registry.CHECKS[check].source) for check in used],
+        fingerprint=checked.fingerprint,
+        report_id=report.id,
+    )
+
+
+def _chart_block(chart: CheckedChart, pdf: bytes) -> ChartBlock:
+    with pikepdf.open(io.BytesIO(pdf)) as doc:
+        box = [float(v) for v in doc.pages[0].mediabox]
+    counts = summary(chart.results)
+    line = "Checks: " + ", ".join(f"{n} {s}" for s, n in counts.items() if n)
+    failed = [r.check for r in chart.results if r.status.value == "failed"]
+    if failed:
+        line += f" — FAILED: {', '.join(failed)}"
+    return ChartBlock(
+        chart_id=chart.plan.chart_id, title=chart.plan.title, subtitle=chart.plan.subtitle,
+        note=chart.plan.note, width_pt=box[2] - box[0], height_pt=box[3] - box[1],
+        check_line=line + " (details in the appendix).",
+    )
+
+
+def _appendix_row(result: CheckResult, locale: str) -> AppendixRow:
+    explanation = result.explanation
+    if result.waiver is not None:
+        expiry = f", until {result.waiver.expires.isoformat()}" if result.waiver.expires else ""
+        explanation += f" Reason: {result.waiver.reason} (waived by {result.waiver.by}{expiry})"
+    return AppendixRow(
+        chart=result.chart, check=result.check, status=result.status.value,
+        measured=result.measured_text, threshold=result.threshold, explanation=explanation,
+    )
+
+
+def _table_block(spec: TableSpec, table: Table, locale: str) -> TableBlock:
+    names = spec.columns or list(table.frame.columns)
+    header = [formatting.titled(n, table.units.get(n)) for n in names]
+    numeric = [table.types.get(n) in (ColumnType.number, ColumnType.integer) for n in names]
+    rows: list[list[str]] = []
+    frame = table.frame
+    for r in range(len(frame)):
+        row = []
+        for n in names:
+            row.append(_cell(frame[n].iloc[r], table, n, r, locale))
+        rows.append(row)
+    return TableBlock(title=spec.title, header=header, rows=rows, numeric=numeric)
+
+
+def _cell(value: object, table: Table, name: str, row: int, locale: str) -> str:
+    kind = table.types.get(name)
+    if value is None or (isinstance(value, float) and math.isnan(value)) or value is pd.NaT:
+        return "no data"
+    if kind in (ColumnType.number, ColumnType.integer):
+        return formatting.number(float(value), locale)  # type: ignore[arg-type]
+    if name == table.time_column and table.periods is not None and table.frequency is not None:
+        return periods.label(table.periods[row], table.frequency, locale)
+    if kind is ColumnType.date and isinstance(value, pd.Timestamp):
+        return value.date().isoformat()
+    if kind is ColumnType.timestamp and isinstance(value, pd.Timestamp):
+        return value.isoformat(timespec="minutes")
+    return str(value)

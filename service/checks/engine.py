@@ -1,0 +1,87 @@
+"""Run every applicable check over a chart plan: pass, correct, honour a waiver, or fail.
+
+For each check in registry order: measure the plan. A breach is *waived* when the definition carries a
+current waiver for that check and chart (the plan is left as requested); otherwise *corrected* when the
+check can correct it (the corrected plan is measured again and must pass); otherwise *failed*. Failed
+checks are written onto the plan's ``flags`` so the chart itself shows them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from service.checks import registry
+from service.checks.registry import CheckSpec, Context, Finding
+from service.checks.results import CheckResult, Status, WaiverRecord
+from service.definition.model import Waiver
+from service.intents.plan import ChartPlan
+
+
+@dataclass(frozen=True)
+class Guarded:
+    plan: ChartPlan
+    results: list[CheckResult]
+
+
+def guard(plan: ChartPlan, ctx: Context, waivers: list[Waiver]) -> Guarded:
+    results: list[CheckResult] = []
+    for spec in registry.applicable(plan):
+        finding = spec.measure(plan, ctx)
+        if finding.ok:
+            results.append(_result(spec, plan, Status.passed, finding, finding.detail))
+            continue
+        waiver, expired = _waiver_for(spec, plan, ctx, waivers)
+        if waiver is not None:
+            record = WaiverRecord(reason=waiver.reason, by=waiver.by, expires=waiver.expires)
+            results.append(_result(spec, plan, Status.waived, finding,
+                                   f"{finding.detail} Waived by {waiver.by}.", record))
+            continue
+        note = f" A waiver expired on {expired.isoformat()} and no longer applies." \
+            if expired else ""
+        if spec.correct is not None:
+            corrected = spec.correct(plan, ctx)
+            after = spec.measure(corrected, ctx)
+            if after.ok:
+                text = f"{finding.detail} {spec.correction}{note}"
+                results.append(_result(spec, plan, Status.corrected, finding, text))
+                plan = corrected
+                continue
+        results.append(_result(spec, plan, Status.failed, finding, finding.detail + note))
+    flags = [f"{r.check}: {r.explanation}" for r in results if r.status is Status.failed]
+    if flags:
+        plan = plan.model_copy(update={"flags": flags})
+    return Guarded(plan=plan, results=results)
+
+
+def _waiver_for(
+    spec: CheckSpec, plan: ChartPlan, ctx: Context, waivers: list[Waiver]
+) -> tuple[Waiver | None, object]:
+    for waiver in waivers:
+        if waiver.check == spec.id and waiver.chart == plan.chart_id and spec.waivable:
+            if waiver.expires is not None and waiver.expires < ctx.as_of.date():
+                return None, waiver.expires
+            return waiver, None
+    return None, None
+
+
+def _result(
+    spec: CheckSpec,
+    plan: ChartPlan,
+    status: Status,
+    finding: Finding,
+    explanation: str,
+    waiver: WaiverRecord | None = None,
+) -> CheckResult:
+    return CheckResult(
+        check=spec.id, chart=plan.chart_id, status=status, measured=finding.measured,
+        measured_text=finding.shown if finding.shown is not None else _plain(finding.measured),
+        threshold=spec.threshold, explanation=explanation, source=spec.source, waiver=waiver,
+    )
+
+
+def _plain(value: float | int | str | None) -> str:
+    if value is None:
+        return "—"
+    if isinstance(value, float):
+        return f"{value:.4g}"
+    return str(value)

@@ -1,0 +1,37 @@
+"""The outcome of guarding a whole report: every chart's final plan and check results."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from service.checks.results import CheckResult, Status
+from service.data.frames import Table
+from service.definition.model import ReportDefinition
+from service.intents.plan import ChartPlan
+
+
+@dataclass(frozen=True)
+class CheckedChart:
+    path: str
+    plan: ChartPlan
+    results: list[CheckResult]
+
+
+@dataclass(frozen=True)
+class Checked:
+    definition: ReportDefinition
+    tables: dict[str, Table]
+    fingerprint: str
+    charts: list[CheckedChart]
+    unused_waivers: list[str] = field(default_factory=list)
+
+    @property
+    def results(self) -> list[CheckResult]:
+        return [r for chart in self.charts for r in chart.results]
+
+    @property
+    def blocked(self) -> bool:
+        return any(r.status is Status.failed for r in self.results)
+
+    def failures(self) -> list[CheckResult]:
+        return [r for r in self.results if r.status is Status.failed]

@@ -1,0 +1,136 @@
+"""The check registry: one table of every integrity check, its rule, source and powers.
+
+A check is registered with :func:`register`. The catalogue (``plumbline checks``, ``GET /v1/checks``)
+and the appendix read their wording from here, so there is one source of truth.
+"""
+
+from __future__ import annotations
+
+import difflib
+from collections.abc import Callable, Iterable
+from dataclasses import dataclass
+from datetime import datetime
+from typing import Any
+
+from service.data.frames import Table
+from service.definition.model import CompareChart, ReportDefinition, TrendChart
+from service.errors import Problem
+from service.intents.plan import ChartPlan
+
+
+@dataclass(frozen=True)
+class Context:
+    """What a check may consult besides the plan: the chart's definition, its data, the clock."""
+
+    chart: CompareChart | TrendChart
+    table: Table
+    as_of: datetime
+    locale: str
+
+
+@dataclass(frozen=True)
+class Finding:
+    ok: bool
+    measured: float | int | str | None
+    detail: str
+    shown: str | None = None
+    """The measured value as a reader should see it ("8 of 30 days", "85%"); else ``measured``."""
+
+
+Measure = Callable[[ChartPlan, Context], Finding]
+Correct = Callable[[ChartPlan, Context], ChartPlan]
+
+
+@dataclass(frozen=True)
+class CheckSpec:
+    id: str
+    title: str
+    intents: frozenset[str]
+    forms: frozenset[str]
+    measures: str
+    threshold: str
+    source: str
+    waivable: bool
+    correction: str | None
+    measure: Measure
+    correct: Correct | None = None
+
+    @property
+    def correctable(self) -> bool:
+        return self.correct is not None
+
+    def applies(self, plan: ChartPlan) -> bool:
+        return plan.intent in self.intents and plan.form in self.forms
+
+    def describe(self) -> dict[str, Any]:
+        return {
+            "id": self.id,
+            "title": self.title,
+            "intents": sorted(self.intents),
+            "forms": sorted(self.forms),
+            "measures": self.measures,
+            "threshold": self.threshold,
+            "source": self.source,
+            "correctable": self.correctable,
+            "correction": self.correction,
+            "waivable": self.waivable,
+        }
+
+
+CHECKS: dict[str, CheckSpec] = {}
+
+
+def register(spec: CheckSpec) -> CheckSpec:
+    if spec.id in CHECKS:
+        raise ValueError(f"check id {spec.id!r} is registered twice")
+    if spec.correct is None and spec.correction is not None:
+        raise ValueError(f"check {spec.id!r} describes a correction it cannot make")
+    CHECKS[spec.id] = spec
+    return spec
+
+
+def applicable(plan: ChartPlan) -> list[CheckSpec]:
+    return [spec for spec in CHECKS.values() if spec.applies(plan)]
+
+
+def catalogue() -> list[dict[str, Any]]:
+    return [spec.describe() for spec in CHECKS.values()]
+
+
+def waiver_problems(definition: ReportDefinition) -> Iterable[Problem]:
+    """Waivers must name a known, waivable check that applies to a chart of the report."""
+    charts = {chart.id: chart for _, chart in definition.charts()}
+    seen: set[tuple[str, str]] = set()
+    for w, waiver in enumerate(definition.waivers):
+        path = f"waivers[{w}]"
+        spec = CHECKS.get(waiver.check)
+        if spec is None:
+            close = difflib.get_close_matches(waiver.check, list(CHECKS), n=1)
+            yield Problem(
+                "unknown_check", f"{path}.check", f"there is no check '{waiver.check}'",
+                f"did you mean '{close[0]}'?" if close else "see `plumbline checks`",
+                waiver.check)
+            continue
+        if not spec.waivable:
+            yield Problem(
+                "not_waivable", f"{path}.check",
+                f"the check '{spec.id}' protects the integrity of the data and cannot be waived",
+                "fix the data or the chart instead", waiver.check)
+        chart = charts.get(waiver.chart)
+        if chart is None:
+            close = difflib.get_close_matches(waiver.chart, list(charts), n=1)
+            yield Problem(
+                "unknown_chart", f"{path}.chart", f"there is no chart '{waiver.chart}'",
+                f"did you mean '{close[0]}'?" if close else "name a chart id of this report",
+                waiver.chart)
+        elif chart.intent not in spec.intents:
+            yield Problem(
+                "check_not_applicable", f"{path}.check",
+                f"the check '{spec.id}' does not apply to '{chart.id}' (intent '{chart.intent}')",
+                f"it applies to intents: {', '.join(sorted(spec.intents))}", waiver.check)
+        key = (waiver.check, waiver.chart)
+        if key in seen:
+            yield Problem("duplicate_waiver", path,
+                          f"'{waiver.check}' on '{waiver.chart}' is waived twice",
+                          "keep one waiver per check and chart", list(key))
+        seen.add(key)

@@ -1,0 +1,186 @@
+"""The ``plumbline`` command: schema, checks, check, render, serve.
+
+Exit codes: 0 success; 1 an unwaived check failed (``render`` still writes the draft); 2 the input is
+invalid (every problem is printed with its path) or cannot be read.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+from typing import Any
+
+from service import __version__
+from service.config import Settings, get_settings
+from service.errors import InvalidDefinition, PayloadTooLarge, PlumblineError
+
+EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID = 0, 1, 2
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = _parser()
+    args = parser.parse_args(argv)
+    if not hasattr(args, "run"):
+        parser.print_help()
+        return EXIT_INVALID
+    try:
+        return int(args.run(args, get_settings()))
+    except InvalidDefinition as exc:
+        return _invalid(exc, json_out=getattr(args, "json", False))
+    except PayloadTooLarge as exc:
+        print(f"error: {exc.message}", file=sys.stderr)
+        return EXIT_INVALID
+    except PlumblineError as exc:
+        print(f"error: {exc.message}", file=sys.stderr)
+        return EXIT_INVALID if exc.status < 500 else EXIT_FAILED_CHECKS
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(prog="plumbline", description=__doc__.splitlines()[0])
+    parser.add_argument("--version", action="version", version=f"plumbline {__version__}")
+    sub = parser.add_subparsers(metavar="COMMAND")
+
+    p = sub.add_parser("schema", help="print the JSON Schema of report definitions")
+    p.set_defaults(run=_schema)
+
+    p = sub.add_parser("checks", help="list every integrity check with its rule and source")
+    p.add_argument("--json", action="store_true", help="machine-readable output")
+    p.set_defaults(run=_checks)
+
+    p = sub.add_parser("check", help="validate a definition and run its checks without rendering")
+    p.add_argument("definition", type=Path)
+    p.add_argument("--json", action="store_true", help="machine-readable output")
+    p.set_defaults(run=_check)
+
+    p = sub.add_parser("render", help="render a definition into a draft PDF pack")
+    p.add_argument("definition", type=Path)
+    p.add_argument("-o", "--output", type=Path, required=True, help="where to write the PDF")
+    p.add_argument("--json", action="store_true", help="machine-readable output")
+    p.set_defaults(run=_render)
+
+    p = sub.add_parser("serve", help="start the HTTP service")
+    p.add_argument("--host", default=None)
+    p.add_argument("--port", type=int, default=None)
+    p.set_defaults(run=_serve)
+    return parser
+
+
+def _read(path: Path) -> bytes:
+    try:
+        return path.read_bytes()
+    except OSError as exc:
+        raise PlumblineError(f"cannot read {path}: {exc.strerror}") from None
+
+
+def _invalid(exc: InvalidDefinition, *, json_out: bool) -> int:
+    if json_out:
+        print(json.dumps({"errors": [p.as_dict() for p in exc.problems]}, indent=2, default=str))
+    else:
+        print(f"invalid definition: {exc.message}", file=sys.stderr)
+        for problem in exc.problems:
+            print(f"  {problem.line()}", file=sys.stderr)
+    return EXIT_INVALID
+
+
+def _schema(args: argparse.Namespace, settings: Settings) -> int:
+    from service.definition.schema import definition_schema
+
+    print(json.dumps(definition_schema(), indent=2))
+    return EXIT_OK
+
+
+def _checks(args: argparse.Namespace, settings: Settings) -> int:
+    from service import pipeline  # noqa: F401  (registers the checks)
+    from service.checks import registry
+
+    catalogue = registry.catalogue()
+    if args.json:
+        print(json.dumps(catalogue, indent=2))
+        return EXIT_OK
+    for spec in catalogue:
+        powers = []
+        powers.append("corrects automatically" if spec["correctable"] else "cannot correct")
+        powers.append("waivable" if spec["waivable"] else "not waivable")
+        print(f"{spec['id']}  —  {spec['title']}")
+        print(f"    applies to: {', '.join(spec['intents'])} ({', '.join(spec['forms'])})")
+        print(f"    measures:   {spec['measures']}")
+        print(f"    threshold:  {spec['threshold']}")
+        print(f"    source:     {spec['source']}")
+        print(f"    {'; '.join(powers)}")
+    return EXIT_OK
+
+
+def _report(checked_results: list[dict[str, Any]], summary: str, unused: list[str]) -> None:
+    for r in checked_results:
+        measured = "" if r["measured"] is None else f" [{r['measured']}]"
+        print(f"  {r['status']:<9} {r['chart']} / {r['check']}{measured}: {r['explanation']}")
+    for waiver in unused:
+        print(f"  note: the waiver for {waiver} was not needed")
+    print(summary)
+
+
+def _check(args: argparse.Namespace, settings: Settings) -> int:
+    from service import pipeline
+    from service.checks.results import summary, summary_line
+
+    checked = pipeline.check(pipeline.intake(_read(args.definition), settings.limits))
+    results = [r.model_dump(mode="json") for r in checked.results]
+    if args.json:
+        print(json.dumps({
+            "report": checked.definition.report.id,
+            "blocked": checked.blocked,
+            "summary": summary(checked.results),
+            "results": results,
+            "unused_waivers": checked.unused_waivers,
+        }, indent=2))
+    else:
+        _report(results, summary_line(checked.results), checked.unused_waivers)
+        _blocked_message(checked.blocked, results)
+    return EXIT_FAILED_CHECKS if checked.blocked else EXIT_OK
+
+
+def _blocked_message(blocked: bool, results: list[dict[str, Any]]) -> None:
+    if not blocked:
+        return
+    failed = [f"{r['check']} on {r['chart']}" for r in results if r["status"] == "failed"]
+    print(f"BLOCKED: the pack cannot be signed off until these are fixed or waived: "
+          f"{', '.join(failed)}", file=sys.stderr)
+
+
+def _render(args: argparse.Namespace, settings: Settings) -> int:
+    from service import pipeline
+    from service.archive import files
+
+    built = pipeline.build(_read(args.definition), settings.limits)
+    files.write_atomic(args.output, built.pdf)
+    if args.json:
+        print(json.dumps({
+            "pdf": str(args.output), "bytes": len(built.pdf), "blocked": built.blocked,
+            "summary": built.summary, "results": built.results,
+            "unused_waivers": built.unused_waivers,
+        }, indent=2))
+    else:
+        if built.blocked:
+            _report(built.results, built.summary, built.unused_waivers)
+        print(f"wrote {args.output} ({len(built.pdf):,} bytes)")
+        print(built.summary)
+        _blocked_message(built.blocked, built.results)
+    return EXIT_FAILED_CHECKS if built.blocked else EXIT_OK
+
+
+def _serve(args: argparse.Namespace, settings: Settings) -> int:
+    import uvicorn
+
+    from service.api.app import create_app
+
+    uvicorn.run(
+        create_app(settings), host=args.host or settings.host,
+        port=settings.port if args.port is None else args.port, log_level="info",
+    )
+    return EXIT_OK
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,56 @@
+"""One typed settings object, read once at start-up from ``PLUMBLINE_*`` environment variables."""
+
+from __future__ import annotations
+
+import os
+from functools import lru_cache
+from pathlib import Path
+
+from pydantic import BaseModel, Field, model_validator
+from pydantic_settings import BaseSettings, SettingsConfigDict
+
+
+class Limits(BaseModel):
+    """Size limits on a definition; every one is answered with a ``limit_exceeded`` problem."""
+
+    model_config = {"frozen": True}
+
+    max_payload_bytes: int = Field(10_000_000, ge=1_000)
+    max_datasets: int = Field(50, ge=1)
+    max_rows: int = Field(200_000, ge=1)
+    max_columns: int = Field(64, ge=1)
+    max_sections: int = Field(50, ge=1)
+    max_charts: int = Field(200, ge=1)
+    max_categories: int = Field(60, ge=1)
+    max_series: int = Field(8, ge=1)
+    max_table_rows: int = Field(200, ge=1)
+    max_text_chars: int = Field(5_000, ge=10)
+    max_label_chars: int = Field(200, ge=10)
+
+
+class Settings(BaseSettings):
+    model_config = SettingsConfigDict(
+        env_prefix="PLUMBLINE_", env_nested_delimiter="__", extra="ignore"
+    )
+
+    data_dir: Path = Path("var")
+    database_url: str = ""
+    workers: int = Field(default_factory=lambda: max(1, os.cpu_count() or 1), ge=1, le=64)
+    host: str = "127.0.0.1"
+    port: int = Field(8000, ge=0, le=65535)
+    limits: Limits = Limits()
+
+    @model_validator(mode="after")
+    def _default_database(self) -> Settings:
+        if not self.database_url:
+            self.database_url = f"sqlite:///{self.data_dir / 'plumbline.db'}"
+        return self
+
+    @property
+    def store_dir(self) -> Path:
+        return self.data_dir / "files"
+
+
+@lru_cache(maxsize=1)
+def get_settings() -> Settings:
+    return Settings()

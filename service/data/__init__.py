@@ -1,0 +1,1 @@
+"""Datasets as typed pandas frames, and calendar periods for time series."""

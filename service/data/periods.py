@@ -1,0 +1,100 @@
+"""Calendar periods: mapping times to periods, the periods a series should have, and completeness.
+
+Weeks are ISO 8601 weeks (Monday to Sunday). A period is *partial* when ``as_of`` falls inside it;
+its completeness counts whole days elapsed before ``as_of`` out of the days in the period.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from datetime import datetime, timedelta
+
+import pandas as pd
+from babel.dates import format_date
+
+from service.definition.model import Frequency
+
+_PANDAS_FREQ: dict[Frequency, str] = {
+    Frequency.day: "D",
+    Frequency.week: "W-SUN",  # weeks ending on Sunday, i.e. starting on Monday (ISO 8601)
+    Frequency.month: "M",
+    Frequency.quarter: "Q-DEC",
+    Frequency.year: "Y-DEC",
+}
+
+
+def pandas_freq(frequency: Frequency) -> str:
+    return _PANDAS_FREQ[frequency]
+
+
+def to_periods(times: pd.Series, frequency: Frequency) -> pd.PeriodIndex:
+    """The period each (naive) timestamp falls in."""
+    return pd.PeriodIndex(pd.DatetimeIndex(times).to_period(pandas_freq(frequency)))
+
+
+def expected(first: pd.Period, last: pd.Period) -> pd.PeriodIndex:
+    """Every period from ``first`` to ``last`` inclusive, at their frequency."""
+    return pd.period_range(first, last, freq=first.freq)
+
+
+def missing(present: pd.PeriodIndex) -> list[pd.Period]:
+    """Periods between the first and last present one that have no row."""
+    if len(present) == 0:
+        return []
+    full = expected(present.min(), present.max())
+    return list(full.difference(present))
+
+
+def start(period: pd.Period) -> datetime:
+    return period.start_time.to_pydatetime()  # type: ignore[no-any-return]
+
+
+def end(period: pd.Period) -> datetime:
+    """The first instant after the period."""
+    return (period + 1).start_time.to_pydatetime()  # type: ignore[no-any-return]
+
+
+def days(period: pd.Period) -> int:
+    return (end(period) - start(period)).days
+
+
+@dataclass(frozen=True)
+class Completeness:
+    elapsed_days: int
+    total_days: int
+
+    @property
+    def fraction(self) -> float:
+        return self.elapsed_days / self.total_days
+
+    def text(self) -> str:
+        unit = "day" if self.total_days == 1 else "days"
+        return f"{self.elapsed_days} of {self.total_days} {unit}"
+
+
+def completeness(period: pd.Period, as_of: datetime) -> Completeness | None:
+    """How much of ``period`` had elapsed at ``as_of``; ``None`` when the period was complete."""
+    begin, finish = start(period), end(period)
+    if as_of >= finish:
+        return None
+    elapsed = max(0, (as_of - begin) // timedelta(days=1))
+    return Completeness(elapsed_days=elapsed, total_days=(finish - begin).days)
+
+
+def label(period: pd.Period, frequency: Frequency, locale: str) -> str:
+    """A short label for an axis or a table, in the report's locale."""
+    first = start(period).date()
+    if frequency is Frequency.day:
+        return str(format_date(first, "d MMM y", locale=_babel(locale)))
+    if frequency is Frequency.week:
+        year, week, _ = first.isocalendar()
+        return f"{year}-W{week:02d}"
+    if frequency is Frequency.month:
+        return str(format_date(first, "MMM y", locale=_babel(locale)))
+    if frequency is Frequency.quarter:
+        return f"Q{period.quarter} {period.year}"
+    return str(period.year)
+
+
+def _babel(locale: str) -> str:
+    return locale.replace("-", "_")

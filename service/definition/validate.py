@@ -1,0 +1,408 @@
+"""Turn raw bytes into a :class:`ReportDefinition`, or into every problem found, each with a path.
+
+Three passes, each reporting all it finds: size limits on the raw payload, the shape (pydantic, its
+errors translated into our stable codes), then references between parts (unknown dataset or column, a
+column of the wrong type for the intent, duplicate ids, missing units). Checks on the *values* of the
+data live in :mod:`service.data.frames`; waiver references in :mod:`service.checks.registry`.
+"""
+
+from __future__ import annotations
+
+import difflib
+import json
+from collections import Counter
+from collections.abc import Iterable
+from typing import Any
+
+from pydantic import ValidationError
+
+from service.config import Limits
+from service.definition import paths
+from service.definition.model import (
+    ColumnType,
+    CompareChart,
+    Dataset,
+    ReportDefinition,
+    TrendChart,
+)
+from service.errors import InvalidDefinition, PayloadTooLarge, Problem
+
+NUMERIC = frozenset({ColumnType.number, ColumnType.integer})
+TEMPORAL = frozenset({ColumnType.date, ColumnType.timestamp})
+
+#: pydantic error types → our stable codes and hints. Anything unlisted becomes ``invalid_value``.
+_PYDANTIC_CODES: dict[str, tuple[str, str]] = {
+    "missing": ("required", "add this field"),
+    "extra_forbidden": ("unknown_field", "remove it, or check its spelling against the schema"),
+    "literal_error": ("not_allowed", "use one of the allowed values"),
+    "enum": ("not_allowed", "use one of the allowed values"),
+    "union_tag_invalid": ("unknown_intent", "use one of the intents listed in the schema"),
+    "union_tag_not_found": ("required", "every chart names its 'intent'"),
+    "string_too_short": ("too_short", "write more"),
+    "string_too_long": ("too_long", "shorten the text"),
+    "string_pattern_mismatch": ("bad_format", "follow the pattern given in the schema"),
+    "too_short": ("too_few_items", "add at least the minimum number of items"),
+    "timezone_aware": ("timezone_missing", "add a time zone offset, e.g. 2026-11-09T08:00:00+00:00"),
+    "datetime_from_date_parsing": ("bad_timestamp", "use ISO 8601, e.g. 2026-11-09T08:00:00+00:00"),
+    "datetime_parsing": ("bad_timestamp", "use ISO 8601, e.g. 2026-11-09T08:00:00+00:00"),
+    "datetime_type": ("bad_timestamp", "use ISO 8601, e.g. 2026-11-09T08:00:00+00:00"),
+    "date_from_datetime_parsing": ("bad_date", "use ISO 8601 dates, e.g. 2026-10-31"),
+    "date_parsing": ("bad_date", "use ISO 8601 dates, e.g. 2026-10-31"),
+    "date_type": ("bad_date", "use ISO 8601 dates, e.g. 2026-10-31"),
+    "value_error": ("invalid_value", ""),
+}
+
+
+def parse(raw: bytes | str, limits: Limits) -> ReportDefinition:
+    """Parse and validate a definition sent as JSON; raise :class:`InvalidDefinition` with all problems."""
+    data = raw.encode() if isinstance(raw, str) else raw
+    if len(data) > limits.max_payload_bytes:
+        raise PayloadTooLarge(size=len(data), limit=limits.max_payload_bytes)
+    try:
+        document = json.loads(data)
+    except (UnicodeDecodeError, json.JSONDecodeError, RecursionError) as exc:
+        raise InvalidDefinition([_json_problem(exc)]) from None
+    return validate(document, limits)
+
+
+def validate(document: Any, limits: Limits) -> ReportDefinition:
+    if not isinstance(document, dict):
+        raise InvalidDefinition(
+            [Problem("not_an_object", "", "a definition is a JSON object", "send {\"version\": 1, …}")]
+        )
+    problems = list(_count_limits(document, limits))
+    try:
+        definition = ReportDefinition.model_validate(document)
+    except ValidationError as exc:
+        problems.extend(_translate(exc, document))
+        raise InvalidDefinition(problems) from None
+    problems.extend(_text_limits(definition, limits))
+    problems.extend(references(definition))
+    if problems:
+        raise InvalidDefinition(problems)
+    return definition
+
+
+def _json_problem(exc: Exception) -> Problem:
+    if isinstance(exc, json.JSONDecodeError):
+        return Problem(
+            "invalid_json",
+            "",
+            f"the body is not valid JSON: {exc.msg} at line {exc.lineno} column {exc.colno}",
+            "send a JSON object; check for a missing comma or quote near that place",
+        )
+    if isinstance(exc, RecursionError):
+        return Problem("too_deep", "", "the JSON is nested too deeply", "flatten the document")
+    return Problem("invalid_json", "", "the body is not UTF-8 text", "send UTF-8 encoded JSON")
+
+
+def _translate(exc: ValidationError, document: dict[str, Any]) -> Iterable[Problem]:
+    for error in exc.errors(include_url=False):
+        code, hint = _PYDANTIC_CODES.get(error["type"], ("invalid_value", ""))
+        loc = error["loc"]
+        message = str(error["msg"])
+        if message.startswith("Value error, "):
+            message = message.removeprefix("Value error, ")
+        ctx = {k: str(v) for k, v in (error.get("ctx") or {}).items() if k != "error"}
+        if code == "unknown_field":
+            hint = _suggest_field(document, loc) or hint
+        elif code == "not_allowed" and "expected" in ctx:
+            hint = f"use one of: {ctx['expected']}"
+        elif code == "unknown_intent" and "expected_tags" in ctx:
+            hint = f"use one of: {ctx['expected_tags']}"
+        value = error.get("input") if code not in {"required"} else None
+        if isinstance(value, dict | list):
+            value = None  # the path says where; echoing a whole object helps no one
+        yield Problem(code, paths.join(loc), message, hint, value, ctx)
+
+
+def _suggest_field(document: dict[str, Any], loc: tuple[int | str, ...]) -> str:
+    """For a misspelt field, name the closest allowed one."""
+    from service.definition import model  # local: only needed on this error path
+
+    owner = _owner_model(loc[:-1], document, model)
+    if owner is None:
+        return ""
+    close = difflib.get_close_matches(str(loc[-1]), list(owner.model_fields), n=1)
+    return f"did you mean '{close[0]}'?" if close else ""
+
+
+def _owner_model(loc: tuple[int | str, ...], document: Any, model: Any) -> Any:
+    current: Any = model.ReportDefinition
+    node: Any = document
+    for part in loc:
+        if isinstance(part, int):
+            node = node[part] if isinstance(node, list) and part < len(node) else None
+            continue
+        if part in {"compare", "trend"}:
+            continue
+        node = node.get(part) if isinstance(node, dict) else None
+        current = _FIELD_MODELS.get((current.__name__, part))
+        if current is None:
+            return None
+        if current is _CHART:
+            intent = node.get("intent") if isinstance(node, dict) else None
+            current = {"compare": model.CompareChart, "trend": model.TrendChart}.get(str(intent))
+            if current is None:
+                return None
+    return current
+
+
+_CHART = object()
+
+
+def _init_field_models() -> dict[tuple[str, str], Any]:
+    from service.definition import model
+
+    return {
+        ("ReportDefinition", "report"): model.Report,
+        ("ReportDefinition", "datasets"): model.Dataset,
+        ("ReportDefinition", "sections"): model.Section,
+        ("ReportDefinition", "waivers"): model.Waiver,
+        ("Report", "period"): model.Period,
+        ("Dataset", "columns"): model.Column,
+        ("Section", "charts"): _CHART,
+        ("Section", "tables"): model.Table,
+    }
+
+
+_FIELD_MODELS = _init_field_models()
+
+
+def _count_limits(document: dict[str, Any], limits: Limits) -> Iterable[Problem]:
+    """Sizes checked on the raw document, so an oversized part is refused before deeper work."""
+
+    def over(path: str, what: str, size: int, limit: int, setting: str) -> Problem:
+        return Problem(
+            "limit_exceeded",
+            path,
+            f"{what}: {size} is more than the limit of {limit}",
+            f"split the report, or raise PLUMBLINE_LIMITS__{setting.upper()}",
+            size,
+            {"limit": limit, "setting": setting},
+        )
+
+    datasets = document.get("datasets")
+    if isinstance(datasets, list):
+        if len(datasets) > limits.max_datasets:
+            yield over("datasets", "too many datasets", len(datasets), limits.max_datasets,
+                       "max_datasets")
+        for i, dataset in enumerate(datasets):
+            if not isinstance(dataset, dict):
+                continue
+            rows = dataset.get("rows")
+            if isinstance(rows, list) and len(rows) > limits.max_rows:
+                yield over(f"datasets[{i}].rows", "too many rows", len(rows), limits.max_rows,
+                           "max_rows")
+            csv_text = dataset.get("csv")
+            if isinstance(csv_text, str):
+                lines = csv_text.count("\n") + (0 if csv_text.endswith("\n") else 1) - 1
+                if lines > limits.max_rows:
+                    yield over(f"datasets[{i}].csv", "too many rows", lines, limits.max_rows,
+                               "max_rows")
+            columns = dataset.get("columns")
+            if isinstance(columns, list) and len(columns) > limits.max_columns:
+                yield over(f"datasets[{i}].columns", "too many columns", len(columns),
+                           limits.max_columns, "max_columns")
+    sections = document.get("sections")
+    if isinstance(sections, list):
+        if len(sections) > limits.max_sections:
+            yield over("sections", "too many sections", len(sections), limits.max_sections,
+                       "max_sections")
+        charts = sum(
+            len(s["charts"]) for s in sections if isinstance(s, dict)
+            and isinstance(s.get("charts"), list)
+        )
+        if charts > limits.max_charts:
+            yield over("sections", "too many charts", charts, limits.max_charts, "max_charts")
+
+
+def _text_limits(definition: ReportDefinition, limits: Limits) -> Iterable[Problem]:
+    def check(path: str, text: str | None, limit: int, setting: str) -> Iterable[Problem]:
+        if text is not None and len(text) > limit:
+            yield Problem(
+                "limit_exceeded",
+                path,
+                f"text of {len(text)} characters is longer than the limit of {limit}",
+                f"shorten it, or raise PLUMBLINE_LIMITS__{setting.upper()}",
+                len(text),
+                {"limit": limit, "setting": setting},
+            )
+
+    label, text = limits.max_label_chars, limits.max_text_chars
+    r = definition.report
+    yield from check("report.title", r.title, label, "max_label_chars")
+    yield from check("report.owner", r.owner, label, "max_label_chars")
+    yield from check("report.audience", r.audience, label, "max_label_chars")
+    for s, section in enumerate(definition.sections):
+        yield from check(f"sections[{s}].heading", section.heading, label, "max_label_chars")
+        yield from check(f"sections[{s}].narrative", section.narrative, text, "max_text_chars")
+        for c, chart in enumerate(section.charts):
+            base = f"sections[{s}].charts[{c}]"
+            yield from check(f"{base}.title", chart.title, label, "max_label_chars")
+            yield from check(f"{base}.subtitle", chart.subtitle, label, "max_label_chars")
+            yield from check(f"{base}.note", chart.note, text, "max_text_chars")
+        for t, table in enumerate(section.tables):
+            yield from check(f"sections[{s}].tables[{t}].title", table.title, label,
+                             "max_label_chars")
+    for w, waiver in enumerate(definition.waivers):
+        yield from check(f"waivers[{w}].reason", waiver.reason, text, "max_text_chars")
+
+
+def references(definition: ReportDefinition) -> Iterable[Problem]:
+    """Problems between parts of a structurally valid definition."""
+    yield from _duplicates(definition)
+    for d, dataset in enumerate(definition.datasets):
+        yield from _dataset_problems(f"datasets[{d}]", dataset)
+    names = [d.name for d in definition.datasets]
+    for path, chart in definition.charts():
+        dataset = definition.dataset(chart.dataset)
+        if dataset is None:
+            yield _unknown(f"{path}.dataset", "dataset", chart.dataset, names)
+            continue
+        if isinstance(chart, CompareChart):
+            yield from _compare_problems(path, chart, dataset)
+        elif isinstance(chart, TrendChart):
+            yield from _trend_problems(path, chart, dataset)
+    for s, section in enumerate(definition.sections):
+        for t, table in enumerate(section.tables):
+            path = f"sections[{s}].tables[{t}]"
+            dataset = definition.dataset(table.dataset)
+            if dataset is None:
+                yield _unknown(f"{path}.dataset", "dataset", table.dataset, names)
+                continue
+            known = [c.name for c in dataset.columns]
+            for i, column in enumerate(table.columns or []):
+                if column not in known:
+                    yield _unknown(f"{path}.columns[{i}]", "column", column, known, dataset.name)
+
+
+def _duplicates(definition: ReportDefinition) -> Iterable[Problem]:
+    ids: list[tuple[str, str]] = [(p, c.id) for p, c in definition.charts()]
+    ids += [
+        (f"sections[{s}].tables[{t}]", table.id)
+        for s, section in enumerate(definition.sections)
+        for t, table in enumerate(section.tables)
+    ]
+    yield from _repeated(ids, "id", "chart and table ids must be unique within a report")
+    yield from _repeated(
+        [(f"datasets[{d}]", ds.name) for d, ds in enumerate(definition.datasets)],
+        "name",
+        "dataset names must be unique",
+    )
+    for d, dataset in enumerate(definition.datasets):
+        yield from _repeated(
+            [(f"datasets[{d}].columns[{i}]", c.name) for i, c in enumerate(dataset.columns)],
+            "name",
+            "column names must be unique within a dataset",
+        )
+
+
+def _repeated(items: list[tuple[str, str]], field: str, hint: str) -> Iterable[Problem]:
+    counts = Counter(value for _, value in items)
+    seen: set[str] = set()
+    for path, value in items:
+        if counts[value] > 1:
+            if value in seen:
+                where = f"{path}.{field}" if field else path
+                yield Problem("duplicate_id", where, f"'{value}' is used more than once", hint, value)
+            seen.add(value)
+
+
+def _dataset_problems(path: str, dataset: Dataset) -> Iterable[Problem]:
+    if dataset.time_column is None:
+        return
+    column = next((c for c in dataset.columns if c.name == dataset.time_column), None)
+    known = [c.name for c in dataset.columns]
+    if column is None:
+        yield _unknown(f"{path}.time_column", "column", dataset.time_column, known, dataset.name)
+    elif column.type not in TEMPORAL:
+        yield Problem(
+            "column_type_mismatch",
+            f"{path}.time_column",
+            f"the time column '{column.name}' has type '{column.type}'",
+            "declare it as type 'date' or 'timestamp'",
+            column.type.value,
+        )
+
+
+def _column(dataset: Dataset, name: str) -> ColumnType | None:
+    return next((c.type for c in dataset.columns if c.name == name), None)
+
+
+def _measure_problems(path: str, dataset: Dataset, name: str) -> Iterable[Problem]:
+    column = next((c for c in dataset.columns if c.name == name), None)
+    if column is None:
+        yield _unknown(path, "column", name, [c.name for c in dataset.columns], dataset.name)
+        return
+    if column.type not in NUMERIC:
+        yield Problem(
+            "column_type_mismatch",
+            path,
+            f"the measure '{name}' has type '{column.type}', but a measure must be numeric",
+            "choose a column of type 'number' or 'integer'",
+            column.type.value,
+        )
+    if not column.unit:
+        yield Problem(
+            "unit_missing",
+            path,
+            f"the measure '{name}' has no unit, and a chart must say what its numbers count",
+            f"give the column '{name}' a 'unit' in dataset '{dataset.name}' (e.g. 'GBP', '%', "
+            "'journeys')",
+            name,
+        )
+
+
+def _compare_problems(path: str, chart: CompareChart, dataset: Dataset) -> Iterable[Problem]:
+    kind = _column(dataset, chart.category)
+    if kind is None:
+        yield _unknown(f"{path}.category", "column", chart.category,
+                       [c.name for c in dataset.columns], dataset.name)
+    elif kind is not ColumnType.text:
+        yield Problem(
+            "column_type_mismatch",
+            f"{path}.category",
+            f"the category '{chart.category}' has type '{kind}', but categories are text",
+            "choose a column of type 'text', or use intent 'trend' for values over time",
+            kind.value,
+        )
+    yield from _measure_problems(f"{path}.measure", dataset, chart.measure)
+
+
+def _trend_problems(path: str, chart: TrendChart, dataset: Dataset) -> Iterable[Problem]:
+    if dataset.time_column is None:
+        yield Problem(
+            "time_column_missing",
+            f"{path}.dataset",
+            f"a trend needs time, but dataset '{dataset.name}' declares no time column",
+            f"give dataset '{dataset.name}' a 'time_column' and a 'frequency'",
+            dataset.name,
+        )
+    units: dict[str, str] = {}
+    for i, measure in enumerate(chart.measures):
+        yield from _measure_problems(f"{path}.measures[{i}]", dataset, measure)
+        column = next((c for c in dataset.columns if c.name == measure), None)
+        if column is not None and column.unit:
+            units[measure] = column.unit
+    if len(set(units.values())) > 1:
+        listed = ", ".join(f"{m} ({u})" for m, u in units.items())
+        yield Problem(
+            "mixed_units",
+            f"{path}.measures",
+            f"the measures have different units: {listed}; one axis cannot honestly carry them",
+            "draw one chart per unit (Plumbline never draws two y-axes)",
+            list(units.values()),
+        )
+    yield from _repeated(
+        [(f"{path}.measures[{i}]", m) for i, m in enumerate(chart.measures)],
+        "",
+        "name each measure once",
+    )
+
+
+def _unknown(path: str, what: str, value: str, known: list[str], owner: str = "") -> Problem:
+    close = difflib.get_close_matches(value, known, n=1)
+    where = f" in dataset '{owner}'" if owner else ""
+    hint = f"did you mean '{close[0]}'?" if close else f"known: {', '.join(known) or 'none'}"
+    return Problem(f"unknown_{what}", path, f"there is no {what} '{value}'{where}", hint, value)

@@ -1,0 +1,95 @@
+"""The product's exception hierarchy.
+
+Every error Plumbline raises on purpose derives from :class:`PlumblineError` and carries a stable
+``code`` and the HTTP status the API answers with::
+
+    PlumblineError (500, internal_error)
+    ├── InvalidDefinition (422, invalid_definition)   every problem found, each with a path
+    ├── PayloadTooLarge (413, payload_too_large)       before the body is parsed
+    ├── NotFound (404, not_found)
+    └── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
+
+Foreign exceptions are translated at the stage boundary (``raise RenderFailed(...) from exc``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+
+@dataclass(frozen=True)
+class Problem:
+    """One thing wrong with a definition: what, where, the offending value, and how to fix it."""
+
+    code: str
+    path: str
+    message: str
+    hint: str = ""
+    value: Any = None
+    context: dict[str, Any] = field(default_factory=dict)
+
+    def as_dict(self) -> dict[str, Any]:
+        out: dict[str, Any] = {
+            "code": self.code,
+            "path": self.path,
+            "message": self.message,
+            "hint": self.hint,
+            "value": self.value,
+        }
+        if self.context:
+            out["context"] = self.context
+        return out
+
+    def line(self) -> str:
+        shown = "" if self.value is None else f" (got {_short(self.value)})"
+        hint = f" — {self.hint}" if self.hint else ""
+        return f"{self.path or '<root>'}: [{self.code}] {self.message}{shown}{hint}"
+
+
+def _short(value: Any, limit: int = 60) -> str:
+    text = repr(value)
+    return text if len(text) <= limit else text[: limit - 1] + "…"
+
+
+class PlumblineError(Exception):
+    code = "internal_error"
+    status = 500
+
+    def __init__(self, message: str) -> None:
+        super().__init__(message)
+        self.message = message
+
+
+class InvalidDefinition(PlumblineError):
+    code = "invalid_definition"
+    status = 422
+
+    def __init__(self, problems: list[Problem]) -> None:
+        noun = "problem" if len(problems) == 1 else "problems"
+        super().__init__(f"the report definition has {len(problems)} {noun}")
+        self.problems = problems
+
+
+class PayloadTooLarge(PlumblineError):
+    code = "payload_too_large"
+    status = 413
+
+    def __init__(self, *, size: int, limit: int) -> None:
+        super().__init__(
+            f"the request body is larger than the limit of {limit} bytes "
+            f"(read {size} bytes before stopping); send less data, or raise "
+            "PLUMBLINE_MAX_PAYLOAD_BYTES"
+        )
+        self.size = size
+        self.limit = limit
+
+
+class NotFound(PlumblineError):
+    code = "not_found"
+    status = 404
+
+
+class RenderFailed(PlumblineError):
+    code = "render_failed"
+    status = 500

@@ -1,0 +1,93 @@
+"""``compare``: one measure across categories.
+
+Totals are drawn as zero-based bars (length encodes value). A requested non-zero baseline is carried
+into the plan as asked; the check ``bar-zero-baseline`` corrects it unless waived. When the definition
+asks to focus on small differences, the encoder draws dots on a fitted scale (position, not length) and
+the chart says that its scale does not start at zero.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+
+import pandas as pd
+
+from service import formatting
+from service.config import Limits
+from service.data.frames import Table
+from service.definition.model import CompareChart
+from service.errors import Problem
+from service.intents import scales
+from service.intents.plan import Category, ChartPlan, Scale
+
+
+def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
+    labels = table.frame[chart.category]
+    if len(labels) > limits.max_categories:
+        yield Problem(
+            "limit_exceeded", f"{path}.category",
+            f"{len(labels)} categories are more than the limit of {limits.max_categories}",
+            "show the largest categories and group the rest as 'Other' in the data, or raise "
+            "PLUMBLINE_LIMITS__MAX_CATEGORIES", len(labels),
+            {"limit": limits.max_categories, "setting": "max_categories"})
+    if labels.isna().any():
+        yield Problem(
+            "category_missing", f"{path}.category",
+            f"{int(labels.isna().sum())} rows of dataset '{table.name}' have no '{chart.category}'",
+            "give every row a category label", None)
+    repeated = labels[labels.duplicated() & labels.notna()]
+    if not repeated.empty:
+        yield Problem(
+            "duplicate_category", f"{path}.category",
+            f"categories appear more than once: {', '.join(map(str, repeated.unique()[:5]))}",
+            "give one row per category (add the rows up in the data first)",
+            str(repeated.iloc[0]))
+    if len(labels) == 0:
+        yield Problem("empty_dataset", f"{path}.dataset",
+                      f"dataset '{table.name}' has no rows to compare", "add rows", table.name)
+
+
+def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
+    frame = table.frame[[chart.category, chart.measure]]
+    if chart.sort != "as_given":
+        frame = frame.sort_values(
+            chart.measure, ascending=chart.sort == "ascending", kind="stable", na_position="last"
+        )
+    values = [None if pd.isna(v) else float(v) for v in frame[chart.measure]]
+    categories = [Category(label=str(c), value=v)
+                  for c, v in zip(frame[chart.category], values, strict=True)]
+    present = [v for v in values if v is not None]
+    unit = table.units.get(chart.measure, "")
+    label = formatting.titled(chart.measure, unit)
+    notes: list[str] = []
+    if chart.focus == "differences":
+        lo, hi = scales.fit(present, include_zero=False)
+        scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
+        if not scale.includes_zero:
+            notes.append(scale_note(scale, locale))
+        return ChartPlan(
+            chart_id=chart.id, intent=chart.intent, form="dots", title=chart.title,
+            subtitle=chart.subtitle, note=chart.note, locale=locale, value_axis=scale,
+            categories=categories, notes=notes,
+        )
+    base = chart.baseline if chart.baseline is not None else 0.0
+    lo, hi = scales.fit([*present, base], include_zero=base == 0.0)
+    if base != 0.0:
+        lo = base if base > 0 else min(lo, base)
+    return ChartPlan(
+        chart_id=chart.id, intent=chart.intent, form="bars", title=chart.title,
+        subtitle=chart.subtitle, note=chart.note, locale=locale,
+        value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label),
+        bar_base=base, categories=categories,
+        notes=[] if base == 0.0 else [truncation_note(base, unit, locale)],
+    )
+
+
+def truncation_note(base: float, unit: str, locale: str) -> str:
+    start = formatting.with_unit(base, unit, locale)
+    return f"Bars start at {start}, not zero: their lengths exaggerate the differences."
+
+
+def scale_note(scale: Scale, locale: str) -> str:
+    start = formatting.with_unit(scale.lo, scale.unit, locale)
+    return f"Scale starts at {start}, not zero: compare positions, not lengths."

@@ -1,0 +1,42 @@
+"""Value-axis ranges shared by the encoders."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable
+
+
+def nice_step(span: float, target_ticks: int = 5) -> float:
+    """A 1–2–5 step that splits ``span`` into about ``target_ticks`` intervals."""
+    if span <= 0 or not math.isfinite(span):
+        return 1.0
+    raw = span / target_ticks
+    magnitude = 10 ** math.floor(math.log10(raw))
+    for factor in (1, 2, 2.5, 5, 10):
+        if factor * magnitude >= raw:
+            return factor * magnitude
+    return 10 * magnitude
+
+
+def fit(values: Iterable[float], *, include_zero: bool, pad: float = 0.06) -> tuple[float, float]:
+    """A range that holds every value with a little room, widened to whole tick steps."""
+    finite = [v for v in values if math.isfinite(v)]
+    if not finite:
+        return (0.0, 1.0)
+    lo, hi = min(finite), max(finite)
+    if include_zero:
+        lo, hi = min(lo, 0.0), max(hi, 0.0)
+    if lo == hi:
+        lo, hi = (lo - 1.0, hi + 1.0) if lo == 0 else (lo - abs(lo) * 0.1, hi + abs(hi) * 0.1)
+    room = (hi - lo) * pad
+    step = nice_step(hi - lo)
+    new_lo = lo if (include_zero and lo == 0.0) else math.floor((lo - room) / step) * step
+    new_hi = hi if (include_zero and hi == 0.0) else math.ceil((hi + room) / step) * step
+    if include_zero and lo >= 0.0:
+        new_lo = 0.0
+    return (_tidy(new_lo), _tidy(new_hi))
+
+
+def _tidy(value: float) -> float:
+    """Drop floating-point dust (3.8000000000000003 → 3.8) so labels and notes read cleanly."""
+    return float(f"{value:.12g}")

@@ -1,0 +1,89 @@
+"""``trend``: one or more measures (sharing a unit) over time.
+
+The time axis holds every period from the first to the last with data, at the declared frequency, so a
+missing period has a place: lines are broken there and the period is marked "no data" (never joined
+across, never filled with zero). The last period is judged against ``as_of``: if it was still running,
+it is drawn hollow and labelled with its completeness.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+from datetime import datetime
+
+import pandas as pd
+
+from service import formatting
+from service.config import Limits
+from service.data import periods
+from service.data.frames import Table
+from service.definition.model import TrendChart
+from service.errors import Problem
+from service.intents import scales
+from service.intents.compare import scale_note
+from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series
+
+
+def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
+    if len(chart.measures) > limits.max_series:
+        yield Problem(
+            "limit_exceeded", f"{path}.measures",
+            f"{len(chart.measures)} series are more than the limit of {limits.max_series}",
+            "split the chart, or raise PLUMBLINE_LIMITS__MAX_SERIES", len(chart.measures),
+            {"limit": limits.max_series, "setting": "max_series"})
+    if table.periods is None or len(table.periods) == 0:
+        yield Problem("empty_dataset", f"{path}.dataset",
+                      f"dataset '{table.name}' has no rows to draw", "add rows", table.name)
+        return
+    for i, measure in enumerate(chart.measures):
+        if table.frame[measure].isna().all():
+            yield Problem(
+                "no_values", f"{path}.measures[{i}]",
+                f"'{measure}' has no values at all in dataset '{table.name}'",
+                "give it values, or drop it from the chart", measure)
+
+
+def runs(values: list[float | None]) -> list[tuple[int, int]]:
+    """Maximal runs of consecutive present values, as (first, last) indexes."""
+    out: list[tuple[int, int]] = []
+    start: int | None = None
+    for i, value in enumerate(values):
+        if value is not None and start is None:
+            start = i
+        if value is None and start is not None:
+            out.append((start, i - 1))
+            start = None
+    if start is not None:
+        out.append((start, len(values) - 1))
+    return out
+
+
+def encode(chart: TrendChart, table: Table, *, locale: str, as_of: datetime) -> ChartPlan:
+    assert table.periods is not None and table.frequency is not None
+    full = periods.expected(table.periods.min(), table.periods.max())
+    frame = table.frame.set_index(table.periods).reindex(full)
+    unit = next((table.units[m] for m in chart.measures if m in table.units), "")
+    series: list[Series] = []
+    for measure in chart.measures:
+        values = [None if pd.isna(v) else float(v) for v in frame[measure]]
+        series.append(Series(name=measure, unit=unit, values=values, segments=runs(values)))
+    gaps = [
+        Gap(index=i, series=[s.name for s in series if s.values[i] is None])
+        for i in range(len(full))
+        if any(s.values[i] is None for s in series)
+    ]
+    partial = None
+    done = periods.completeness(full[-1], as_of)
+    if done is not None:
+        partial = PartialMark(index=len(full) - 1, text=done.text(), fraction=done.fraction)
+    present = [v for s in series for v in s.values if v is not None]
+    lo, hi = scales.fit(present, include_zero=chart.from_zero)
+    label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
+    scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
+    return ChartPlan(
+        chart_id=chart.id, intent=chart.intent, form="lines", title=chart.title,
+        subtitle=chart.subtitle, note=chart.note, locale=locale, value_axis=scale,
+        periods=[periods.label(p, table.frequency, locale) for p in full],
+        series=series, gaps=gaps, partial=partial,
+        notes=[] if scale.includes_zero else [scale_note(scale, locale)],
+    )

@@ -1,0 +1,113 @@
+"""The pipeline: definition → data → encoders → checks → render → assemble.
+
+``intake`` reads and validates (every problem at once), ``check`` plans and guards every chart
+without drawing, ``render`` draws and assembles the pack. ``build`` runs all three and is the unit of
+work handed to a worker process, so it takes and returns plain, picklable values.
+"""
+
+from __future__ import annotations
+
+import hashlib
+from dataclasses import dataclass
+from typing import Any
+
+from service import checks as _checks  # noqa: F401  (registers every check)
+from service import formatting, intents
+from service.checks import engine, registry
+from service.checks.outcome import Checked, CheckedChart
+from service.checks.results import Status, summary_line
+from service.config import Limits
+from service.data import frames
+from service.data.frames import Table
+from service.definition import validate
+from service.definition.model import ReportDefinition, local_wall_time
+from service.errors import InvalidDefinition, Problem
+
+
+@dataclass(frozen=True)
+class Intake:
+    definition: ReportDefinition
+    tables: dict[str, Table]
+    fingerprint: str
+
+
+def intake(raw: bytes | str, limits: Limits) -> Intake:
+    data = raw.encode() if isinstance(raw, str) else raw
+    definition = validate.parse(data, limits)
+    problems: list[Problem] = []
+    if not formatting.known_locale(definition.report.locale):
+        problems.append(Problem(
+            "unknown_locale", "report.locale", f"'{definition.report.locale}' is not a known locale",
+            "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
+            definition.report.locale))
+    problems.extend(registry.waiver_problems(definition))
+    try:
+        tables = frames.load_all(definition)
+    except InvalidDefinition as exc:
+        raise InvalidDefinition(problems + exc.problems) from None
+    for path, chart in definition.charts():
+        table = tables[chart.dataset]
+        problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
+    if problems:
+        raise InvalidDefinition(problems)
+    return Intake(definition, tables, hashlib.sha256(data).hexdigest())
+
+
+def check(taken: Intake) -> Checked:
+    definition = taken.definition
+    as_of = local_wall_time(definition.report.as_of)
+    locale = definition.report.locale
+    charts: list[CheckedChart] = []
+    for path, chart in definition.charts():
+        table = taken.tables[chart.dataset]
+        plan = intents.ENCODERS[chart.intent].encode(chart, table, locale, as_of)
+        ctx = registry.Context(chart=chart, table=table, as_of=as_of, locale=locale)
+        guarded = engine.guard(plan, ctx, definition.waivers)
+        charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))
+    used = {(r.check, r.chart) for c in charts for r in c.results if r.status is Status.waived}
+    unused = [f"{w.check} on {w.chart}" for w in definition.waivers
+              if (w.check, w.chart) not in used]
+    return Checked(definition=definition, tables=taken.tables, fingerprint=taken.fingerprint,
+                   charts=charts, unused_waivers=unused)
+
+
+@dataclass(frozen=True)
+class Built:
+    """What a worker returns: plain data only."""
+
+    pdf: bytes
+    results: list[dict[str, Any]]
+    blocked: bool
+    summary: str
+    fingerprint: str
+    report: dict[str, Any]
+    unused_waivers: list[str]
+
+
+def render(checked: Checked, *, status_line: str = "DRAFT — not signed off") -> bytes:
+    from service.assemble import compose  # the drawing stack loads only when drawing
+
+    return compose.compose(checked, status_line=status_line)
+
+
+def build(raw: bytes, limits: Limits) -> Built:
+    checked = check(intake(raw, limits))
+    pdf = render(checked)
+    definition = checked.definition
+    return Built(
+        pdf=pdf,
+        results=[r.model_dump(mode="json") for r in checked.results],
+        blocked=checked.blocked,
+        summary=summary_line(checked.results),
+        fingerprint=checked.fingerprint,
+        report={
+            "id": definition.report.id,
+            "title": definition.report.title,
+            "period": definition.period_text(),
+            "as_of": definition.report.as_of.isoformat(),
+        },
+        unused_waivers=checked.unused_waivers,
+    )
+
+
+__all__ = ["Built", "Checked", "CheckedChart", "Intake", "build", "check", "intake"]

@@ -1,0 +1,44 @@
+"""Draw one chart plan into vector PDF bytes, byte-identical for the same plan and versions."""
+
+from __future__ import annotations
+
+import io
+
+from matplotlib.figure import Figure
+
+from service.errors import RenderFailed
+from service.intents.plan import ChartPlan
+from service.render import forms, style
+
+
+def size_in(plan: ChartPlan) -> tuple[float, float]:
+    lines = len(plan.notes) + len(plan.flags)
+    extra = 0.18 * lines
+    if plan.form in {"bars", "dots"}:
+        rows = max(len(plan.categories), 2)
+        return style.WIDTH_IN, min(8.5, 0.75 + style.BAR_ROW_IN * rows + extra)
+    return style.WIDTH_IN, style.LINE_HEIGHT_IN + extra
+
+
+def draw(plan: ChartPlan) -> bytes:
+    """The chart as a one-page PDF."""
+    style.install()
+    figure = Figure(figsize=size_in(plan), layout="constrained")
+    ax = figure.add_subplot()
+    try:
+        forms.DRAWERS[plan.form](ax, plan)
+        if plan.notes:
+            ax.set_title("\n".join(plan.notes), loc="left", color=style.INK, fontsize=7.5,
+                         fontstyle="italic", parse_math=False)
+        if plan.flags:
+            figure.suptitle(
+                "CHECK FAILED — " + " | ".join(f.split(":", 1)[0] for f in plan.flags)
+                + " (see the integrity appendix)",
+                color=style.FLAG, fontsize=8, fontweight="bold", x=0.01, ha="left",
+                parse_math=False,
+            )
+        buffer = io.BytesIO()
+        figure.savefig(buffer, format="pdf", metadata={"CreationDate": None, "Creator": "Plumbline"})
+    except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
+        raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
+    return buffer.getvalue()
