@@ -3,7 +3,6 @@ PYTHON ?= python3
 VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
-export SOURCE_DATE_EPOCH ?= 1767225600
 
 .PHONY: demo test lint unit serve schema clean
 
