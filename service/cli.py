@@ -14,7 +14,7 @@ from typing import Any
 
 from service import __version__
 from service.config import Settings, get_settings
-from service.errors import InvalidDefinition, PayloadTooLarge, PlumblineError
+from service.errors import InvalidDefinition, PayloadTooLarge, PlumblineError, Unreadable
 
 EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID = 0, 1, 2
 
@@ -71,7 +71,7 @@ def _read(path: Path) -> bytes:
     try:
         return path.read_bytes()
     except OSError as exc:
-        raise PlumblineError(f"cannot read {path}: {exc.strerror}") from None
+        raise Unreadable(f"cannot read {path}: {exc.strerror}") from None
 
 
 def _invalid(exc: InvalidDefinition, *, json_out: bool) -> int:

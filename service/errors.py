@@ -6,6 +6,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     PlumblineError (500, internal_error)
     ├── InvalidDefinition (422, invalid_definition)   every problem found, each with a path
     ├── PayloadTooLarge (413, payload_too_large)       before the body is parsed
+    ├── Unreadable (400, unreadable_input)            a file the CLI was given cannot be read
     ├── NotFound (404, not_found)
     └── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
 
@@ -70,6 +71,9 @@ class InvalidDefinition(PlumblineError):
         super().__init__(f"the report definition has {len(problems)} {noun}")
         self.problems = problems
 
+    def __reduce__(self) -> tuple[type[InvalidDefinition], tuple[list[Problem]]]:
+        return (InvalidDefinition, (self.problems,))  # crosses the worker-process boundary
+
 
 class PayloadTooLarge(PlumblineError):
     code = "payload_too_large"
@@ -83,6 +87,18 @@ class PayloadTooLarge(PlumblineError):
         )
         self.size = size
         self.limit = limit
+
+    def __reduce__(self) -> tuple[Any, ...]:
+        return (_payload_too_large, (self.size, self.limit))
+
+
+def _payload_too_large(size: int, limit: int) -> PayloadTooLarge:
+    return PayloadTooLarge(size=size, limit=limit)
+
+
+class Unreadable(PlumblineError):
+    code = "unreadable_input"
+    status = 400
 
 
 class NotFound(PlumblineError):

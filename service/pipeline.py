@@ -15,7 +15,7 @@ from service import checks as _checks  # noqa: F401  (registers every check)
 from service import formatting, intents
 from service.checks import engine, registry
 from service.checks.outcome import Checked, CheckedChart
-from service.checks.results import Status, summary_line
+from service.checks.results import Status, summary, summary_line
 from service.config import Limits
 from service.data import frames
 from service.data.frames import Table
@@ -33,24 +33,43 @@ class Intake:
 
 def intake(raw: bytes | str, limits: Limits) -> Intake:
     data = raw.encode() if isinstance(raw, str) else raw
-    definition = validate.parse(data, limits)
-    problems: list[Problem] = []
+    definition, problems = validate.parse(data, limits)
     if not formatting.known_locale(definition.report.locale):
         problems.append(Problem(
             "unknown_locale", "report.locale", f"'{definition.report.locale}' is not a known locale",
             "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
             definition.report.locale))
     problems.extend(registry.waiver_problems(definition))
-    try:
-        tables = frames.load_all(definition)
-    except InvalidDefinition as exc:
-        raise InvalidDefinition(problems + exc.problems) from None
+    tables, found = frames.load_all(definition)
+    problems.extend(found)
+    troubled = {p.path for p in problems}
     for path, chart in definition.charts():
-        table = tables[chart.dataset]
+        table = tables.get(chart.dataset)
+        if table is None or any(t == path or t.startswith(f"{path}.") for t in troubled):
+            continue  # its dataset or its own fields are already reported
         problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
+    problems.extend(_table_limits(definition, tables, limits))
     if problems:
         raise InvalidDefinition(problems)
     return Intake(definition, tables, hashlib.sha256(data).hexdigest())
+
+
+def _table_limits(
+    definition: ReportDefinition, tables: dict[str, Table], limits: Limits
+) -> list[Problem]:
+    found = []
+    for s, section in enumerate(definition.sections):
+        for t, spec in enumerate(section.tables):
+            table = tables.get(spec.dataset)
+            if table is not None and len(table.frame) > limits.max_table_rows:
+                found.append(Problem(
+                    "limit_exceeded", f"sections[{s}].tables[{t}]",
+                    f"a table of {len(table.frame)} rows is longer than the limit of "
+                    f"{limits.max_table_rows}",
+                    "show a chart instead, or a shorter dataset, or raise "
+                    "PLUMBLINE_LIMITS__MAX_TABLE_ROWS", len(table.frame),
+                    {"limit": limits.max_table_rows, "setting": "max_table_rows"}))
+    return found
 
 
 def check(taken: Intake) -> Checked:
@@ -78,6 +97,7 @@ class Built:
     pdf: bytes
     results: list[dict[str, Any]]
     blocked: bool
+    counts: dict[str, int]
     summary: str
     fingerprint: str
     report: dict[str, Any]
@@ -98,6 +118,7 @@ def build(raw: bytes, limits: Limits) -> Built:
         pdf=pdf,
         results=[r.model_dump(mode="json") for r in checked.results],
         blocked=checked.blocked,
+        counts=summary(checked.results),
         summary=summary_line(checked.results),
         fingerprint=checked.fingerprint,
         report={

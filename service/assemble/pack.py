@@ -232,8 +232,9 @@ def _grid(rows: Sequence[Sequence[str]], widths: list[float], s: dict[str, Any],
     table = LongTable(cells, colWidths=widths, repeatRows=1)
     commands: list[tuple[Any, ...]] = [
         ("FONT", (0, 0), (-1, -1), fonts.register(), 7.5),  # else reportlab sets Helvetica
+        ("INNERGRID", (0, 0), (-1, -1), 0.3, layout.RULE),
+        ("BOX", (0, 0), (-1, -1), 0.3, layout.RULE),
         ("LINEBELOW", (0, 0), (-1, 0), 0.8, layout.INK),
-        ("LINEBELOW", (0, 1), (-1, -1), 0.3, layout.RULE),
         ("VALIGN", (0, 0), (-1, -1), "TOP"),
         ("TOPPADDING", (0, 0), (-1, -1), 2.5),
         ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),

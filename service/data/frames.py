@@ -25,7 +25,7 @@ from service.definition.model import (
     ReportDefinition,
     local_wall_time,
 )
-from service.errors import InvalidDefinition, Problem
+from service.errors import Problem
 
 #: At most this many value problems are listed per column; the last one says how many more there are.
 MAX_PROBLEMS_PER_COLUMN = 5
@@ -44,19 +44,17 @@ class Table:
     types: dict[str, ColumnType] = field(default_factory=dict)
 
 
-def load_all(definition: ReportDefinition) -> dict[str, Table]:
-    """Every dataset of ``definition``, or :class:`InvalidDefinition` with every value problem."""
+def load_all(definition: ReportDefinition) -> tuple[dict[str, Table], list[Problem]]:
+    """The datasets that loaded cleanly, and every value problem of those that did not."""
     tables: dict[str, Table] = {}
     problems: list[Problem] = []
     as_of = local_wall_time(definition.report.as_of)
     for d, dataset in enumerate(definition.datasets):
         table, found = load(dataset, path=f"datasets[{d}]", as_of=as_of)
         problems.extend(found)
-        if table is not None:
+        if table is not None and not found:
             tables[dataset.name] = table
-    if problems:
-        raise InvalidDefinition(problems)
-    return tables
+    return tables, problems
 
 
 def load(dataset: Dataset, *, path: str, as_of: datetime) -> tuple[Table | None, list[Problem]]:

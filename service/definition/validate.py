@@ -53,8 +53,13 @@ _PYDANTIC_CODES: dict[str, tuple[str, str]] = {
 }
 
 
-def parse(raw: bytes | str, limits: Limits) -> ReportDefinition:
-    """Parse and validate a definition sent as JSON; raise :class:`InvalidDefinition` with all problems."""
+def parse(raw: bytes | str, limits: Limits) -> tuple[ReportDefinition, list[Problem]]:
+    """Parse a definition sent as JSON.
+
+    A definition whose *shape* is wrong raises :class:`InvalidDefinition` with every shape problem.
+    Otherwise the definition is returned with the reference and size problems found, so the caller
+    can add the data's problems and report them all together.
+    """
     data = raw.encode() if isinstance(raw, str) else raw
     if len(data) > limits.max_payload_bytes:
         raise PayloadTooLarge(size=len(data), limit=limits.max_payload_bytes)
@@ -65,7 +70,7 @@ def parse(raw: bytes | str, limits: Limits) -> ReportDefinition:
     return validate(document, limits)
 
 
-def validate(document: Any, limits: Limits) -> ReportDefinition:
+def validate(document: Any, limits: Limits) -> tuple[ReportDefinition, list[Problem]]:
     if not isinstance(document, dict):
         raise InvalidDefinition(
             [Problem("not_an_object", "", "a definition is a JSON object", "send {\"version\": 1, …}")]
@@ -78,9 +83,7 @@ def validate(document: Any, limits: Limits) -> ReportDefinition:
         raise InvalidDefinition(problems) from None
     problems.extend(_text_limits(definition, limits))
     problems.extend(references(definition))
-    if problems:
-        raise InvalidDefinition(problems)
-    return definition
+    return definition, problems
 
 
 def _json_problem(exc: Exception) -> Problem:

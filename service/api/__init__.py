@@ -1,0 +1,1 @@
+"""The HTTP service (FastAPI). Knows the workflow; no other stage imports it."""

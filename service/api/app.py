@@ -1,0 +1,63 @@
+"""The FastAPI application factory."""
+
+from __future__ import annotations
+
+from collections.abc import AsyncIterator
+from contextlib import asynccontextmanager
+from typing import Any
+
+from fastapi import FastAPI
+from fastapi.openapi.utils import get_openapi
+
+from service import __version__
+from service.api import errors
+from service.api.deps import Services
+from service.api.limits import BodyLimit
+from service.api.routes import router
+from service.api.workers import Workers
+from service.archive import db
+from service.archive.files import Store
+from service.config import Settings, get_settings
+from service.definition.model import ReportDefinition
+
+
+def create_app(settings: Settings | None = None) -> FastAPI:
+    settings = settings or get_settings()
+
+    @asynccontextmanager
+    async def lifespan(app: FastAPI) -> AsyncIterator[None]:
+        settings.data_dir.mkdir(parents=True, exist_ok=True)
+        workers = Workers(settings.workers)
+        app.state.services = Services(
+            settings=settings, sessions=db.connect(settings.database_url),
+            store=Store(settings.store_dir), workers=workers,
+        )
+        try:
+            yield
+        finally:
+            workers.close()
+
+    app = FastAPI(
+        title="Plumbline", version=__version__, lifespan=lifespan,
+        description="Report packs whose charts do not mislead. The checks support, but do not "
+        "replace, the owner's judgement, the applicable reporting standards and professional "
+        "review.",
+    )
+    app.include_router(router)
+    errors.install(app)
+    app.add_middleware(BodyLimit, limit=settings.limits.max_payload_bytes)
+
+    def openapi() -> dict[str, Any]:
+        if app.openapi_schema:
+            return app.openapi_schema
+        spec = get_openapi(title=app.title, version=app.version, description=app.description,
+                           routes=app.routes)
+        definition = ReportDefinition.model_json_schema(ref_template="#/components/schemas/{model}")
+        components = spec.setdefault("components", {}).setdefault("schemas", {})
+        components.update(definition.pop("$defs", {}))
+        components["ReportDefinition"] = definition
+        app.openapi_schema = spec
+        return spec
+
+    app.openapi = openapi  # type: ignore[method-assign]
+    return app

@@ -1,0 +1,208 @@
+"""End to end: the CLI renders the demo, and independent tools read the PDF back.
+
+pypdf and pdfplumber (independent PDF parsers) read the text; ``pdffonts`` from poppler-utils reads the
+font table. None of them shares code with the renderer.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import re
+import subprocess
+import sys
+from pathlib import Path
+from typing import Any
+
+import pdfplumber
+import pytest
+from pypdf import PdfReader
+
+ROOT = Path(__file__).parents[2]
+DEMO = ROOT / "sample_requests" / "bus-cooperative-monthly.json"
+
+
+def plumbline(
+    *args: str | Path, cwd: Path | None = None, env: dict[str, str] | None = None
+) -> subprocess.CompletedProcess[str]:
+    return subprocess.run(
+        [sys.executable, "-m", "service.cli", *map(str, args)],
+        capture_output=True,
+        text=True,
+        check=False,
+        cwd=cwd or ROOT,
+        env=env,
+        timeout=120,
+    )
+
+
+@pytest.fixture(scope="module")
+def demo_pdf(tmp_path_factory: pytest.TempPathFactory) -> Path:
+    out = tmp_path_factory.mktemp("demo") / "demo.pdf"
+    run = plumbline("render", DEMO, "-o", out)
+    assert run.returncode == 0, run.stderr
+    assert "9 checks: 8 passed, 1 corrected, 0 waived, 0 failed" in run.stdout
+    return out
+
+
+def page_texts(path: Path) -> list[str]:
+    return [page.extract_text() or "" for page in PdfReader(path).pages]
+
+
+def test_cover_says_draft_and_carries_the_caution(demo_pdf: Path) -> None:
+    cover = page_texts(demo_pdf)[0]
+    assert "Hollin Vale Community Buses" in cover
+    assert "DRAFT — not signed off" in cover
+    assert "Twelve months to November 2026" in cover
+    assert "2026-11-09T07:30+00:00" in cover
+    assert "do not replace" in re.sub(r"\s+", " ", cover)
+
+
+def test_every_page_is_numbered(demo_pdf: Path) -> None:
+    texts = page_texts(demo_pdf)
+    for number, text in enumerate(texts, start=1):
+        assert f"Page {number} of {len(texts)}" in text
+
+
+def test_chart_text_is_extractable_vector_text(demo_pdf: Path) -> None:
+    with pdfplumber.open(demo_pdf) as pdf:
+        images = sum(len(page.images) for page in pdf.pages)
+    text = "\n".join(page_texts(demo_pdf))
+    assert images == 0  # charts are vector drawings, not pictures
+    for expected in (
+        "no data",
+        "Nov 2026 so far:",
+        "8 of 30 days",
+        "21 Market express",
+        "Scale starts at 3.8 points, not zero",
+        "94.6%",
+        "scheduled",
+        "operated",
+    ):
+        assert expected in text, expected
+
+
+def _appendix_rows(path: Path) -> list[list[str]]:
+    with pdfplumber.open(path) as pdf:
+        page = next(
+            p
+            for p in pdf.pages
+            if "Integrity checks" in (p.extract_text() or "")
+            and "Threshold" in (p.extract_text() or "")
+        )
+        table = max(page.extract_tables(), key=len)
+    return [[re.sub(r"\s+", "", cell or "") for cell in row] for row in table[1:]]
+
+
+def test_appendix_lists_every_check_of_every_chart(demo_pdf: Path) -> None:
+    rows = {(r[0], r[1]): r[2] for r in _appendix_rows(demo_pdf)}
+    assert rows == {
+        ("boardings-trend", "missing-periods"): "passed",
+        ("boardings-trend", "partial-period"): "passed",
+        ("boardings-trend", "nonzero-scale-noted"): "passed",
+        ("on-time-by-route", "bar-zero-baseline"): "corrected",
+        ("on-time-by-route", "lie-factor"): "passed",
+        ("rating-by-route", "nonzero-scale-noted"): "passed",
+        ("journeys-trend", "missing-periods"): "passed",
+        ("journeys-trend", "partial-period"): "passed",
+        ("journeys-trend", "nonzero-scale-noted"): "passed",
+    }
+    text = "\n".join(page_texts(demo_pdf))
+    assert "Tufte, The Visual Display of Quantitative Information (1983), p. 57" in text
+
+
+def test_every_font_is_embedded(demo_pdf: Path) -> None:
+    listing = subprocess.run(
+        ["pdffonts", str(demo_pdf)], capture_output=True, text=True, check=True
+    ).stdout.splitlines()[2:]
+    assert listing, "pdffonts listed no fonts"
+    for line in listing:
+        emb, sub, uni = line.split()[-5:-2]
+        assert (emb, uni) == ("yes", "yes"), line
+    assert not any("Helvetica" in line for line in listing)
+
+
+def test_same_definition_gives_the_same_bytes(tmp_path: Path, demo_pdf: Path) -> None:
+    other = tmp_path / "again.pdf"
+    env = {
+        "PATH": "/usr/bin:/bin",
+        "TZ": "Pacific/Auckland",
+        "LANG": "de_DE.UTF-8",
+        "HOME": str(tmp_path),
+        "MPLCONFIGDIR": str(tmp_path / "mpl"),
+    }
+    run = plumbline("render", DEMO, "-o", other, cwd=tmp_path, env=env)
+    assert run.returncode == 0, run.stderr
+    assert (
+        hashlib.sha256(other.read_bytes()).hexdigest()
+        == hashlib.sha256(demo_pdf.read_bytes()).hexdigest()
+    )
+
+
+def _with_waiver() -> dict[str, Any]:
+    definition: dict[str, Any] = json.loads(DEMO.read_text())
+    definition["waivers"] = [
+        {
+            "check": "bar-zero-baseline",
+            "chart": "on-time-by-route",
+            "by": "A. Reviewer",
+            "reason": "The board asked to see the spread above the 85 % floor this month.",
+        }
+    ]
+    return definition
+
+
+def test_unwaived_failure_exits_1_and_still_writes_a_marked_draft(tmp_path: Path) -> None:
+    source = tmp_path / "waived.json"
+    source.write_text(json.dumps(_with_waiver()))
+    out = tmp_path / "blocked.pdf"
+    run = plumbline("render", source, "-o", out)
+    assert run.returncode == 1
+    assert "BLOCKED" in run.stderr and "lie-factor on on-time-by-route" in run.stderr
+    text = "\n".join(page_texts(out))
+    assert "CHECK FAILED — lie-factor" in text  # on the chart itself
+    assert "Bars start at 85%, not zero" in text
+    rows = {(r[0], r[1]): r[2] for r in _appendix_rows(out)}
+    assert rows[("on-time-by-route", "bar-zero-baseline")] == "waived"
+    assert rows[("on-time-by-route", "lie-factor")] == "failed"
+
+
+def test_check_command_json_and_exit_codes(tmp_path: Path) -> None:
+    run = plumbline("check", DEMO, "--json")
+    assert run.returncode == 0
+    report = json.loads(run.stdout)
+    assert report["summary"] == {"passed": 8, "corrected": 1, "waived": 0, "failed": 0}
+    source = tmp_path / "waived.json"
+    source.write_text(json.dumps(_with_waiver()))
+    assert plumbline("check", source).returncode == 1
+
+
+def test_invalid_definition_exits_2_with_paths(tmp_path: Path) -> None:
+    definition = json.loads(DEMO.read_text())
+    definition["sections"][1]["charts"][0]["measure"] = "route"
+    definition["datasets"][0]["rows"][2]["boardings"] = "lots"
+    source = tmp_path / "bad.json"
+    source.write_text(json.dumps(definition))
+    run = plumbline("check", source)
+    assert run.returncode == 2
+    assert "sections[1].charts[0].measure: [column_type_mismatch]" in run.stderr
+    assert "datasets[0].rows[2].boardings: [unparseable_value]" in run.stderr
+    assert "Traceback" not in run.stderr
+    missing = plumbline("check", tmp_path / "nope.json")
+    assert missing.returncode == 2 and "cannot read" in missing.stderr
+
+
+def test_markup_and_mathtext_in_user_text_are_shown_literally(tmp_path: Path) -> None:
+    definition = json.loads(DEMO.read_text())
+    hostile = "<b>Boarding</b> $x^2$ & <img src='/etc/passwd'/> <font color=red>"
+    definition["report"]["title"] = hostile
+    definition["sections"][0]["narrative"] = hostile
+    definition["datasets"][2]["rows"][0]["route"] = "$\\alpha$ <i>route</i>"
+    source = tmp_path / "hostile.json"
+    source.write_text(json.dumps(definition))
+    out = tmp_path / "hostile.pdf"
+    run = plumbline("render", source, "-o", out)
+    assert run.returncode == 0, run.stderr
+    text = "\n".join(page_texts(out))
+    assert "<b>Boarding</b> $x^2$ & <img src='/etc/passwd'/>" in text.replace("\n", " ")
+    assert "$\\alpha$ <i>route</i>" in text
