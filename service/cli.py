@@ -128,13 +128,18 @@ def _check(args: argparse.Namespace, settings: Settings) -> int:
     checked = pipeline.check(pipeline.intake(_read(args.definition), settings.limits))
     results = [r.model_dump(mode="json") for r in checked.results]
     if args.json:
-        print(json.dumps({
-            "report": checked.definition.report.id,
-            "blocked": checked.blocked,
-            "summary": summary(checked.results),
-            "results": results,
-            "unused_waivers": checked.unused_waivers,
-        }, indent=2))
+        print(
+            json.dumps(
+                {
+                    "report": checked.definition.report.id,
+                    "blocked": checked.blocked,
+                    "summary": summary(checked.results),
+                    "results": results,
+                    "unused_waivers": checked.unused_waivers,
+                },
+                indent=2,
+            )
+        )
     else:
         _report(results, summary_line(checked.results), checked.unused_waivers)
         _blocked_message(checked.blocked, results)
@@ -145,8 +150,11 @@ def _blocked_message(blocked: bool, results: list[dict[str, Any]]) -> None:
     if not blocked:
         return
     failed = [f"{r['check']} on {r['chart']}" for r in results if r["status"] == "failed"]
-    print(f"BLOCKED: the pack cannot be signed off until these are fixed or waived: "
-          f"{', '.join(failed)}", file=sys.stderr)
+    print(
+        f"BLOCKED: the pack cannot be signed off until these are fixed or waived: "
+        f"{', '.join(failed)}",
+        file=sys.stderr,
+    )
 
 
 def _render(args: argparse.Namespace, settings: Settings) -> int:
@@ -156,11 +164,19 @@ def _render(args: argparse.Namespace, settings: Settings) -> int:
     built = pipeline.build(_read(args.definition), settings.limits)
     files.write_atomic(args.output, built.pdf)
     if args.json:
-        print(json.dumps({
-            "pdf": str(args.output), "bytes": len(built.pdf), "blocked": built.blocked,
-            "summary": built.summary, "results": built.results,
-            "unused_waivers": built.unused_waivers,
-        }, indent=2))
+        print(
+            json.dumps(
+                {
+                    "pdf": str(args.output),
+                    "bytes": len(built.pdf),
+                    "blocked": built.blocked,
+                    "summary": built.summary,
+                    "results": built.results,
+                    "unused_waivers": built.unused_waivers,
+                },
+                indent=2,
+            )
+        )
     else:
         if built.blocked:
             _report(built.results, built.summary, built.unused_waivers)
@@ -176,8 +192,10 @@ def _serve(args: argparse.Namespace, settings: Settings) -> int:
     from service.api.app import create_app
 
     uvicorn.run(
-        create_app(settings), host=args.host or settings.host,
-        port=settings.port if args.port is None else args.port, log_level="info",
+        create_app(settings),
+        host=args.host or settings.host,
+        port=settings.port if args.port is None else args.port,
+        log_level="info",
     )
     return EXIT_OK
 

@@ -35,10 +35,15 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
     data = raw.encode() if isinstance(raw, str) else raw
     definition, problems = validate.parse(data, limits)
     if not formatting.known_locale(definition.report.locale):
-        problems.append(Problem(
-            "unknown_locale", "report.locale", f"'{definition.report.locale}' is not a known locale",
-            "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
-            definition.report.locale))
+        problems.append(
+            Problem(
+                "unknown_locale",
+                "report.locale",
+                f"'{definition.report.locale}' is not a known locale",
+                "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
+                definition.report.locale,
+            )
+        )
     problems.extend(registry.waiver_problems(definition))
     tables, found = frames.load_all(definition)
     problems.extend(found)
@@ -62,13 +67,18 @@ def _table_limits(
         for t, spec in enumerate(section.tables):
             table = tables.get(spec.dataset)
             if table is not None and len(table.frame) > limits.max_table_rows:
-                found.append(Problem(
-                    "limit_exceeded", f"sections[{s}].tables[{t}]",
-                    f"a table of {len(table.frame)} rows is longer than the limit of "
-                    f"{limits.max_table_rows}",
-                    "show a chart instead, or a shorter dataset, or raise "
-                    "PLUMBLINE_LIMITS__MAX_TABLE_ROWS", len(table.frame),
-                    {"limit": limits.max_table_rows, "setting": "max_table_rows"}))
+                found.append(
+                    Problem(
+                        "limit_exceeded",
+                        f"sections[{s}].tables[{t}]",
+                        f"a table of {len(table.frame)} rows is longer than the limit of "
+                        f"{limits.max_table_rows}",
+                        "show a chart instead, or a shorter dataset, or raise "
+                        "PLUMBLINE_LIMITS__MAX_TABLE_ROWS",
+                        len(table.frame),
+                        {"limit": limits.max_table_rows, "setting": "max_table_rows"},
+                    )
+                )
     return found
 
 
@@ -84,10 +94,16 @@ def check(taken: Intake) -> Checked:
         guarded = engine.guard(plan, ctx, definition.waivers)
         charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))
     used = {(r.check, r.chart) for c in charts for r in c.results if r.status is Status.waived}
-    unused = [f"{w.check} on {w.chart}" for w in definition.waivers
-              if (w.check, w.chart) not in used]
-    return Checked(definition=definition, tables=taken.tables, fingerprint=taken.fingerprint,
-                   charts=charts, unused_waivers=unused)
+    unused = [
+        f"{w.check} on {w.chart}" for w in definition.waivers if (w.check, w.chart) not in used
+    ]
+    return Checked(
+        definition=definition,
+        tables=taken.tables,
+        fingerprint=taken.fingerprint,
+        charts=charts,
+        unused_waivers=unused,
+    )
 
 
 @dataclass(frozen=True)

@@ -29,8 +29,10 @@ def create_app(settings: Settings | None = None) -> FastAPI:
         settings.data_dir.mkdir(parents=True, exist_ok=True)
         workers = Workers(settings.workers)
         app.state.services = Services(
-            settings=settings, sessions=db.connect(settings.database_url),
-            store=Store(settings.store_dir), workers=workers,
+            settings=settings,
+            sessions=db.connect(settings.database_url),
+            store=Store(settings.store_dir),
+            workers=workers,
         )
         try:
             yield
@@ -38,7 +40,9 @@ def create_app(settings: Settings | None = None) -> FastAPI:
             workers.close()
 
     app = FastAPI(
-        title="Plumbline", version=__version__, lifespan=lifespan,
+        title="Plumbline",
+        version=__version__,
+        lifespan=lifespan,
         description="Report packs whose charts do not mislead. The checks support, but do not "
         "replace, the owner's judgement, the applicable reporting standards and professional "
         "review.",
@@ -50,8 +54,9 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     def openapi() -> dict[str, Any]:
         if app.openapi_schema:
             return app.openapi_schema
-        spec = get_openapi(title=app.title, version=app.version, description=app.description,
-                           routes=app.routes)
+        spec = get_openapi(
+            title=app.title, version=app.version, description=app.description, routes=app.routes
+        )
         definition = ReportDefinition.model_json_schema(ref_template="#/components/schemas/{model}")
         components = spec.setdefault("components", {}).setdefault("schemas", {})
         components.update(definition.pop("$defs", {}))

@@ -24,24 +24,32 @@ PROBLEM = "application/problem+json"
 
 
 def problem(status: int, code: str, detail: str, **extra: Any) -> JSONResponse:
-    body = {"type": f"urn:plumbline:error:{code}", "title": code.replace("_", " "),
-            "status": status, "code": code, "detail": detail, **extra}
+    body = {
+        "type": f"urn:plumbline:error:{code}",
+        "title": code.replace("_", " "),
+        "status": status,
+        "code": code,
+        "detail": detail,
+        **extra,
+    }
     return JSONResponse(body, status_code=status, media_type=PROBLEM)
 
 
 def install(app: FastAPI) -> None:
     @app.exception_handler(InvalidDefinition)
     async def _invalid(request: Request, exc: InvalidDefinition) -> JSONResponse:
-        return problem(exc.status, exc.code, exc.message,
-                       errors=[p.as_dict() for p in exc.problems])
+        return problem(
+            exc.status, exc.code, exc.message, errors=[p.as_dict() for p in exc.problems]
+        )
 
     @app.exception_handler(PlumblineError)
     async def _known(request: Request, exc: PlumblineError) -> JSONResponse:
         if exc.status >= 500:
             incident = uuid.uuid4().hex[:12]
             log.error("request failed [%s]: %s", incident, exc.message)
-            return problem(exc.status, exc.code, f"{exc.message} (incident {incident})",
-                           incident=incident)
+            return problem(
+                exc.status, exc.code, f"{exc.message} (incident {incident})", incident=incident
+            )
         return problem(exc.status, exc.code, exc.message)
 
     @app.exception_handler(RequestValidationError)
@@ -56,6 +64,9 @@ def install(app: FastAPI) -> None:
     async def _last_resort(request: Request, exc: Exception) -> JSONResponse:
         incident = uuid.uuid4().hex[:12]
         log.exception("unhandled error [%s]", incident)
-        return problem(500, "internal_error",
-                       f"something went wrong on our side (incident {incident})",
-                       incident=incident)
+        return problem(
+            500,
+            "internal_error",
+            f"something went wrong on our side (incident {incident})",
+            incident=incident,
+        )

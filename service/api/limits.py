@@ -60,14 +60,26 @@ class _TooLarge(Exception):
 async def _refuse(send: Send, size: int, limit: int) -> None:
     error = PayloadTooLarge(size=size, limit=limit)
     body = json.dumps(_problem(error.status, error.code, error.message)).encode()
-    await send({"type": "http.response.start", "status": 413, "headers": [
-        (b"content-type", b"application/problem+json"),
-        (b"content-length", str(len(body)).encode()),
-        (b"connection", b"close"),
-    ]})
+    await send(
+        {
+            "type": "http.response.start",
+            "status": 413,
+            "headers": [
+                (b"content-type", b"application/problem+json"),
+                (b"content-length", str(len(body)).encode()),
+                (b"connection", b"close"),
+            ],
+        }
+    )
     await send({"type": "http.response.body", "body": body})
 
 
 def _problem(status: int, code: str, detail: str, **extra: Any) -> dict[str, Any]:
-    return {"type": f"urn:plumbline:error:{code}", "title": code.replace("_", " "),
-            "status": status, "code": code, "detail": detail, **extra}
+    return {
+        "type": f"urn:plumbline:error:{code}",
+        "title": code.replace("_", " "),
+        "status": status,
+        "code": code,
+        "detail": detail,
+        **extra,
+    }

@@ -16,11 +16,13 @@ from service.workflow import drafts
 
 router = APIRouter(prefix="/v1")
 
-_PROBLEM = {"content": {"application/problem+json": {}}}
+_PROBLEM: dict[str, Any] = {"content": {"application/problem+json": {}}}
 _DEFINITION_BODY = {
     "requestBody": {
         "required": True,
-        "content": {"application/json": {"schema": {"$ref": "#/components/schemas/ReportDefinition"}}},
+        "content": {
+            "application/json": {"schema": {"$ref": "#/components/schemas/ReportDefinition"}}
+        },
     }
 }
 
@@ -33,13 +35,16 @@ def _links(row: PackRow) -> dict[str, str]:
 def _pack_view(row: PackRow, *, with_results: bool) -> dict[str, Any]:
     view: dict[str, Any] = {
         "id": row.id,
-        "report": {"id": row.report_id, "title": row.title, "period": row.period,
-                   "as_of": row.as_of},
+        "report": {
+            "id": row.report_id,
+            "title": row.title,
+            "period": row.period,
+            "as_of": row.as_of,
+        },
         "status": row.status,
         "blocked": row.blocked,
         "summary": row.summary,
-        "failed": [f"{r['check']} on {r['chart']}" for r in row.results
-                   if r["status"] == "failed"],
+        "failed": [f"{r['check']} on {r['chart']}" for r in row.results if r["status"] == "failed"],
         "unused_waivers": row.unused_waivers,
         "pdf": {"sha256": row.pdf_sha256, "bytes": row.pdf_bytes},
         "definition_sha256": row.definition_sha256,
@@ -71,11 +76,15 @@ async def checks() -> list[dict[str, Any]]:
 
 
 @router.post(
-    "/reports", status_code=201, tags=["reports"], openapi_extra=_DEFINITION_BODY,
+    "/reports",
+    status_code=201,
+    tags=["reports"],
+    openapi_extra=_DEFINITION_BODY,
     responses={413: _PROBLEM, 422: _PROBLEM},
 )
-async def create_report(request: Request, response: Response,
-                        services: ServicesDep) -> dict[str, Any]:
+async def create_report(
+    request: Request, response: Response, services: ServicesDep
+) -> dict[str, Any]:
     """Validate a definition, run every check, render the draft pack and store it.
 
     A failed check that is not waived does not stop the draft: it is stored with ``blocked: true``
@@ -84,7 +93,10 @@ async def create_report(request: Request, response: Response,
     raw = await request.body()
     built = await services.workers.build(raw, services.settings.limits)
     row = await run_in_threadpool(
-        drafts.create, sessions=services.sessions, store=services.store, built=built,
+        drafts.create,
+        sessions=services.sessions,
+        store=services.store,
+        built=built,
         definition=raw,
     )
     response.headers["Location"] = f"/v1/reports/{row.id}"
@@ -92,7 +104,9 @@ async def create_report(request: Request, response: Response,
 
 
 @router.post(
-    "/check", tags=["checks"], openapi_extra=_DEFINITION_BODY,
+    "/check",
+    tags=["checks"],
+    openapi_extra=_DEFINITION_BODY,
     responses={413: _PROBLEM, 422: _PROBLEM},
 )
 async def check_definition(request: Request, services: ServicesDep) -> dict[str, Any]:
@@ -121,12 +135,12 @@ def get_report(pack: PackDep) -> dict[str, Any]:
 @router.get("/reports/{pack_id}/checks", tags=["reports"], responses={404: _PROBLEM})
 def get_checks(pack: PackDep) -> dict[str, Any]:
     """Every check result of a stored pack."""
-    return {"id": pack.id, "blocked": pack.blocked, "summary": pack.summary,
-            "checks": pack.results}
+    return {"id": pack.id, "blocked": pack.blocked, "summary": pack.summary, "checks": pack.results}
 
 
 @router.get(
-    "/reports/{pack_id}/pdf", tags=["reports"],
+    "/reports/{pack_id}/pdf",
+    tags=["reports"],
     responses={200: {"content": {"application/pdf": {}}}, 404: _PROBLEM},
     response_class=Response,
 )
@@ -134,7 +148,10 @@ def get_pdf(pack: PackDep, services: ServicesDep) -> Response:
     """The pack's PDF, exactly as stored (its SHA-256 is the ETag)."""
     data = services.store.get(pack.pdf_sha256)
     return Response(
-        data, media_type="application/pdf",
-        headers={"ETag": f'"{pack.pdf_sha256}"',
-                 "Content-Disposition": f'inline; filename="{pack.report_id}-{pack.id}.pdf"'},
+        data,
+        media_type="application/pdf",
+        headers={
+            "ETag": f'"{pack.pdf_sha256}"',
+            "Content-Disposition": f'inline; filename="{pack.report_id}-{pack.id}.pdf"',
+        },
     )

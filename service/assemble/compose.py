@@ -68,8 +68,12 @@ def _chart_block(chart: CheckedChart, pdf: bytes) -> ChartBlock:
     if failed:
         line += f" — FAILED: {', '.join(failed)}"
     return ChartBlock(
-        chart_id=chart.plan.chart_id, title=chart.plan.title, subtitle=chart.plan.subtitle,
-        note=chart.plan.note, width_pt=box[2] - box[0], height_pt=box[3] - box[1],
+        chart_id=chart.plan.chart_id,
+        title=chart.plan.title,
+        subtitle=chart.plan.subtitle,
+        note=chart.plan.note,
+        width_pt=box[2] - box[0],
+        height_pt=box[3] - box[1],
         check_line=line + " (details in the appendix).",
     )
 
@@ -80,8 +84,12 @@ def _appendix_row(result: CheckResult, locale: str) -> AppendixRow:
         expiry = f", until {result.waiver.expires.isoformat()}" if result.waiver.expires else ""
         explanation += f" Reason: {result.waiver.reason} (waived by {result.waiver.by}{expiry})"
     return AppendixRow(
-        chart=result.chart, check=result.check, status=result.status.value,
-        measured=result.measured_text, threshold=result.threshold, explanation=explanation,
+        chart=result.chart,
+        check=result.check,
+        status=result.status.value,
+        measured=result.measured_text,
+        threshold=result.threshold,
+        explanation=explanation,
     )
 
 

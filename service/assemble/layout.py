@@ -31,28 +31,68 @@ STATUS_COLOURS = {
 @lru_cache(maxsize=1)
 def styles() -> dict[str, ParagraphStyle]:
     regular = fonts.register()
-    base = ParagraphStyle("body", fontName=regular, bulletFontName=regular, fontSize=9.5,
-                          leading=13.5, textColor=INK,
-                          spaceAfter=6)
+    base = ParagraphStyle(
+        "body",
+        fontName=regular,
+        bulletFontName=regular,
+        fontSize=9.5,
+        leading=13.5,
+        textColor=INK,
+        spaceAfter=6,
+    )
     return {
         "body": base,
         "small": ParagraphStyle("small", parent=base, fontSize=8, leading=10.5),
         "muted": ParagraphStyle("muted", parent=base, fontSize=8.5, leading=11.5, textColor=MUTED),
         "cell": ParagraphStyle("cell", parent=base, fontSize=7.5, leading=9.5, spaceAfter=0),
-        "cell_head": ParagraphStyle("cell_head", parent=base, fontName=fonts.BOLD, fontSize=7.5,
-                                    leading=9.5, spaceAfter=0),
-        "title": ParagraphStyle("title", parent=base, fontName=fonts.BOLD, fontSize=24,
-                                leading=29, spaceAfter=10),
+        "cell_head": ParagraphStyle(
+            "cell_head", parent=base, fontName=fonts.BOLD, fontSize=7.5, leading=9.5, spaceAfter=0
+        ),
+        "title": ParagraphStyle(
+            "title", parent=base, fontName=fonts.BOLD, fontSize=24, leading=29, spaceAfter=10
+        ),
         "cover_meta": ParagraphStyle("cover_meta", parent=base, fontSize=11, leading=16),
-        "status": ParagraphStyle("status", parent=base, fontName=fonts.BOLD, fontSize=13,
-                                 leading=17, textColor=DRAFT, spaceBefore=14, spaceAfter=14),
-        "h1": ParagraphStyle("h1", parent=base, fontName=fonts.BOLD, fontSize=15, leading=19,
-                             spaceBefore=4, spaceAfter=8),
-        "h2": ParagraphStyle("h2", parent=base, fontName=fonts.BOLD, fontSize=11, leading=14,
-                             spaceBefore=10, spaceAfter=2),
-        "subtitle": ParagraphStyle("subtitle", parent=base, fontSize=8.5, leading=11,
-                                   textColor=MUTED, spaceAfter=4),
-        "caution": ParagraphStyle("caution", parent=base, fontSize=8.5, leading=12,
-                                  borderColor=RULE, borderWidth=0.6, borderPadding=6,
-                                  backColor=BAND, spaceBefore=8, spaceAfter=12),
+        "status": ParagraphStyle(
+            "status",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=13,
+            leading=17,
+            textColor=DRAFT,
+            spaceBefore=14,
+            spaceAfter=14,
+        ),
+        "h1": ParagraphStyle(
+            "h1",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=15,
+            leading=19,
+            spaceBefore=4,
+            spaceAfter=8,
+        ),
+        "h2": ParagraphStyle(
+            "h2",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=11,
+            leading=14,
+            spaceBefore=10,
+            spaceAfter=2,
+        ),
+        "subtitle": ParagraphStyle(
+            "subtitle", parent=base, fontSize=8.5, leading=11, textColor=MUTED, spaceAfter=4
+        ),
+        "caution": ParagraphStyle(
+            "caution",
+            parent=base,
+            fontSize=8.5,
+            leading=12,
+            borderColor=RULE,
+            borderWidth=0.6,
+            borderPadding=6,
+            backColor=BAND,
+            spaceBefore=8,
+            spaceAfter=12,
+        ),
     }

@@ -154,8 +154,9 @@ def _numbered(content: PackContent) -> type[canvas.Canvas]:
             self.setFillColor(layout.MUTED)
             y = layout.MARGIN * 0.55
             self.drawString(layout.MARGIN, y, f"{content.title} · {content.status_line}"[:110])
-            self.drawRightString(layout.PAGE[0] - layout.MARGIN, y,
-                                 f"Page {self._pageNumber} of {total}")
+            self.drawRightString(
+                layout.PAGE[0] - layout.MARGIN, y, f"Page {self._pageNumber} of {total}"
+            )
             self.restoreState()
 
     return NumberedCanvas
@@ -171,15 +172,30 @@ def build(content: PackContent) -> tuple[bytes, list[Slot]]:
     story.extend([PageBreak(), *_appendix(content, s)])
     buffer = io.BytesIO()
     doc = BaseDocTemplate(
-        buffer, pagesize=layout.PAGE, leftMargin=layout.MARGIN, rightMargin=layout.MARGIN,
-        topMargin=layout.MARGIN, bottomMargin=layout.MARGIN, title=content.title,
-        author=content.owner, subject=f"{content.period} · {content.status_line}",
-        creator=f"Plumbline {__version__}", producer=f"Plumbline {__version__}",
+        buffer,
+        pagesize=layout.PAGE,
+        leftMargin=layout.MARGIN,
+        rightMargin=layout.MARGIN,
+        topMargin=layout.MARGIN,
+        bottomMargin=layout.MARGIN,
+        title=content.title,
+        author=content.owner,
+        subject=f"{content.period} · {content.status_line}",
+        creator=f"Plumbline {__version__}",
+        producer=f"Plumbline {__version__}",
         initialFontName=fonts.register(),
     )
-    frame = Frame(layout.MARGIN, layout.MARGIN, layout.FRAME_WIDTH,
-                  layout.PAGE[1] - 2 * layout.MARGIN, id="body", leftPadding=0, rightPadding=0,
-                  topPadding=0, bottomPadding=0)
+    frame = Frame(
+        layout.MARGIN,
+        layout.MARGIN,
+        layout.FRAME_WIDTH,
+        layout.PAGE[1] - 2 * layout.MARGIN,
+        id="body",
+        leftPadding=0,
+        rightPadding=0,
+        topPadding=0,
+        bottomPadding=0,
+    )
     doc.addPageTemplates([PageTemplate(id="page", frames=[frame])])
     doc.build(story, canvasmaker=_numbered(content))
     return buffer.getvalue(), found
@@ -198,8 +214,11 @@ def _cover(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
     meta.append(f"Report id: {_text(content.report_id)}")
     yield Paragraph("<br/>".join(meta), s["cover_meta"])
     yield Paragraph(_text(content.status_line), s["status"])
-    yield Paragraph(f"Integrity checks: {_text(content.summary_line)}. The appendix lists every "
-                    "check of every chart.", s["body"])
+    yield Paragraph(
+        f"Integrity checks: {_text(content.summary_line)}. The appendix lists every "
+        "check of every chart.",
+        s["body"],
+    )
     yield Paragraph(_text(CAUTION), s["caution"])
 
 
@@ -224,11 +243,17 @@ def _section(section: SectionBlock, s: dict[str, Any], found: list[Slot]) -> Ite
     yield Spacer(1, 10)
 
 
-def _grid(rows: Sequence[Sequence[str]], widths: list[float], s: dict[str, Any],
-          numeric: Sequence[bool] | None = None,
-          colours: dict[int, Any] | None = None) -> LongTable:
-    cells = [[Paragraph(_text(v), s["cell_head"] if r == 0 else s["cell"]) for v in row]
-             for r, row in enumerate(rows)]
+def _grid(
+    rows: Sequence[Sequence[str]],
+    widths: list[float],
+    s: dict[str, Any],
+    numeric: Sequence[bool] | None = None,
+    colours: dict[int, Any] | None = None,
+) -> LongTable:
+    cells = [
+        [Paragraph(_text(v), s["cell_head"] if r == 0 else s["cell"]) for v in row]
+        for r, row in enumerate(rows)
+    ]
     table = LongTable(cells, colWidths=widths, repeatRows=1)
     commands: list[tuple[Any, ...]] = [
         ("FONT", (0, 0), (-1, -1), fonts.register(), 7.5),  # else reportlab sets Helvetica
@@ -273,13 +298,19 @@ def _appendix(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
         "measured and the threshold it applies. <b>corrected</b>: the definition asked for "
         "something that breaks the rule, and the honest form was drawn instead. <b>waived</b>: "
         "the breach was accepted, with the reason and by whom. <b>failed</b>: the rule is broken "
-        "and the pack cannot be signed off until it is fixed or waived.", s["body"])
+        "and the pack cannot be signed off until it is fixed or waived.",
+        s["body"],
+    )
     yield Paragraph(_text(CAUTION), s["caution"])
     header = ["Chart", "Check", "Status", "Measured", "Threshold", "Explanation"]
-    rows = [[r.chart, r.check, r.status, r.measured, r.threshold, r.explanation]
-            for r in content.appendix]
-    colours = {i + 1: layout.STATUS_COLOURS.get(r.status, layout.INK)
-               for i, r in enumerate(content.appendix)}
+    rows = [
+        [r.chart, r.check, r.status, r.measured, r.threshold, r.explanation]
+        for r in content.appendix
+    ]
+    colours = {
+        i + 1: layout.STATUS_COLOURS.get(r.status, layout.INK)
+        for i, r in enumerate(content.appendix)
+    }
     w = layout.FRAME_WIDTH
     widths = [w * 0.16, w * 0.17, w * 0.09, w * 0.11, w * 0.14, w * 0.33]
     yield _grid([header, *rows], widths, s, colours=colours)
@@ -288,5 +319,8 @@ def _appendix(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
     for check, source in content.sources:
         yield Paragraph(f"<b>{_text(check)}</b>: {_text(source)}", s["small"])
     yield Spacer(1, 10)
-    yield Paragraph(f"Definition fingerprint (SHA-256 of the definition as received): "
-                    f"{_text(content.fingerprint)}", s["small"])
+    yield Paragraph(
+        f"Definition fingerprint (SHA-256 of the definition as received): "
+        f"{_text(content.fingerprint)}",
+        s["small"],
+    )

@@ -24,9 +24,10 @@ def place(document: bytes, slots: list[Slot], charts: Mapping[str, bytes]) -> by
                 sources.append(source)
                 page = pdf.pages[slot.page]
                 form = pdf.copy_foreign(source.pages[0].as_form_xobject())
-                name = page.add_resource(form, pikepdf.Name.XObject, name=f"/PlChart{number}")
-                rect = pikepdf.Rectangle(slot.x, slot.y, slot.x + slot.width,
-                                         slot.y + slot.height)
+                name = page.add_resource(
+                    form, pikepdf.Name.XObject, name=pikepdf.Name(f"/PlChart{number}")
+                )
+                rect = pikepdf.Rectangle(slot.x, slot.y, slot.x + slot.width, slot.y + slot.height)
                 placement = page.calc_form_xobject_placement(
                     form, pikepdf.Name(str(name)), rect, allow_shrink=True, allow_expand=True
                 )
@@ -35,8 +36,12 @@ def place(document: bytes, slots: list[Slot], charts: Mapping[str, bytes]) -> by
                 if "/Trans" in page.obj:
                     del page.obj["/Trans"]  # reportlab's empty transition dicts (PDF/A dislikes)
             out = io.BytesIO()
-            pdf.save(out, deterministic_id=True, compress_streams=True,
-                     object_stream_mode=pikepdf.ObjectStreamMode.generate)
+            pdf.save(
+                out,
+                deterministic_id=True,
+                compress_streams=True,
+                object_stream_mode=pikepdf.ObjectStreamMode.generate,
+            )
             for source in sources:
                 source.close()
             return out.getvalue()

@@ -14,8 +14,13 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     if base == 0.0:
         return Finding(True, 0.0, "Bars start at zero.", "0")
     shown = formatting.with_unit(base, plan.value_axis.unit, ctx.locale)
-    return Finding(False, base, f"The definition asked for bars starting at {shown}, which would "
-                   "make their lengths exaggerate the differences.", f"starts at {shown}")
+    return Finding(
+        False,
+        base,
+        f"The definition asked for bars starting at {shown}, which would "
+        "make their lengths exaggerate the differences.",
+        f"starts at {shown}",
+    )
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -27,17 +32,19 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     return plan.model_copy(update={"bar_base": 0.0, "value_axis": axis, "notes": notes})
 
 
-SPEC = register(CheckSpec(
-    id="bar-zero-baseline",
-    title="Bars start at zero",
-    intents=frozenset({"compare"}),
-    forms=frozenset({"bars"}),
-    measures="where the bars start on the value axis",
-    threshold="0",
-    source="Tufte (1983), p. 57; Correll, Bertini & Franconeri, 'Truncating the Y-Axis: Threat or "
-    "Menace?', CHI 2020",
-    waivable=True,
-    correction="Bars were drawn from zero instead.",
-    measure=_measure,
-    correct=_correct,
-))
+SPEC = register(
+    CheckSpec(
+        id="bar-zero-baseline",
+        title="Bars start at zero",
+        intents=frozenset({"compare"}),
+        forms=frozenset({"bars"}),
+        measures="where the bars start on the value axis",
+        threshold="0",
+        source="Tufte (1983), p. 57; Correll, Bertini & Franconeri, 'Truncating the Y-Axis: Threat or "
+        "Menace?', CHI 2020",
+        waivable=True,
+        correction="Bars were drawn from zero instead.",
+        measure=_measure,
+        correct=_correct,
+    )
+)

@@ -9,6 +9,7 @@ checks are written onto the plan's ``flags`` so the chart itself shows them.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from datetime import date
 
 from service.checks import registry
 from service.checks.registry import CheckSpec, Context, Finding
@@ -33,11 +34,20 @@ def guard(plan: ChartPlan, ctx: Context, waivers: list[Waiver]) -> Guarded:
         waiver, expired = _waiver_for(spec, plan, ctx, waivers)
         if waiver is not None:
             record = WaiverRecord(reason=waiver.reason, by=waiver.by, expires=waiver.expires)
-            results.append(_result(spec, plan, Status.waived, finding,
-                                   f"{finding.detail} Waived by {waiver.by}.", record))
+            results.append(
+                _result(
+                    spec,
+                    plan,
+                    Status.waived,
+                    finding,
+                    f"{finding.detail} Waived by {waiver.by}.",
+                    waiver=record,
+                )
+            )
             continue
-        note = f" A waiver expired on {expired.isoformat()} and no longer applies." \
-            if expired else ""
+        note = (
+            f" A waiver expired on {expired.isoformat()} and no longer applies." if expired else ""
+        )
         if spec.correct is not None:
             corrected = spec.correct(plan, ctx)
             after = spec.measure(corrected, ctx)
@@ -55,7 +65,7 @@ def guard(plan: ChartPlan, ctx: Context, waivers: list[Waiver]) -> Guarded:
 
 def _waiver_for(
     spec: CheckSpec, plan: ChartPlan, ctx: Context, waivers: list[Waiver]
-) -> tuple[Waiver | None, object]:
+) -> tuple[Waiver | None, date | None]:
     for waiver in waivers:
         if waiver.check == spec.id and waiver.chart == plan.chart_id and spec.waivable:
             if waiver.expires is not None and waiver.expires < ctx.as_of.date():
@@ -70,12 +80,19 @@ def _result(
     status: Status,
     finding: Finding,
     explanation: str,
+    *,
     waiver: WaiverRecord | None = None,
 ) -> CheckResult:
     return CheckResult(
-        check=spec.id, chart=plan.chart_id, status=status, measured=finding.measured,
+        check=spec.id,
+        chart=plan.chart_id,
+        status=status,
+        measured=finding.measured,
         measured_text=finding.shown if finding.shown is not None else _plain(finding.measured),
-        threshold=spec.threshold, explanation=explanation, source=spec.source, waiver=waiver,
+        threshold=spec.threshold,
+        explanation=explanation,
+        source=spec.source,
+        waiver=waiver,
     )
 
 

@@ -50,29 +50,38 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     values, lengths = drawn_lengths(plan)
     factor = worst(values, lengths)
     if factor is None:
-        return Finding(True, None, "Fewer than two distinct non-zero values: no effect to exaggerate.")
+        return Finding(
+            True, None, "Fewer than two distinct non-zero values: no effect to exaggerate."
+        )
     shown = formatting.number(factor, "en-GB", digits=2)
     if LOW <= factor <= HIGH:
-        return Finding(True, round(factor, 4),
-                       f"Drawn lengths are proportional to the values (lie factor {shown}).",
-                       shown)
+        return Finding(
+            True,
+            round(factor, 4),
+            f"Drawn lengths are proportional to the values (lie factor {shown}).",
+            shown,
+        )
     return Finding(
-        False, round(factor, 4),
+        False,
+        round(factor, 4),
         f"Drawn lengths exaggerate the differences {shown} times (lie factor {shown}, "
-        f"outside {LOW}–{HIGH}).", shown,
+        f"outside {LOW}–{HIGH}).",
+        shown,
     )
 
 
-SPEC = register(CheckSpec(
-    id="lie-factor",
-    title="Lie factor of drawn lengths",
-    intents=frozenset({"compare"}),
-    forms=frozenset({"bars"}),
-    measures="the worst ratio, over every pair of bars, of the change shown by the drawn lengths "
-    "to the change in the data",
-    threshold="0.95 to 1.05",
-    source="Tufte, The Visual Display of Quantitative Information (1983), p. 57",
-    waivable=True,
-    correction=None,
-    measure=_measure,
-))
+SPEC = register(
+    CheckSpec(
+        id="lie-factor",
+        title="Lie factor of drawn lengths",
+        intents=frozenset({"compare"}),
+        forms=frozenset({"bars"}),
+        measures="the worst ratio, over every pair of bars, of the change shown by the drawn lengths "
+        "to the change in the data",
+        threshold="0.95 to 1.05",
+        source="Tufte, The Visual Display of Quantitative Information (1983), p. 57",
+        waivable=True,
+        correction=None,
+        measure=_measure,
+    )
+)

@@ -60,13 +60,23 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     problems = _violations(plan, labels, gaps)
     shown = f"{len(gaps)} {noun}"
     if problems:
-        return Finding(False, len(gaps), f"{len(gaps)} {noun} without data, but "
-                       + "; ".join(problems[:3]) + ".", shown)
+        return Finding(
+            False,
+            len(gaps),
+            f"{len(gaps)} {noun} without data, but " + "; ".join(problems[:3]) + ".",
+            shown,
+        )
     if not gaps:
-        return Finding(True, 0, f"Every expected period from {labels[0]} to {labels[-1]} has data.",
-                       shown)
-    return Finding(True, len(gaps), f"{len(gaps)} {noun} without data ({listed}{more}): the line "
-                   "is broken there and marked 'no data'; nothing is filled in.", shown)
+        return Finding(
+            True, 0, f"Every expected period from {labels[0]} to {labels[-1]} has data.", shown
+        )
+    return Finding(
+        True,
+        len(gaps),
+        f"{len(gaps)} {noun} without data ({listed}{more}): the line "
+        "is broken there and marked 'no data'; nothing is filled in.",
+        shown,
+    )
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -79,23 +89,28 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     for old, measure in zip(plan.series, chart.measures, strict=True):
         values = [None if pd.isna(v) else float(v) for v in frame[measure]]
         series.append(old.model_copy(update={"values": values, "segments": trend.runs(values)}))
-    return plan.model_copy(update={
-        "periods": labels, "series": series,
-        "gaps": [Gap(index=i, series=names) for i, names in gaps.items()],
-    })
+    return plan.model_copy(
+        update={
+            "periods": labels,
+            "series": series,
+            "gaps": [Gap(index=i, series=names) for i, names in gaps.items()],
+        }
+    )
 
 
-SPEC = register(CheckSpec(
-    id="missing-periods",
-    title="Missing periods are shown as gaps",
-    intents=frozenset({"trend"}),
-    forms=frozenset({"lines"}),
-    measures="periods the declared frequency expects between the first and last row that have no "
-    "value, and whether each is drawn as a marked gap",
-    threshold="every missing period drawn as a gap; none joined or filled",
-    source="common practice (no source)",
-    waivable=False,
-    correction="The line was broken at each missing period and marked 'no data'.",
-    measure=_measure,
-    correct=_correct,
-))
+SPEC = register(
+    CheckSpec(
+        id="missing-periods",
+        title="Missing periods are shown as gaps",
+        intents=frozenset({"trend"}),
+        forms=frozenset({"lines"}),
+        measures="periods the declared frequency expects between the first and last row that have no "
+        "value, and whether each is drawn as a marked gap",
+        threshold="every missing period drawn as a gap; none joined or filled",
+        source="common practice (no source)",
+        waivable=False,
+        correction="The line was broken at each missing period and marked 'no data'.",
+        measure=_measure,
+        correct=_correct,
+    )
+)

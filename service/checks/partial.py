@@ -12,45 +12,62 @@ def _last(ctx: Context) -> tuple[str, periods.Completeness | None, int]:
     assert table.periods is not None and table.frequency is not None
     last = table.periods.max()
     index = len(periods.expected(table.periods.min(), last)) - 1
-    return periods.label(last, table.frequency, ctx.locale), periods.completeness(last, ctx.as_of), \
-        index
+    return (
+        periods.label(last, table.frequency, ctx.locale),
+        periods.completeness(last, ctx.as_of),
+        index,
+    )
 
 
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     label, done, index = _last(ctx)
     if done is None:
         if plan.partial is None:
-            return Finding(True, 1.0, f"The last period, {label}, was complete at as_of.",
-                           "complete")
-        return Finding(False, 1.0, f"{label} was complete at as_of but is drawn as partial.",
-                       "complete")
+            return Finding(
+                True, 1.0, f"The last period, {label}, was complete at as_of.", "complete"
+            )
+        return Finding(
+            False, 1.0, f"{label} was complete at as_of but is drawn as partial.", "complete"
+        )
     fraction = round(done.fraction, 4)
     expected = PartialMark(index=index, text=done.text(), fraction=done.fraction)
     if plan.partial == expected:
-        return Finding(True, fraction, f"{label} had run {done.text()} at as_of: drawn as a "
-                       "hollow point, not joined to the line, and labelled, so it does not read "
-                       "as a fall.", done.text())
-    return Finding(False, fraction, f"{label} had run only {done.text()} at as_of, but is drawn "
-                   "like a complete period.", done.text())
+        return Finding(
+            True,
+            fraction,
+            f"{label} had run {done.text()} at as_of: drawn as a "
+            "hollow point, not joined to the line, and labelled, so it does not read "
+            "as a fall.",
+            done.text(),
+        )
+    return Finding(
+        False,
+        fraction,
+        f"{label} had run only {done.text()} at as_of, but is drawn like a complete period.",
+        done.text(),
+    )
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     _, done, index = _last(ctx)
-    mark = None if done is None else PartialMark(index=index, text=done.text(),
-                                                 fraction=done.fraction)
+    mark = (
+        None if done is None else PartialMark(index=index, text=done.text(), fraction=done.fraction)
+    )
     return plan.model_copy(update={"partial": mark})
 
 
-SPEC = register(CheckSpec(
-    id="partial-period",
-    title="A partial last period is marked",
-    intents=frozenset({"trend"}),
-    forms=frozenset({"lines"}),
-    measures="the share of the last period elapsed at as_of (whole days)",
-    threshold="a period under 100 % elapsed is drawn hollow and labelled",
-    source="common practice (no source)",
-    waivable=False,
-    correction="The last period was drawn hollow and labelled with its completeness.",
-    measure=_measure,
-    correct=_correct,
-))
+SPEC = register(
+    CheckSpec(
+        id="partial-period",
+        title="A partial last period is marked",
+        intents=frozenset({"trend"}),
+        forms=frozenset({"lines"}),
+        measures="the share of the last period elapsed at as_of (whole days)",
+        threshold="a period under 100 % elapsed is drawn hollow and labelled",
+        source="common practice (no source)",
+        waivable=False,
+        correction="The last period was drawn hollow and labelled with its completeness.",
+        measure=_measure,
+        correct=_correct,
+    )
+)

@@ -107,30 +107,46 @@ def waiver_problems(definition: ReportDefinition) -> Iterable[Problem]:
         if spec is None:
             close = difflib.get_close_matches(waiver.check, list(CHECKS), n=1)
             yield Problem(
-                "unknown_check", f"{path}.check", f"there is no check '{waiver.check}'",
+                "unknown_check",
+                f"{path}.check",
+                f"there is no check '{waiver.check}'",
                 f"did you mean '{close[0]}'?" if close else "see `plumbline checks`",
-                waiver.check)
+                waiver.check,
+            )
             continue
         if not spec.waivable:
             yield Problem(
-                "not_waivable", f"{path}.check",
+                "not_waivable",
+                f"{path}.check",
                 f"the check '{spec.id}' protects the integrity of the data and cannot be waived",
-                "fix the data or the chart instead", waiver.check)
+                "fix the data or the chart instead",
+                waiver.check,
+            )
         chart = charts.get(waiver.chart)
         if chart is None:
             close = difflib.get_close_matches(waiver.chart, list(charts), n=1)
             yield Problem(
-                "unknown_chart", f"{path}.chart", f"there is no chart '{waiver.chart}'",
+                "unknown_chart",
+                f"{path}.chart",
+                f"there is no chart '{waiver.chart}'",
                 f"did you mean '{close[0]}'?" if close else "name a chart id of this report",
-                waiver.chart)
+                waiver.chart,
+            )
         elif chart.intent not in spec.intents:
             yield Problem(
-                "check_not_applicable", f"{path}.check",
+                "check_not_applicable",
+                f"{path}.check",
                 f"the check '{spec.id}' does not apply to '{chart.id}' (intent '{chart.intent}')",
-                f"it applies to intents: {', '.join(sorted(spec.intents))}", waiver.check)
+                f"it applies to intents: {', '.join(sorted(spec.intents))}",
+                waiver.check,
+            )
         key = (waiver.check, waiver.chart)
         if key in seen:
-            yield Problem("duplicate_waiver", path,
-                          f"'{waiver.check}' on '{waiver.chart}' is waived twice",
-                          "keep one waiver per check and chart", list(key))
+            yield Problem(
+                "duplicate_waiver",
+                path,
+                f"'{waiver.check}' on '{waiver.chart}' is waived twice",
+                "keep one waiver per check and chart",
+                list(key),
+            )
         seen.add(key)

@@ -16,24 +16,29 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
         return Finding(True, axis.lo, "The value axis includes zero.", "includes 0")
     if scale_note(axis, plan.locale) in plan.notes:
         return Finding(True, axis.lo, f"The scale starts at {start}, and the chart says so.", shown)
-    return Finding(False, axis.lo, f"The scale starts at {start}, but the chart does not say so.",
-                   shown)
+    return Finding(
+        False, axis.lo, f"The scale starts at {start}, but the chart does not say so.", shown
+    )
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
-    return plan.model_copy(update={"notes": [*plan.notes, scale_note(plan.value_axis, plan.locale)]})
+    return plan.model_copy(
+        update={"notes": [*plan.notes, scale_note(plan.value_axis, plan.locale)]}
+    )
 
 
-SPEC = register(CheckSpec(
-    id="nonzero-scale-noted",
-    title="A scale that does not start at zero is marked",
-    intents=frozenset({"compare", "trend"}),
-    forms=frozenset({"dots", "lines"}),
-    measures="where the value axis starts, and whether the chart states it",
-    threshold="axis includes 0, or a note on the chart",
-    source="common practice (no source)",
-    waivable=False,
-    correction="A note saying where the scale starts was added to the chart.",
-    measure=_measure,
-    correct=_correct,
-))
+SPEC = register(
+    CheckSpec(
+        id="nonzero-scale-noted",
+        title="A scale that does not start at zero is marked",
+        intents=frozenset({"compare", "trend"}),
+        forms=frozenset({"dots", "lines"}),
+        measures="where the value axis starts, and whether the chart states it",
+        threshold="axis includes 0, or a note on the chart",
+        source="common practice (no source)",
+        waivable=False,
+        correction="A note saying where the scale starts was added to the chart.",
+        measure=_measure,
+        correct=_correct,
+    )
+)

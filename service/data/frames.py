@@ -63,8 +63,9 @@ def load(dataset: Dataset, *, path: str, as_of: datetime) -> tuple[Table | None,
         return None, problems
     frame = pd.DataFrame(index=raw.index)
     for column in dataset.columns:
-        values = raw[column.name] if column.name in raw else pd.Series([None] * len(raw),
-                                                                       dtype=object)
+        values = (
+            raw[column.name] if column.name in raw else pd.Series([None] * len(raw), dtype=object)
+        )
         converted, bad = _convert(values, column.type)
         frame[column.name] = converted
         problems.extend(_value_problems(bad, values, column.name, column.type, locate))
@@ -87,6 +88,7 @@ def _raw_frame(dataset: Dataset, path: str) -> tuple[pd.DataFrame | None, list[P
     declared = [c.name for c in dataset.columns]
     problems: list[Problem] = []
     if dataset.rows is not None:
+
         def locate_row(row: int, column: str) -> tuple[str, dict[str, Any]]:
             return f"{path}.rows[{row}].{column}", {}
 
@@ -96,12 +98,20 @@ def _raw_frame(dataset: Dataset, path: str) -> tuple[pd.DataFrame | None, list[P
                 if key not in declared and key not in unknown:
                     unknown[key] = r
         for key, r in unknown.items():
-            problems.append(Problem(
-                "unknown_column", f"{path}.rows[{r}].{key}",
-                f"row {r} has a value for '{key}', which is not a declared column",
-                f"declare '{key}' in {path}.columns, or remove it from the rows", key))
-        frame = pd.DataFrame.from_records(dataset.rows, columns=declared) if dataset.rows \
+            problems.append(
+                Problem(
+                    "unknown_column",
+                    f"{path}.rows[{r}].{key}",
+                    f"row {r} has a value for '{key}', which is not a declared column",
+                    f"declare '{key}' in {path}.columns, or remove it from the rows",
+                    key,
+                )
+            )
+        frame = (
+            pd.DataFrame.from_records(dataset.rows, columns=declared)
+            if dataset.rows
             else pd.DataFrame(columns=declared)
+        )
         return frame.astype(object), problems, locate_row
 
     def locate_line(row: int, column: str) -> tuple[str, dict[str, Any]]:
@@ -110,30 +120,49 @@ def _raw_frame(dataset: Dataset, path: str) -> tuple[pd.DataFrame | None, list[P
     assert dataset.csv is not None
     try:
         frame = pd.read_csv(
-            io.StringIO(dataset.csv), dtype=str, keep_default_na=False, na_values=[""],
-            on_bad_lines="error", skipinitialspace=True,
+            io.StringIO(dataset.csv),
+            dtype=str,
+            keep_default_na=False,
+            na_values=[""],
+            on_bad_lines="error",
+            skipinitialspace=True,
         )
     except (pd.errors.ParserError, pd.errors.EmptyDataError, ValueError) as exc:
-        problems.append(Problem(
-            "bad_csv", f"{path}.csv", f"the CSV text cannot be read: {exc}".strip(),
-            "give a header line naming the columns, then one line per row with the same number "
-            "of fields; quote fields that contain commas"))
+        problems.append(
+            Problem(
+                "bad_csv",
+                f"{path}.csv",
+                f"the CSV text cannot be read: {exc}".strip(),
+                "give a header line naming the columns, then one line per row with the same number "
+                "of fields; quote fields that contain commas",
+            )
+        )
         return None, problems, locate_line
     header = [str(c).strip() for c in frame.columns]
     frame.columns = pd.Index(header)
     for name in header:
         if name not in declared:
-            problems.append(Problem(
-                "unknown_column", f"{path}.csv",
-                f"the CSV header names '{name}', which is not a declared column",
-                f"declare '{name}' in {path}.columns, or drop it from the CSV", name,
-                {"line": 1}))
+            problems.append(
+                Problem(
+                    "unknown_column",
+                    f"{path}.csv",
+                    f"the CSV header names '{name}', which is not a declared column",
+                    f"declare '{name}' in {path}.columns, or drop it from the CSV",
+                    name,
+                    {"line": 1},
+                )
+            )
     for c, name in enumerate(declared):
         if name not in header:
-            problems.append(Problem(
-                "column_missing", f"{path}.columns[{c}]",
-                f"the column '{name}' is declared but the CSV header does not name it",
-                "add it to the CSV header, or remove the declaration", name))
+            problems.append(
+                Problem(
+                    "column_missing",
+                    f"{path}.columns[{c}]",
+                    f"the column '{name}' is declared but the CSV header does not name it",
+                    "add it to the CSV header, or remove the declaration",
+                    name,
+                )
+            )
     if problems:
         return None, problems, locate_line
     return frame.astype(object), problems, locate_line
@@ -162,7 +191,10 @@ def _convert(values: pd.Series, kind: ColumnType) -> tuple[pd.Series, pd.Series]
 
 
 _EXPECTED = {
-    ColumnType.number: ("a number", "write numbers without units or thousands separators, e.g. 1234.5"),
+    ColumnType.number: (
+        "a number",
+        "write numbers without units or thousands separators, e.g. 1234.5",
+    ),
     ColumnType.integer: ("a whole number", "write whole numbers, e.g. 1234"),
     ColumnType.date: ("a date", "write dates as YYYY-MM-DD, e.g. 2026-10-01"),
     ColumnType.timestamp: ("a timestamp", "write ISO 8601, e.g. 2026-10-01T08:00:00+00:00"),
@@ -180,10 +212,14 @@ def _value_problems(
         if isinstance(value, float) and not math.isfinite(value):
             value = str(value)
         more = len(rows) - MAX_PROBLEMS_PER_COLUMN
-        tail = f"; {more} more values in this column have the same problem" \
-            if n == MAX_PROBLEMS_PER_COLUMN - 1 and more > 0 else ""
-        yield Problem("unparseable_value", path, f"'{column}' should be {what}{tail}", hint,
-                      value, context)
+        tail = (
+            f"; {more} more values in this column have the same problem"
+            if n == MAX_PROBLEMS_PER_COLUMN - 1 and more > 0
+            else ""
+        )
+        yield Problem(
+            "unparseable_value", path, f"'{column}' should be {what}{tail}", hint, value, context
+        )
 
 
 def _with_periods(
@@ -194,30 +230,54 @@ def _with_periods(
     problems: list[Problem] = []
     for row in np.flatnonzero(times.isna().to_numpy())[:MAX_PROBLEMS_PER_COLUMN]:
         path, context = locate(int(row), dataset.time_column)
-        problems.append(Problem(
-            "time_missing", path, "a row has no time, so it cannot be placed in a period",
-            "give every row a time, or remove the row", None, context))
+        problems.append(
+            Problem(
+                "time_missing",
+                path,
+                "a row has no time, so it cannot be placed in a period",
+                "give every row a time, or remove the row",
+                None,
+                context,
+            )
+        )
     if problems:
         return table, problems
     found = periods.to_periods(times, dataset.frequency)
     duplicated = np.flatnonzero(found.duplicated())
     for row in duplicated[:MAX_PROBLEMS_PER_COLUMN]:
         path, context = locate(int(row), dataset.time_column)
-        problems.append(Problem(
-            "duplicate_period", path,
-            f"two rows fall in the same {dataset.frequency.value} ({found[row]})",
-            f"give one row per {dataset.frequency.value}: add the rows up first, or declare a "
-            "finer frequency", str(times.iloc[row]), context))
+        problems.append(
+            Problem(
+                "duplicate_period",
+                path,
+                f"two rows fall in the same {dataset.frequency.value} ({found[row]})",
+                f"give one row per {dataset.frequency.value}: add the rows up first, or declare a "
+                "finer frequency",
+                str(times.iloc[row]),
+                context,
+            )
+        )
     as_of_period = pd.Period(as_of, freq=periods.pandas_freq(dataset.frequency))
     for row in np.flatnonzero(found > as_of_period)[:MAX_PROBLEMS_PER_COLUMN]:
         path, context = locate(int(row), dataset.time_column)
-        problems.append(Problem(
-            "period_after_as_of", path,
-            f"the row is for {found[row]}, which had not begun at as_of ({as_of:%Y-%m-%d %H:%M})",
-            "check the dates, or the report's as_of", str(times.iloc[row]), context))
+        problems.append(
+            Problem(
+                "period_after_as_of",
+                path,
+                f"the row is for {found[row]}, which had not begun at as_of ({as_of:%Y-%m-%d %H:%M})",
+                "check the dates, or the report's as_of",
+                str(times.iloc[row]),
+                context,
+            )
+        )
     order = np.argsort(found.asi8, kind="stable")
     frame = table.frame.iloc[order].reset_index(drop=True)
     return Table(
-        name=table.name, frame=frame, units=table.units, time_column=dataset.time_column,
-        frequency=dataset.frequency, periods=pd.PeriodIndex(found[order]), types=table.types,
+        name=table.name,
+        frame=frame,
+        units=table.units,
+        time_column=dataset.time_column,
+        frequency=dataset.frequency,
+        periods=pd.PeriodIndex(found[order]),
+        types=table.types,
     ), problems

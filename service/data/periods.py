@@ -46,12 +46,12 @@ def missing(present: pd.PeriodIndex) -> list[pd.Period]:
 
 
 def start(period: pd.Period) -> datetime:
-    return period.start_time.to_pydatetime()  # type: ignore[no-any-return]
+    return period.start_time.to_pydatetime()
 
 
 def end(period: pd.Period) -> datetime:
     """The first instant after the period."""
-    return (period + 1).start_time.to_pydatetime()  # type: ignore[no-any-return]
+    return (period + 1).start_time.to_pydatetime()
 
 
 def days(period: pd.Period) -> int:

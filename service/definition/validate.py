@@ -42,7 +42,10 @@ _PYDANTIC_CODES: dict[str, tuple[str, str]] = {
     "string_too_long": ("too_long", "shorten the text"),
     "string_pattern_mismatch": ("bad_format", "follow the pattern given in the schema"),
     "too_short": ("too_few_items", "add at least the minimum number of items"),
-    "timezone_aware": ("timezone_missing", "add a time zone offset, e.g. 2026-11-09T08:00:00+00:00"),
+    "timezone_aware": (
+        "timezone_missing",
+        "add a time zone offset, e.g. 2026-11-09T08:00:00+00:00",
+    ),
     "datetime_from_date_parsing": ("bad_timestamp", "use ISO 8601, e.g. 2026-11-09T08:00:00+00:00"),
     "datetime_parsing": ("bad_timestamp", "use ISO 8601, e.g. 2026-11-09T08:00:00+00:00"),
     "datetime_type": ("bad_timestamp", "use ISO 8601, e.g. 2026-11-09T08:00:00+00:00"),
@@ -73,7 +76,11 @@ def parse(raw: bytes | str, limits: Limits) -> tuple[ReportDefinition, list[Prob
 def validate(document: Any, limits: Limits) -> tuple[ReportDefinition, list[Problem]]:
     if not isinstance(document, dict):
         raise InvalidDefinition(
-            [Problem("not_an_object", "", "a definition is a JSON object", "send {\"version\": 1, …}")]
+            [
+                Problem(
+                    "not_an_object", "", "a definition is a JSON object", 'send {"version": 1, …}'
+                )
+            ]
         )
     problems = list(_count_limits(document, limits))
     try:
@@ -188,33 +195,43 @@ def _count_limits(document: dict[str, Any], limits: Limits) -> Iterable[Problem]
     datasets = document.get("datasets")
     if isinstance(datasets, list):
         if len(datasets) > limits.max_datasets:
-            yield over("datasets", "too many datasets", len(datasets), limits.max_datasets,
-                       "max_datasets")
+            yield over(
+                "datasets", "too many datasets", len(datasets), limits.max_datasets, "max_datasets"
+            )
         for i, dataset in enumerate(datasets):
             if not isinstance(dataset, dict):
                 continue
             rows = dataset.get("rows")
             if isinstance(rows, list) and len(rows) > limits.max_rows:
-                yield over(f"datasets[{i}].rows", "too many rows", len(rows), limits.max_rows,
-                           "max_rows")
+                yield over(
+                    f"datasets[{i}].rows", "too many rows", len(rows), limits.max_rows, "max_rows"
+                )
             csv_text = dataset.get("csv")
             if isinstance(csv_text, str):
                 lines = csv_text.count("\n") + (0 if csv_text.endswith("\n") else 1) - 1
                 if lines > limits.max_rows:
-                    yield over(f"datasets[{i}].csv", "too many rows", lines, limits.max_rows,
-                               "max_rows")
+                    yield over(
+                        f"datasets[{i}].csv", "too many rows", lines, limits.max_rows, "max_rows"
+                    )
             columns = dataset.get("columns")
             if isinstance(columns, list) and len(columns) > limits.max_columns:
-                yield over(f"datasets[{i}].columns", "too many columns", len(columns),
-                           limits.max_columns, "max_columns")
+                yield over(
+                    f"datasets[{i}].columns",
+                    "too many columns",
+                    len(columns),
+                    limits.max_columns,
+                    "max_columns",
+                )
     sections = document.get("sections")
     if isinstance(sections, list):
         if len(sections) > limits.max_sections:
-            yield over("sections", "too many sections", len(sections), limits.max_sections,
-                       "max_sections")
+            yield over(
+                "sections", "too many sections", len(sections), limits.max_sections, "max_sections"
+            )
         charts = sum(
-            len(s["charts"]) for s in sections if isinstance(s, dict)
-            and isinstance(s.get("charts"), list)
+            len(s["charts"])
+            for s in sections
+            if isinstance(s, dict) and isinstance(s.get("charts"), list)
         )
         if charts > limits.max_charts:
             yield over("sections", "too many charts", charts, limits.max_charts, "max_charts")
@@ -246,8 +263,9 @@ def _text_limits(definition: ReportDefinition, limits: Limits) -> Iterable[Probl
             yield from check(f"{base}.subtitle", chart.subtitle, label, "max_label_chars")
             yield from check(f"{base}.note", chart.note, text, "max_text_chars")
         for t, table in enumerate(section.tables):
-            yield from check(f"sections[{s}].tables[{t}].title", table.title, label,
-                             "max_label_chars")
+            yield from check(
+                f"sections[{s}].tables[{t}].title", table.title, label, "max_label_chars"
+            )
     for w, waiver in enumerate(definition.waivers):
         yield from check(f"waivers[{w}].reason", waiver.reason, text, "max_text_chars")
 
@@ -259,25 +277,25 @@ def references(definition: ReportDefinition) -> Iterable[Problem]:
         yield from _dataset_problems(f"datasets[{d}]", dataset)
     names = [d.name for d in definition.datasets]
     for path, chart in definition.charts():
-        dataset = definition.dataset(chart.dataset)
-        if dataset is None:
+        source = definition.dataset(chart.dataset)
+        if source is None:
             yield _unknown(f"{path}.dataset", "dataset", chart.dataset, names)
             continue
         if isinstance(chart, CompareChart):
-            yield from _compare_problems(path, chart, dataset)
+            yield from _compare_problems(path, chart, source)
         elif isinstance(chart, TrendChart):
-            yield from _trend_problems(path, chart, dataset)
+            yield from _trend_problems(path, chart, source)
     for s, section in enumerate(definition.sections):
         for t, table in enumerate(section.tables):
             path = f"sections[{s}].tables[{t}]"
-            dataset = definition.dataset(table.dataset)
-            if dataset is None:
+            shown = definition.dataset(table.dataset)
+            if shown is None:
                 yield _unknown(f"{path}.dataset", "dataset", table.dataset, names)
                 continue
-            known = [c.name for c in dataset.columns]
+            known = [c.name for c in shown.columns]
             for i, column in enumerate(table.columns or []):
                 if column not in known:
-                    yield _unknown(f"{path}.columns[{i}]", "column", column, known, dataset.name)
+                    yield _unknown(f"{path}.columns[{i}]", "column", column, known, shown.name)
 
 
 def _duplicates(definition: ReportDefinition) -> Iterable[Problem]:
@@ -308,7 +326,9 @@ def _repeated(items: list[tuple[str, str]], field: str, hint: str) -> Iterable[P
         if counts[value] > 1:
             if value in seen:
                 where = f"{path}.{field}" if field else path
-                yield Problem("duplicate_id", where, f"'{value}' is used more than once", hint, value)
+                yield Problem(
+                    "duplicate_id", where, f"'{value}' is used more than once", hint, value
+                )
             seen.add(value)
 
 
@@ -360,8 +380,13 @@ def _measure_problems(path: str, dataset: Dataset, name: str) -> Iterable[Proble
 def _compare_problems(path: str, chart: CompareChart, dataset: Dataset) -> Iterable[Problem]:
     kind = _column(dataset, chart.category)
     if kind is None:
-        yield _unknown(f"{path}.category", "column", chart.category,
-                       [c.name for c in dataset.columns], dataset.name)
+        yield _unknown(
+            f"{path}.category",
+            "column",
+            chart.category,
+            [c.name for c in dataset.columns],
+            dataset.name,
+        )
     elif kind is not ColumnType.text:
         yield Problem(
             "column_type_mismatch",

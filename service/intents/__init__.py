@@ -38,7 +38,8 @@ def _trend(chart: TrendChart, table: Table, locale: str, as_of: datetime) -> Cha
 
 
 ENCODERS: dict[str, Encoder] = {
-    "compare": Encoder("compare", CompareChart, compare.problems, _compare,
-                       frozenset({"bars", "dots"})),
+    "compare": Encoder(
+        "compare", CompareChart, compare.problems, _compare, frozenset({"bars", "dots"})
+    ),
     "trend": Encoder("trend", TrendChart, trend.problems, _trend, frozenset({"lines"})),
 }

@@ -25,26 +25,39 @@ def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> It
     labels = table.frame[chart.category]
     if len(labels) > limits.max_categories:
         yield Problem(
-            "limit_exceeded", f"{path}.category",
+            "limit_exceeded",
+            f"{path}.category",
             f"{len(labels)} categories are more than the limit of {limits.max_categories}",
             "show the largest categories and group the rest as 'Other' in the data, or raise "
-            "PLUMBLINE_LIMITS__MAX_CATEGORIES", len(labels),
-            {"limit": limits.max_categories, "setting": "max_categories"})
+            "PLUMBLINE_LIMITS__MAX_CATEGORIES",
+            len(labels),
+            {"limit": limits.max_categories, "setting": "max_categories"},
+        )
     if labels.isna().any():
         yield Problem(
-            "category_missing", f"{path}.category",
+            "category_missing",
+            f"{path}.category",
             f"{int(labels.isna().sum())} rows of dataset '{table.name}' have no '{chart.category}'",
-            "give every row a category label", None)
+            "give every row a category label",
+            None,
+        )
     repeated = labels[labels.duplicated() & labels.notna()]
     if not repeated.empty:
         yield Problem(
-            "duplicate_category", f"{path}.category",
+            "duplicate_category",
+            f"{path}.category",
             f"categories appear more than once: {', '.join(map(str, repeated.unique()[:5]))}",
             "give one row per category (add the rows up in the data first)",
-            str(repeated.iloc[0]))
+            str(repeated.iloc[0]),
+        )
     if len(labels) == 0:
-        yield Problem("empty_dataset", f"{path}.dataset",
-                      f"dataset '{table.name}' has no rows to compare", "add rows", table.name)
+        yield Problem(
+            "empty_dataset",
+            f"{path}.dataset",
+            f"dataset '{table.name}' has no rows to compare",
+            "add rows",
+            table.name,
+        )
 
 
 def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
@@ -54,8 +67,9 @@ def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
             chart.measure, ascending=chart.sort == "ascending", kind="stable", na_position="last"
         )
     values = [None if pd.isna(v) else float(v) for v in frame[chart.measure]]
-    categories = [Category(label=str(c), value=v)
-                  for c, v in zip(frame[chart.category], values, strict=True)]
+    categories = [
+        Category(label=str(c), value=v) for c, v in zip(frame[chart.category], values, strict=True)
+    ]
     present = [v for v in values if v is not None]
     unit = table.units.get(chart.measure, "")
     label = formatting.titled(chart.measure, unit)
@@ -66,19 +80,32 @@ def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
         if not scale.includes_zero:
             notes.append(scale_note(scale, locale))
         return ChartPlan(
-            chart_id=chart.id, intent=chart.intent, form="dots", title=chart.title,
-            subtitle=chart.subtitle, note=chart.note, locale=locale, value_axis=scale,
-            categories=categories, notes=notes,
+            chart_id=chart.id,
+            intent=chart.intent,
+            form="dots",
+            title=chart.title,
+            subtitle=chart.subtitle,
+            note=chart.note,
+            locale=locale,
+            value_axis=scale,
+            categories=categories,
+            notes=notes,
         )
     base = chart.baseline if chart.baseline is not None else 0.0
     lo, hi = scales.fit([*present, base], include_zero=base == 0.0)
     if base != 0.0:
         lo = base if base > 0 else min(lo, base)
     return ChartPlan(
-        chart_id=chart.id, intent=chart.intent, form="bars", title=chart.title,
-        subtitle=chart.subtitle, note=chart.note, locale=locale,
+        chart_id=chart.id,
+        intent=chart.intent,
+        form="bars",
+        title=chart.title,
+        subtitle=chart.subtitle,
+        note=chart.note,
+        locale=locale,
         value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label),
-        bar_base=base, categories=categories,
+        bar_base=base,
+        categories=categories,
         notes=[] if base == 0.0 else [truncation_note(base, unit, locale)],
     )
 

@@ -11,11 +11,11 @@ def nice_step(span: float, target_ticks: int = 5) -> float:
     if span <= 0 or not math.isfinite(span):
         return 1.0
     raw = span / target_ticks
-    magnitude = 10 ** math.floor(math.log10(raw))
+    magnitude = 10.0 ** math.floor(math.log10(raw))
     for factor in (1, 2, 2.5, 5, 10):
         if factor * magnitude >= raw:
-            return factor * magnitude
-    return 10 * magnitude
+            return float(factor * magnitude)
+    return float(10 * magnitude)
 
 
 def fit(values: Iterable[float], *, include_zero: bool, pad: float = 0.06) -> tuple[float, float]:

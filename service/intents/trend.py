@@ -27,20 +27,31 @@ from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series
 def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
     if len(chart.measures) > limits.max_series:
         yield Problem(
-            "limit_exceeded", f"{path}.measures",
+            "limit_exceeded",
+            f"{path}.measures",
             f"{len(chart.measures)} series are more than the limit of {limits.max_series}",
-            "split the chart, or raise PLUMBLINE_LIMITS__MAX_SERIES", len(chart.measures),
-            {"limit": limits.max_series, "setting": "max_series"})
+            "split the chart, or raise PLUMBLINE_LIMITS__MAX_SERIES",
+            len(chart.measures),
+            {"limit": limits.max_series, "setting": "max_series"},
+        )
     if table.periods is None or len(table.periods) == 0:
-        yield Problem("empty_dataset", f"{path}.dataset",
-                      f"dataset '{table.name}' has no rows to draw", "add rows", table.name)
+        yield Problem(
+            "empty_dataset",
+            f"{path}.dataset",
+            f"dataset '{table.name}' has no rows to draw",
+            "add rows",
+            table.name,
+        )
         return
     for i, measure in enumerate(chart.measures):
         if table.frame[measure].isna().all():
             yield Problem(
-                "no_values", f"{path}.measures[{i}]",
+                "no_values",
+                f"{path}.measures[{i}]",
                 f"'{measure}' has no values at all in dataset '{table.name}'",
-                "give it values, or drop it from the chart", measure)
+                "give it values, or drop it from the chart",
+                measure,
+            )
 
 
 def runs(values: list[float | None]) -> list[tuple[int, int]]:
@@ -81,9 +92,17 @@ def encode(chart: TrendChart, table: Table, *, locale: str, as_of: datetime) -> 
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
     return ChartPlan(
-        chart_id=chart.id, intent=chart.intent, form="lines", title=chart.title,
-        subtitle=chart.subtitle, note=chart.note, locale=locale, value_axis=scale,
+        chart_id=chart.id,
+        intent=chart.intent,
+        form="lines",
+        title=chart.title,
+        subtitle=chart.subtitle,
+        note=chart.note,
+        locale=locale,
+        value_axis=scale,
         periods=[periods.label(p, table.frequency, locale) for p in full],
-        series=series, gaps=gaps, partial=partial,
+        series=series,
+        gaps=gaps,
+        partial=partial,
         notes=[] if scale.includes_zero else [scale_note(scale, locale)],
     )

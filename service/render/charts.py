@@ -28,17 +28,30 @@ def draw(plan: ChartPlan) -> bytes:
     try:
         forms.DRAWERS[plan.form](ax, plan)
         if plan.notes:
-            ax.set_title("\n".join(plan.notes), loc="left", color=style.INK, fontsize=7.5,
-                         fontstyle="italic", parse_math=False)
+            ax.set_title(
+                "\n".join(plan.notes),
+                loc="left",
+                color=style.INK,
+                fontsize=7.5,
+                fontstyle="italic",
+                parse_math=False,
+            )
         if plan.flags:
             figure.suptitle(
-                "CHECK FAILED — " + " | ".join(f.split(":", 1)[0] for f in plan.flags)
+                "CHECK FAILED — "
+                + " | ".join(f.split(":", 1)[0] for f in plan.flags)
                 + " (see the integrity appendix)",
-                color=style.FLAG, fontsize=8, fontweight="bold", x=0.01, ha="left",
+                color=style.FLAG,
+                fontsize=8,
+                fontweight="bold",
+                x=0.01,
+                ha="left",
                 parse_math=False,
             )
         buffer = io.BytesIO()
-        figure.savefig(buffer, format="pdf", metadata={"CreationDate": None, "Creator": "Plumbline"})
+        figure.savefig(
+            buffer, format="pdf", metadata={"CreationDate": None, "Creator": "Plumbline"}
+        )
     except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
         raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
     return buffer.getvalue()

@@ -35,16 +35,34 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     span = axis.hi - axis.lo
     for y, category in zip(rows, plan.categories, strict=True):
         if category.value is None:
-            ax.text(base, y, "  no data", va="center", ha="left", color=style.MUTED,
-                    fontsize=7.5, fontstyle="italic", parse_math=False)
+            ax.text(
+                base,
+                y,
+                "  no data",
+                va="center",
+                ha="left",
+                color=style.MUTED,
+                fontsize=7.5,
+                fontstyle="italic",
+                parse_math=False,
+            )
             continue
-        ax.barh(y, category.value - base, left=base, height=0.62, color=style.PALETTE[0],
-                linewidth=0)
+        ax.barh(
+            y, category.value - base, left=base, height=0.62, color=style.PALETTE[0], linewidth=0
+        )
         inside = category.value - base
         ha = "left" if inside >= 0 else "right"
         pad = span * 0.008 * (1 if inside >= 0 else -1)
-        ax.text(category.value + pad, y, _label(plan, category.value), va="center", ha=ha,
-                color=style.INK, fontsize=7.5, parse_math=False)
+        ax.text(
+            category.value + pad,
+            y,
+            _label(plan, category.value),
+            va="center",
+            ha=ha,
+            color=style.INK,
+            fontsize=7.5,
+            parse_math=False,
+        )
     _category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi + span * 0.08)
     if axis.lo < 0 < axis.hi:
@@ -57,13 +75,36 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
     for y, category in zip(rows, plan.categories, strict=True):
         ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0)
         if category.value is None:
-            ax.text(axis.lo, y, "  no data", va="center", ha="left", color=style.MUTED,
-                    fontsize=7.5, fontstyle="italic", parse_math=False)
+            ax.text(
+                axis.lo,
+                y,
+                "  no data",
+                va="center",
+                ha="left",
+                color=style.MUTED,
+                fontsize=7.5,
+                fontstyle="italic",
+                parse_math=False,
+            )
             continue
-        ax.plot([category.value], [y], marker="o", markersize=5.5, color=style.PALETTE[0],
-                linestyle="none")
-        ax.text(category.value, y + 0.28, _label(plan, category.value), va="bottom",
-                ha="center", color=style.INK, fontsize=7, parse_math=False)
+        ax.plot(
+            [category.value],
+            [y],
+            marker="o",
+            markersize=5.5,
+            color=style.PALETTE[0],
+            linestyle="none",
+        )
+        ax.text(
+            category.value,
+            y + 0.28,
+            _label(plan, category.value),
+            va="bottom",
+            ha="center",
+            color=style.INK,
+            fontsize=7,
+            parse_math=False,
+        )
     _category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi)
 
@@ -87,32 +128,52 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     ends: list[tuple[str, int, float, str]] = []
     for number, series in enumerate(plan.series):
         colour = style.PALETTE[number % len(style.PALETTE)]
-        for first, last in series.segments:
-            if partial is not None and last == partial.index:
-                last -= 1  # the running period is never joined to the complete ones
+        for first, end in series.segments:
+            # the running period is never joined to the complete ones
+            last = end - 1 if partial is not None and end == partial.index else end
             if last < first:
                 continue
             xs = list(range(first, last + 1))
-            ys = [series.values[i] for i in xs]
-            ax.plot(xs, ys, color=colour, marker="o" if first == last else "",
-                    markersize=3.5)
-        if partial is not None and series.values[partial.index] is not None:
-            value = series.values[partial.index]
-            ax.plot([partial.index], [value], marker="o", markersize=6,
-                    markerfacecolor="white", markeredgecolor=colour, markeredgewidth=1.4,
-                    linestyle="none", zorder=3)
-        complete = [i for i, v in enumerate(series.values)
-                    if v is not None and (partial is None or i != partial.index)]
+            ys = [float(series.values[i] or 0.0) for i in xs]  # a segment holds no gaps
+            ax.plot(xs, ys, color=colour, marker="o" if first == last else "", markersize=3.5)
+        value = series.values[partial.index] if partial is not None else None
+        if partial is not None and value is not None:
+            ax.plot(
+                [partial.index],
+                [value],
+                marker="o",
+                markersize=6,
+                markerfacecolor="white",
+                markeredgecolor=colour,
+                markeredgewidth=1.4,
+                linestyle="none",
+                zorder=3,
+            )
+        complete = [
+            i
+            for i, v in enumerate(series.values)
+            if v is not None and (partial is None or i != partial.index)
+        ]
         if complete and len(plan.series) > 1:
-            ends.append((series.name, complete[-1], float(series.values[complete[-1]] or 0.0),
-                         colour))
+            ends.append(
+                (series.name, complete[-1], float(series.values[complete[-1]] or 0.0), colour)
+            )
     for gap in plan.gaps:
-        ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0,
-                   zorder=0)
+        ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0, zorder=0)
         everyone = len(gap.series) == len(plan.series)
         text = "no data" if everyone else "no data: " + ", ".join(gap.series)
-        ax.text(gap.index, (axis.lo + axis.hi) / 2, text, rotation=90, va="center",
-                ha="center", fontsize=7, color=style.MUTED, fontstyle="italic", parse_math=False)
+        ax.text(
+            gap.index,
+            (axis.lo + axis.hi) / 2,
+            text,
+            rotation=90,
+            va="center",
+            ha="center",
+            fontsize=7,
+            color=style.MUTED,
+            fontstyle="italic",
+            parse_math=False,
+        )
     step = max(1, -(-n // 8))
     ticks = list(range(0, n, step))
     ax.xaxis.set_major_locator(FixedLocator(ticks))
@@ -128,15 +189,20 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     if partial is not None and present:
         ax.annotate(
             f"{plan.periods[partial.index]} so far:\n{partial.text}",
-            xy=(partial.index, min(present)), xytext=(-8, 0), textcoords="offset points",
-            ha="right", va="center", fontsize=7, color=style.MUTED, fontstyle="italic",
+            xy=(partial.index, min(present)),
+            xytext=(-8, 0),
+            textcoords="offset points",
+            ha="right",
+            va="center",
+            fontsize=7,
+            color=style.MUTED,
+            fontstyle="italic",
             parse_math=False,
         )
     _direct_labels(ax, ends, axis.lo, axis.hi)
 
 
-def _direct_labels(ax: Axes, ends: list[tuple[str, int, float, str]], lo: float,
-                   hi: float) -> None:
+def _direct_labels(ax: Axes, ends: list[tuple[str, int, float, str]], lo: float, hi: float) -> None:
     """Name each line at its last complete point, nudged apart so no two labels overlap."""
     if not ends:
         return
@@ -149,9 +215,18 @@ def _direct_labels(ax: Axes, ends: list[tuple[str, int, float, str]], lo: float,
         y = max(want, placed[-1] + 9.0) if placed else want
         placed.append(y)
         name, x, value, colour = ends[k]
-        ax.annotate(name, xy=(x, value), xytext=(6, y - want), textcoords="offset points",
-                    va="center", ha="left", color=colour, fontsize=7.5, parse_math=False,
-                    annotation_clip=False)
+        ax.annotate(
+            name,
+            xy=(x, value),
+            xytext=(6, y - want),
+            textcoords="offset points",
+            va="center",
+            ha="left",
+            color=colour,
+            fontsize=7.5,
+            parse_math=False,
+            annotation_clip=False,
+        )
 
 
 DRAWERS: dict[str, Drawer] = {"bars": draw_bars, "dots": draw_dots, "lines": draw_lines}

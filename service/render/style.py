@@ -59,5 +59,6 @@ def install() -> None:
     if _installed:
         return
     matplotlib.use("pdf", force=True)
-    matplotlib.rcParams.update(RC)
+    params: Any = matplotlib.rcParams  # its stubs accept only literal keys
+    params.update(RC)
     _installed = True

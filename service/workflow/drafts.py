@@ -15,7 +15,9 @@ from service.pipeline import Built
 DRAFT = "draft"
 
 
-def create(*, sessions: sessionmaker[Any], store: Store, built: Built, definition: bytes) -> PackRow:
+def create(
+    *, sessions: sessionmaker[Any], store: Store, built: Built, definition: bytes
+) -> PackRow:
     definition_digest = store.put(definition)
     pdf_digest = store.put(built.pdf)
     row = PackRow(
@@ -42,6 +44,6 @@ def create(*, sessions: sessionmaker[Any], store: Store, built: Built, definitio
 def get(*, sessions: sessionmaker[Any], pack_id: str) -> PackRow:
     with sessions() as session:
         row = session.get(PackRow, pack_id)
-    if row is None:
+    if not isinstance(row, PackRow):
         raise NotFound(f"there is no pack '{pack_id}'")
     return row

@@ -117,7 +117,7 @@ def test_every_font_is_embedded(demo_pdf: Path) -> None:
     ).stdout.splitlines()[2:]
     assert listing, "pdffonts listed no fonts"
     for line in listing:
-        emb, sub, uni = line.split()[-5:-2]
+        emb, _sub, uni = line.split()[-5:-2]
         assert (emb, uni) == ("yes", "yes"), line
     assert not any("Helvetica" in line for line in listing)
 
@@ -158,7 +158,8 @@ def test_unwaived_failure_exits_1_and_still_writes_a_marked_draft(tmp_path: Path
     out = tmp_path / "blocked.pdf"
     run = plumbline("render", source, "-o", out)
     assert run.returncode == 1
-    assert "BLOCKED" in run.stderr and "lie-factor on on-time-by-route" in run.stderr
+    assert "BLOCKED" in run.stderr
+    assert "lie-factor on on-time-by-route" in run.stderr
     text = "\n".join(page_texts(out))
     assert "CHECK FAILED — lie-factor" in text  # on the chart itself
     assert "Bars start at 85%, not zero" in text
@@ -189,7 +190,8 @@ def test_invalid_definition_exits_2_with_paths(tmp_path: Path) -> None:
     assert "datasets[0].rows[2].boardings: [unparseable_value]" in run.stderr
     assert "Traceback" not in run.stderr
     missing = plumbline("check", tmp_path / "nope.json")
-    assert missing.returncode == 2 and "cannot read" in missing.stderr
+    assert missing.returncode == 2
+    assert "cannot read" in missing.stderr
 
 
 def test_markup_and_mathtext_in_user_text_are_shown_literally(tmp_path: Path) -> None:
