@@ -215,8 +215,7 @@ def _cover(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
     yield Paragraph("<br/>".join(meta), s["cover_meta"])
     yield Paragraph(_text(content.status_line), s["status"])
     yield Paragraph(
-        f"Integrity checks: {_text(content.summary_line)}. The appendix lists every "
-        "check of every chart.",
+        f"Integrity: {_text(content.summary_line)}. The appendix lists every check of every chart.",
         s["body"],
     )
     yield Paragraph(_text(CAUTION), s["caution"])
@@ -254,7 +253,7 @@ def _grid(
         [Paragraph(_text(v), s["cell_head"] if r == 0 else s["cell"]) for v in row]
         for r, row in enumerate(rows)
     ]
-    table = LongTable(cells, colWidths=widths, repeatRows=1)
+    table = LongTable(cells, colWidths=widths, repeatRows=1, hAlign="LEFT")
     commands: list[tuple[Any, ...]] = [
         ("FONT", (0, 0), (-1, -1), fonts.register(), 7.5),  # else reportlab sets Helvetica
         ("INNERGRID", (0, 0), (-1, -1), 0.3, layout.RULE),
@@ -286,9 +285,20 @@ def _right(style: Any) -> Any:
 
 def _table(block: TableBlock, s: dict[str, Any]) -> Iterable[Flowable]:
     yield Paragraph(_text(block.title), s["h2"])
-    width = layout.FRAME_WIDTH / max(1, len(block.header))
-    yield _grid([block.header, *block.rows], [width] * len(block.header), s, block.numeric)
+    yield _grid([block.header, *block.rows], _widths(block), s, block.numeric)
     yield Spacer(1, 8)
+
+
+def _widths(block: TableBlock) -> list[float]:
+    """Columns as wide as their longest cell (about 4.4 pt a character at 7.5 pt), shrunk to the
+    frame only when they would not fit."""
+    natural = [
+        max(len(row[c]) for row in [block.header, *block.rows]) * 4.4 + 12
+        for c in range(len(block.header))
+    ]
+    total = sum(natural)
+    scale = min(1.0, layout.FRAME_WIDTH / total) if total else 1.0
+    return [w * scale for w in natural]
 
 
 def _appendix(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
