@@ -25,6 +25,8 @@ def number(value: float | None, locale: str, *, digits: int | None = None) -> st
     """``value`` with the locale's separators; ``digits`` fixes the decimals (else up to 2)."""
     if value is None or (isinstance(value, float) and not math.isfinite(value)):
         return "no data"
+    if round(value, 2 if digits is None else digits) == 0:
+        value = 0.0  # never print "-0"
     pattern = None
     if digits is not None:
         pattern = "#,##0" + ("." + "0" * digits if digits > 0 else "")

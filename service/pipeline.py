@@ -45,7 +45,12 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
             )
         )
     problems.extend(registry.waiver_problems(definition))
-    tables, found = frames.load_all(definition)
+    declared = frozenset(
+        d
+        for d in range(len(definition.datasets))
+        if any(p.path.startswith(f"datasets[{d}]") for p in problems)
+    )
+    tables, found = frames.load_all(definition, skip=declared)
     problems.extend(found)
     troubled = {p.path for p in problems}
     for path, chart in definition.charts():

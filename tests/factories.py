@@ -9,12 +9,17 @@ from __future__ import annotations
 import json
 from typing import Any
 
-from service import pipeline
+import pytest
+
+from service import intents, pipeline
+from service.checks import engine
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.registry import Context
-from service.checks.results import CheckResult
+from service.checks.results import CheckResult, Status
 from service.config import Limits
 from service.definition.model import local_wall_time
+from service.errors import InvalidDefinition, Problem
+from service.intents.plan import ChartPlan
 
 Json = dict[str, Any]
 
@@ -180,3 +185,39 @@ def context_for(taken: pipeline.Intake, index: int = 0) -> Context:
         as_of=local_wall_time(definition.report.as_of),
         locale=definition.report.locale,
     )
+
+
+def guarded(definition: Json, plan: ChartPlan) -> engine.Guarded:
+    taken = intake(definition)
+    return engine.guard(plan, context_for(taken), taken.definition.waivers)
+
+
+def status_of(guard: engine.Guarded, check: str) -> Status:
+    return next(r.status for r in guard.results if r.check == check)
+
+
+def plan_of(definition: Json) -> ChartPlan:
+    """The plan the encoder makes, before any check runs."""
+    taken = intake(definition)
+    _, chart = taken.definition.charts()[0]
+    ctx = context_for(taken)
+    return intents.ENCODERS[chart.intent].encode(chart, ctx.table, ctx.locale, ctx.as_of)
+
+
+def problems_of(definition: Json | bytes, limits: Limits | None = None) -> list[Problem]:
+    """Every problem ``pipeline.intake`` reports (it runs ``validate.parse`` first)."""
+    raw = definition if isinstance(definition, bytes) else encode(definition)
+    with pytest.raises(InvalidDefinition) as caught:
+        pipeline.intake(raw, limits or Limits())
+    assert caught.value.status == 422
+    return caught.value.problems
+
+
+def codes(problems: list[Problem]) -> list[tuple[str, str]]:
+    return [(p.code, p.path) for p in problems]
+
+
+def find(problems: list[Problem], code: str) -> Problem:
+    found = [p for p in problems if p.code == code]
+    assert len(found) == 1, codes(problems)
+    return found[0]

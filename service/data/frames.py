@@ -44,12 +44,20 @@ class Table:
     types: dict[str, ColumnType] = field(default_factory=dict)
 
 
-def load_all(definition: ReportDefinition) -> tuple[dict[str, Table], list[Problem]]:
-    """The datasets that loaded cleanly, and every value problem of those that did not."""
+def load_all(
+    definition: ReportDefinition, *, skip: frozenset[int] = frozenset()
+) -> tuple[dict[str, Table], list[Problem]]:
+    """The datasets that loaded cleanly, and every value problem of those that did not.
+
+    Datasets listed in ``skip`` (by index) already have problems with their declaration and are not
+    read at all.
+    """
     tables: dict[str, Table] = {}
     problems: list[Problem] = []
     as_of = local_wall_time(definition.report.as_of)
     for d, dataset in enumerate(definition.datasets):
+        if d in skip:
+            continue
         table, found = load(dataset, path=f"datasets[{d}]", as_of=as_of)
         problems.extend(found)
         if table is not None and not found:

@@ -25,4 +25,6 @@ Text = Annotated[str, StringConstraints(strip_whitespace=True)]
 class Input(BaseModel):
     """Every definition model: unknown fields are refused, and parsed inputs never change."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True, str_strip_whitespace=True)
+    model_config = ConfigDict(
+        extra="forbid", frozen=True, str_strip_whitespace=True, allow_inf_nan=False
+    )

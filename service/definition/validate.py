@@ -67,10 +67,16 @@ def parse(raw: bytes | str, limits: Limits) -> tuple[ReportDefinition, list[Prob
     if len(data) > limits.max_payload_bytes:
         raise PayloadTooLarge(size=len(data), limit=limits.max_payload_bytes)
     try:
-        document = json.loads(data)
+        document = json.loads(data, parse_constant=_non_finite)
     except (UnicodeDecodeError, json.JSONDecodeError, RecursionError) as exc:
         raise InvalidDefinition([_json_problem(exc)]) from None
     return validate(document, limits)
+
+
+def _non_finite(constant: str) -> str:
+    """JSON has no NaN or Infinity; Python's parser accepts them. Keep them as text, so they are
+    refused wherever a number is expected instead of passing as a missing value."""
+    return constant
 
 
 def validate(document: Any, limits: Limits) -> tuple[ReportDefinition, list[Problem]]:
@@ -116,6 +122,9 @@ def _translate(exc: ValidationError, document: dict[str, Any]) -> Iterable[Probl
         ctx = {k: str(v) for k, v in (error.get("ctx") or {}).items() if k != "error"}
         if code == "unknown_field":
             hint = _suggest_field(document, loc) or hint
+            message = f"'{loc[-1]}' is not a field here"
+        elif code == "required":
+            message = f"'{loc[-1]}' is required here"
         elif code == "not_allowed" and "expected" in ctx:
             hint = f"use one of: {ctx['expected']}"
         elif code == "unknown_intent" and "expected_tags" in ctx:
@@ -138,24 +147,29 @@ def _suggest_field(document: dict[str, Any], loc: tuple[int | str, ...]) -> str:
 
 
 def _owner_model(loc: tuple[int | str, ...], document: Any, model: Any) -> Any:
+    """The model class that owns the last field of ``loc`` (None when it cannot be told)."""
     current: Any = model.ReportDefinition
     node: Any = document
     for part in loc:
         if isinstance(part, int):
-            node = node[part] if isinstance(node, list) and part < len(node) else None
+            node = node[part] if isinstance(node, list) and 0 <= part < len(node) else None
+            if current is _CHART:  # the list index picks the chart; its intent picks the model
+                intent = node.get("intent") if isinstance(node, dict) else None
+                current = {"compare": model.CompareChart, "trend": model.TrendChart}.get(
+                    str(intent)
+                )
+            if current is None:
+                return None
             continue
         if part in {"compare", "trend"}:
             continue
+        if current is _CHART:
+            return None
         node = node.get(part) if isinstance(node, dict) else None
         current = _FIELD_MODELS.get((current.__name__, part))
         if current is None:
             return None
-        if current is _CHART:
-            intent = node.get("intent") if isinstance(node, dict) else None
-            current = {"compare": model.CompareChart, "trend": model.TrendChart}.get(str(intent))
-            if current is None:
-                return None
-    return current
+    return None if current is _CHART else current
 
 
 _CHART = object()

@@ -1,30 +1,33 @@
-"""Each integrity check on plans from the pipeline, and on plans corrupted on purpose."""
+"""Trend checks (missing and partial periods) on pipeline plans and on corrupted plans; the registry."""
 
 from __future__ import annotations
 
+import dataclasses
+
+import pytest
 from factories import (
     MONTHS,
     Json,
     context_for,
+    guarded,
     intake,
     make_column,
-    make_compare_definition,
     make_dataset,
     make_definition,
     make_monthly,
     make_report,
     make_trend_chart,
-    make_waiver,
     only_chart,
+    plan_of,
     result_of,
     run_checks,
+    status_of,
 )
 
-from service import intents, pipeline
-from service.checks import CHECKS, baseline, engine, missing, partial, scale_note
+from service import intents
+from service.checks import CHECKS, missing, partial, registry
 from service.checks.results import Status
-from service.intents.compare import scale_note as scale_note_text
-from service.intents.plan import ChartPlan, PartialMark
+from service.intents.plan import PartialMark
 from service.render.forms import DRAWERS
 
 # Jun, Jul, (no Aug), Sep, Oct, Nov 2026 — as_of 9 November 2026 07:30.
@@ -33,23 +36,6 @@ GAPPY = ["2026-06-01", "2026-07-01", "2026-09-01", "2026-10-01", "2026-11-01"]
 
 def trend_with_gap() -> Json:
     return make_definition(datasets=[make_monthly(GAPPY, [48210, 45120, 47390, 51880, 15480])])
-
-
-def guarded(definition: Json, plan: ChartPlan) -> engine.Guarded:
-    taken = intake(definition)
-    return engine.guard(plan, context_for(taken), taken.definition.waivers)
-
-
-def plan_of(definition: Json) -> ChartPlan:
-    """The plan the encoder makes, before any check runs."""
-    taken = intake(definition)
-    _, chart = taken.definition.charts()[0]
-    ctx = context_for(taken)
-    return intents.ENCODERS[chart.intent].encode(chart, ctx.table, ctx.locale, ctx.as_of)
-
-
-def status_of(guard: engine.Guarded, check: str) -> Status:
-    return next(r.status for r in guard.results if r.check == check)
 
 
 def test_missing_month_is_a_gap_with_broken_line() -> None:
@@ -116,25 +102,28 @@ def test_joining_across_a_gap_fails_and_is_corrected() -> None:
     assert [g.index for g in result.plan.gaps] == [2]
 
 
-def test_filling_a_gap_with_zero_fails() -> None:
+@pytest.mark.parametrize(
+    ("fill", "marked", "detail"),
+    [
+        (0.0, True, "boardings has a value drawn at Aug 2026"),  # missing filled as zero
+        (None, False, "Aug 2026 is not marked 'no data' for boardings"),
+    ],
+)
+def test_filled_or_unmarked_gap_fails(fill: float | None, marked: bool, detail: str) -> None:
     definition = trend_with_gap()
     plan = plan_of(definition)
     (series,) = plan.series
-    zeroed = series.model_copy(update={"values": [*series.values[:2], 0.0, *series.values[3:]]})
-    finding = missing.SPEC.measure(
-        plan.model_copy(update={"series": [zeroed]}), context_for(intake(definition))
+    values = [*series.values[:2], fill, *series.values[3:]]
+    bad = plan.model_copy(
+        update={
+            "series": [series.model_copy(update={"values": values})],
+            "gaps": plan.gaps if marked else [],
+        }
     )
+    finding = missing.SPEC.measure(bad, context_for(intake(definition)))
     assert not finding.ok
     assert finding.measured == 1
-
-
-def test_unmarked_gap_fails() -> None:
-    definition = trend_with_gap()
-    finding = missing.SPEC.measure(
-        plan_of(definition).model_copy(update={"gaps": []}), context_for(intake(definition))
-    )
-    assert not finding.ok
-    assert "Aug 2026 is not marked 'no data' for boardings" in finding.detail
+    assert detail in finding.detail
 
 
 def test_partial_last_month_is_marked() -> None:
@@ -177,121 +166,12 @@ def test_marking_a_complete_period_partial_fails() -> None:
     assert guarded(definition, bad).plan.partial is None
 
 
-def test_baseline_request_is_corrected_to_zero() -> None:
-    checked = run_checks(make_compare_definition({"a": 93.4, "b": 88.9}, baseline=85))
-    found = result_of(checked, "bar-zero-baseline")
-    assert (found.status, found.measured, found.measured_text) == (
-        Status.corrected,
-        85.0,
-        "starts at 85%",
-    )
-    assert found.waiver is None
-    plan = only_chart(checked).plan
-    assert plan.bar_base == 0.0
-    assert plan.value_axis.lo == 0.0
-    assert plan.notes == []
-
-
-def test_baseline_measure_on_a_plan() -> None:
-    definition = make_compare_definition({"a": 93.4, "b": 88.9})
-    ctx = context_for(intake(definition))
-    plan = plan_of(definition)
-    assert baseline.SPEC.measure(plan, ctx).ok
-    assert not baseline.SPEC.measure(plan.model_copy(update={"bar_base": 80.0}), ctx).ok
-
-
-def test_waived_baseline_is_kept() -> None:
-    waiver = make_waiver("bar-zero-baseline", "on-time")
-    checked = run_checks(
-        make_compare_definition({"a": 93.4, "b": 88.9}, baseline=85, waivers=[waiver])
-    )
-    found = result_of(checked, "bar-zero-baseline")
-    assert found.status is Status.waived
-    assert found.waiver is not None
-    assert (found.waiver.reason, found.waiver.by) == (waiver["reason"], waiver["by"])
-    assert found.explanation.endswith("Waived by Head of operations.")
-    plan = only_chart(checked).plan
-    assert plan.bar_base == 85.0
-    assert plan.notes == ["Bars start at 85%, not zero: their lengths exaggerate the differences."]
-    assert checked.unused_waivers == []
-
-
-def test_expired_waiver_does_not_apply() -> None:
-    waiver = make_waiver("bar-zero-baseline", "on-time", expires="2026-11-08")
-    checked = run_checks(
-        make_compare_definition({"a": 93.4, "b": 88.9}, baseline=85, waivers=[waiver])
-    )
-    found = result_of(checked, "bar-zero-baseline")
-    assert found.status is Status.corrected
-    assert "expired on 2026-11-08" in found.explanation
-    assert only_chart(checked).plan.bar_base == 0.0
-    assert checked.unused_waivers == ["bar-zero-baseline on on-time"]
-
-
-def test_waiver_expiring_on_the_as_of_day_still_applies() -> None:
-    waiver = make_waiver("bar-zero-baseline", "on-time", expires="2026-11-09")
-    checked = run_checks(
-        make_compare_definition({"a": 93.4, "b": 88.9}, baseline=85, waivers=[waiver])
-    )
-    assert result_of(checked, "bar-zero-baseline").status is Status.waived
-
-
-def test_waiver_not_needed_is_reported_unused() -> None:
-    checked = run_checks(
-        make_compare_definition(
-            {"a": 93.4, "b": 88.9}, waivers=[make_waiver("bar-zero-baseline", "on-time")]
-        )
-    )
-    assert result_of(checked, "bar-zero-baseline").status is Status.passed
-    assert checked.unused_waivers == ["bar-zero-baseline on on-time"]
-
-
-def test_focus_on_differences_draws_noted_dots() -> None:
-    checked = run_checks(
-        make_compare_definition({"a": 4.21, "b": 3.86, "c": 4.32}, focus="differences")
-    )
-    plan = only_chart(checked).plan
-    assert plan.form == "dots"
-    assert not plan.value_axis.includes_zero
-    assert plan.notes == [scale_note_text(plan.value_axis, "en-GB")]
-    assert [r.check for r in checked.results] == ["nonzero-scale-noted"]
-    found = result_of(checked, "nonzero-scale-noted")
-    assert found.status is Status.passed
-    assert found.measured == plan.value_axis.lo
-
-
-def test_removing_the_scale_note_fails_and_is_corrected() -> None:
-    definition = make_compare_definition({"a": 4.21, "b": 3.86}, focus="differences")
-    bad = plan_of(definition).model_copy(update={"notes": []})
-    assert not scale_note.SPEC.measure(bad, context_for(intake(definition))).ok
-    result = guarded(definition, bad)
-    assert status_of(result, "nonzero-scale-noted") is Status.corrected
-    assert result.plan.notes == [scale_note_text(bad.value_axis, "en-GB")]
-
-
-def test_trend_not_from_zero_carries_a_note() -> None:
-    checked = run_checks(make_definition(charts=[make_trend_chart(from_zero=False)]))
-    plan = only_chart(checked).plan
-    assert plan.value_axis.lo > 0
-    assert plan.notes == [scale_note_text(plan.value_axis, "en-GB")]
-    assert result_of(checked, "nonzero-scale-noted").status is Status.passed
-
-
-def test_failed_checks_are_flagged_on_the_plan() -> None:
-    definition = make_compare_definition(
-        {"a": 50, "b": 55}, baseline=45, waivers=[make_waiver("bar-zero-baseline", "on-time")]
-    )
-    result = pipeline.check(intake(definition))
-    assert result.blocked
-    assert [r.check for r in result.failures()] == ["lie-factor"]
-    assert result.charts[0].plan.flags[0].startswith("lie-factor: ")
-
-
 def test_registry_is_complete_and_consistent() -> None:
     specs = list(CHECKS.values())
-    assert len({s.id for s in specs}) == len(specs) == len(CHECKS)
+    assert all(key == spec.id for key, spec in CHECKS.items())
+    with pytest.raises(ValueError, match="registered twice"):
+        registry.register(dataclasses.replace(specs[0]))
     for spec in specs:
-        assert spec.id == next(k for k, v in CHECKS.items() if v is spec)
         for text in (spec.title, spec.measures, spec.threshold, spec.source):
             assert text.strip(), spec.id
         assert spec.intents <= set(intents.ENCODERS), spec.id

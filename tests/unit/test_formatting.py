@@ -20,7 +20,7 @@ def test_grouping_and_decimal_separators(locale: str, expected: str) -> None:
 
 @pytest.mark.parametrize("value", [1234.5, 1234567.0, -98765.25, 0.5, 12.0, 1000000.0])
 def test_fr_fr_matches_babel_reference(value: float) -> None:
-    # Reference: babel.numbers.format_decimal (CLDR data) with an explicit up-to-two-decimals pattern;
+    # Reference: babel.numbers.format_decimal (CLDR data), with an up-to-two-decimals pattern.
     # fr-FR groups with U+202F NARROW NO-BREAK SPACE and uses a decimal comma.
     reference = format_decimal(value, format="#,##0.##", locale="fr_FR")
     assert formatting.number(value, "fr-FR") == reference
@@ -47,10 +47,18 @@ def test_up_to_two_decimals_by_default() -> None:
 
 
 @pytest.mark.parametrize(
-    ("digits", "expected"), [(0, "1,235"), (1, "1,234.5"), (2, "1,234.50"), (3, "1,234.500")]
+    ("digits", "expected"), [(0, "1,235"), (1, "1,234.6"), (2, "1,234.56"), (3, "1,234.560")]
 )
 def test_fixed_digits(digits: int, expected: str) -> None:
-    assert formatting.number(1234.5, "en-GB", digits=digits) == expected
+    assert formatting.number(1234.56, "en-GB", digits=digits) == expected
+
+
+def test_fixed_digits_round_ties_as_babel_does() -> None:
+    # Reference: babel.numbers.format_decimal rounds half to even (CLDR default rounding mode).
+    assert formatting.number(1234.5, "en-GB", digits=0) == format_decimal(
+        1234.5, format="#,##0", locale="en_GB"
+    )
+    assert formatting.number(1235.5, "en-GB", digits=0) == "1,236"
 
 
 def test_fixed_digits_in_german() -> None:
