@@ -30,6 +30,20 @@ class Problem:
     value: Any = None
     context: dict[str, Any] = field(default_factory=dict)
 
+    @classmethod
+    def over_limit(
+        cls, path: str, what: str, size: int, *, setting: str, limit: int, advice: str
+    ) -> Problem:
+        """A size past a configured limit: names the limit and the setting that raises it."""
+        return cls(
+            "limit_exceeded",
+            path,
+            f"{what}: {size} is more than the limit of {limit}",
+            f"{advice}, or raise PLUMBLINE_LIMITS__{setting.upper()}",
+            size,
+            {"limit": limit, "setting": setting},
+        )
+
     def as_dict(self) -> dict[str, Any]:
         out: dict[str, Any] = {
             "code": self.code,

@@ -73,15 +73,13 @@ def _table_limits(
             table = tables.get(spec.dataset)
             if table is not None and len(table.frame) > limits.max_table_rows:
                 found.append(
-                    Problem(
-                        "limit_exceeded",
+                    Problem.over_limit(
                         f"sections[{s}].tables[{t}]",
-                        f"a table of {len(table.frame)} rows is longer than the limit of "
-                        f"{limits.max_table_rows}",
-                        "show a chart instead, or a shorter dataset, or raise "
-                        "PLUMBLINE_LIMITS__MAX_TABLE_ROWS",
+                        "table rows",
                         len(table.frame),
-                        {"limit": limits.max_table_rows, "setting": "max_table_rows"},
+                        setting="max_table_rows",
+                        limit=limits.max_table_rows,
+                        advice="show a chart instead, or a shorter dataset",
                     )
                 )
     return found

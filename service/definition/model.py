@@ -95,6 +95,7 @@ class Report(Input):
 
 class ChartBase(Input):
     id: Id
+    intent: str
     title: Label
     subtitle: Text | None = None
     dataset: Id

@@ -197,13 +197,8 @@ def _count_limits(document: dict[str, Any], limits: Limits) -> Iterable[Problem]
     """Sizes checked on the raw document, so an oversized part is refused before deeper work."""
 
     def over(path: str, what: str, size: int, limit: int, setting: str) -> Problem:
-        return Problem(
-            "limit_exceeded",
-            path,
-            f"{what}: {size} is more than the limit of {limit}",
-            f"split the report, or raise PLUMBLINE_LIMITS__{setting.upper()}",
-            size,
-            {"limit": limit, "setting": setting},
+        return Problem.over_limit(
+            path, what, size, setting=setting, limit=limit, advice="split the report"
         )
 
     datasets = document.get("datasets")
@@ -254,13 +249,13 @@ def _count_limits(document: dict[str, Any], limits: Limits) -> Iterable[Problem]
 def _text_limits(definition: ReportDefinition, limits: Limits) -> Iterable[Problem]:
     def check(path: str, text: str | None, limit: int, setting: str) -> Iterable[Problem]:
         if text is not None and len(text) > limit:
-            yield Problem(
-                "limit_exceeded",
+            yield Problem.over_limit(
                 path,
-                f"text of {len(text)} characters is longer than the limit of {limit}",
-                f"shorten it, or raise PLUMBLINE_LIMITS__{setting.upper()}",
+                "characters of text",
                 len(text),
-                {"limit": limit, "setting": setting},
+                setting=setting,
+                limit=limit,
+                advice="shorten it",
             )
 
     label, text = limits.max_label_chars, limits.max_text_chars

@@ -18,20 +18,19 @@ from service.data.frames import Table
 from service.definition.model import CompareChart
 from service.errors import Problem
 from service.intents import scales
-from service.intents.plan import Category, ChartPlan, Scale
+from service.intents.plan import Category, ChartPlan, Scale, heading
 
 
 def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
     labels = table.frame[chart.category]
     if len(labels) > limits.max_categories:
-        yield Problem(
-            "limit_exceeded",
+        yield Problem.over_limit(
             f"{path}.category",
-            f"{len(labels)} categories are more than the limit of {limits.max_categories}",
-            "show the largest categories and group the rest as 'Other' in the data, or raise "
-            "PLUMBLINE_LIMITS__MAX_CATEGORIES",
+            "categories",
             len(labels),
-            {"limit": limits.max_categories, "setting": "max_categories"},
+            setting="max_categories",
+            limit=limits.max_categories,
+            advice="show the largest categories and group the rest as 'Other' in the data",
         )
     if labels.isna().any():
         yield Problem(
@@ -80,13 +79,8 @@ def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
         if not scale.includes_zero:
             notes.append(scale_note(scale, locale))
         return ChartPlan(
-            chart_id=chart.id,
-            intent=chart.intent,
+            **heading(chart, locale),
             form="dots",
-            title=chart.title,
-            subtitle=chart.subtitle,
-            note=chart.note,
-            locale=locale,
             value_axis=scale,
             categories=categories,
             notes=notes,
@@ -96,13 +90,8 @@ def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
     if base != 0.0:
         lo = base if base > 0 else min(lo, base)
     return ChartPlan(
-        chart_id=chart.id,
-        intent=chart.intent,
+        **heading(chart, locale),
         form="bars",
-        title=chart.title,
-        subtitle=chart.subtitle,
-        note=chart.note,
-        locale=locale,
         value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label),
         bar_base=base,
         categories=categories,

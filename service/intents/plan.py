@@ -6,9 +6,11 @@ renderer draws the plan and nothing else. Nothing here knows about matplotlib.
 
 from __future__ import annotations
 
-from typing import Literal
+from typing import Any, Literal
 
 from pydantic import BaseModel, ConfigDict
+
+from service.definition.model import ChartBase
 
 Form = Literal["bars", "dots", "lines"]
 
@@ -59,6 +61,18 @@ class PartialMark(Frozen):
     index: int
     text: str
     fraction: float
+
+
+def heading(chart: ChartBase, locale: str) -> dict[str, Any]:
+    """The fields every plan copies from its chart definition."""
+    return {
+        "chart_id": chart.id,
+        "intent": chart.intent,
+        "title": chart.title,
+        "subtitle": chart.subtitle,
+        "note": chart.note,
+        "locale": locale,
+    }
 
 
 class ChartPlan(Frozen):

@@ -21,18 +21,18 @@ from service.definition.model import TrendChart
 from service.errors import Problem
 from service.intents import scales
 from service.intents.compare import scale_note
-from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series
+from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series, heading
 
 
 def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
     if len(chart.measures) > limits.max_series:
-        yield Problem(
-            "limit_exceeded",
+        yield Problem.over_limit(
             f"{path}.measures",
-            f"{len(chart.measures)} series are more than the limit of {limits.max_series}",
-            "split the chart, or raise PLUMBLINE_LIMITS__MAX_SERIES",
+            "series",
             len(chart.measures),
-            {"limit": limits.max_series, "setting": "max_series"},
+            setting="max_series",
+            limit=limits.max_series,
+            advice="split the chart",
         )
     if table.periods is None or len(table.periods) == 0:
         yield Problem(
@@ -92,13 +92,8 @@ def encode(chart: TrendChart, table: Table, *, locale: str, as_of: datetime) -> 
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
     return ChartPlan(
-        chart_id=chart.id,
-        intent=chart.intent,
+        **heading(chart, locale),
         form="lines",
-        title=chart.title,
-        subtitle=chart.subtitle,
-        note=chart.note,
-        locale=locale,
         value_axis=scale,
         periods=[periods.label(p, table.frequency, locale) for p in full],
         series=series,

@@ -20,8 +20,8 @@ def size_in(plan: ChartPlan) -> tuple[float, float]:
     return style.WIDTH_IN, style.LINE_HEIGHT_IN + extra
 
 
-def draw(plan: ChartPlan) -> bytes:
-    """The chart as a one-page PDF."""
+def figure_for(plan: ChartPlan) -> Figure:
+    """The chart as a matplotlib figure (what ``draw`` saves; tests measure its artists)."""
     style.install()
     figure = Figure(figsize=size_in(plan), layout="constrained")
     ax = figure.add_subplot()
@@ -48,10 +48,19 @@ def draw(plan: ChartPlan) -> bytes:
                 ha="left",
                 parse_math=False,
             )
-        buffer = io.BytesIO()
+    except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
+        raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
+    return figure
+
+
+def draw(plan: ChartPlan) -> bytes:
+    """The chart as a one-page vector PDF."""
+    figure = figure_for(plan)
+    buffer = io.BytesIO()
+    try:
         figure.savefig(
             buffer, format="pdf", metadata={"CreationDate": None, "Creator": "Plumbline"}
         )
-    except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
+    except (ValueError, RuntimeError, OverflowError) as exc:
         raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
     return buffer.getvalue()

@@ -28,6 +28,21 @@ def _label(plan: ChartPlan, value: float | None) -> str:
     return formatting.with_unit(value, plan.value_axis.unit, plan.locale, digits=digits)
 
 
+def _no_data(ax: Axes, x: float, y: float) -> None:
+    """A category whose value is missing says so, where its mark would start."""
+    ax.text(
+        x,
+        y,
+        "  no data",
+        va="center",
+        ha="left",
+        color=style.MUTED,
+        fontsize=7.5,
+        fontstyle="italic",
+        parse_math=False,
+    )
+
+
 def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     base = plan.bar_base or 0.0
     rows = list(range(len(plan.categories)))[::-1]
@@ -35,17 +50,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     span = axis.hi - axis.lo
     for y, category in zip(rows, plan.categories, strict=True):
         if category.value is None:
-            ax.text(
-                base,
-                y,
-                "  no data",
-                va="center",
-                ha="left",
-                color=style.MUTED,
-                fontsize=7.5,
-                fontstyle="italic",
-                parse_math=False,
-            )
+            _no_data(ax, base, y)
             continue
         ax.barh(
             y, category.value - base, left=base, height=0.62, color=style.PALETTE[0], linewidth=0
@@ -75,17 +80,7 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
     for y, category in zip(rows, plan.categories, strict=True):
         ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0)
         if category.value is None:
-            ax.text(
-                axis.lo,
-                y,
-                "  no data",
-                va="center",
-                ha="left",
-                color=style.MUTED,
-                fontsize=7.5,
-                fontstyle="italic",
-                parse_math=False,
-            )
+            _no_data(ax, axis.lo, y)
             continue
         ax.plot(
             [category.value],

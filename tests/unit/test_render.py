@@ -1,0 +1,101 @@
+"""The renderer draws the plan and nothing else: measured on the artists matplotlib actually drew."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from factories import make_compare_definition, make_definition, make_monthly, run_checks
+from matplotlib.axes import Axes
+from matplotlib.lines import Line2D
+from matplotlib.patches import Rectangle
+from matplotlib.text import Text
+
+from service.checks.lie_factor import lie_factor
+from service.intents.plan import ChartPlan
+from service.render import charts
+
+
+def _drawn(definition: dict[str, object]) -> tuple[ChartPlan, Axes]:
+    plan = run_checks(definition).charts[0].plan
+    figure = charts.figure_for(plan)
+    figure.canvas.draw()  # lay out, so display coordinates are final
+    return plan, figure.axes[0]
+
+
+def _bar_lengths_px(ax: Axes) -> list[float]:
+    bars = [p for p in ax.patches if isinstance(p, Rectangle)]
+    return [p.get_window_extent().width for p in bars]
+
+
+@pytest.mark.parametrize(
+    ("baseline", "waived", "expected"),
+    [
+        (None, False, 1.0),  # zero-based bars: drawn lengths proportional to the values
+        (45.0, False, 1.0),  # the requested baseline is corrected to zero
+        (45.0, True, 10.0),  # kept as asked: 50 and 55 from 45 → lengths 5 and 10 (Tufte's formula)
+    ],
+)
+def test_lie_factor_of_the_drawn_bars(
+    baseline: float | None, waived: bool, expected: float
+) -> None:
+    """Lie factor = effect shown / effect in data (Tufte 1983, p. 57), here measured on the pixel
+    widths of the bars matplotlib drew, not on the plan."""
+    extra: dict[str, object] = {} if baseline is None else {"baseline": baseline}
+    waivers = (
+        [
+            {
+                "check": "bar-zero-baseline",
+                "chart": "on-time",
+                "by": "A. Reviewer",
+                "reason": "The board asked to see the spread above the floor.",
+            }
+        ]
+        if waived
+        else []
+    )
+    definition = make_compare_definition({"a": 50.0, "b": 55.0}, **extra)
+    definition["waivers"] = waivers
+    plan, ax = _drawn(definition)
+    assert plan.chart_id == "on-time"
+    small, large = sorted(_bar_lengths_px(ax))
+    assert lie_factor(50.0, 55.0, small, large) == pytest.approx(expected, rel=1e-6)
+
+
+def test_gap_is_not_joined_and_partial_point_stands_alone() -> None:
+    months = ["2026-07-01", "2026-08-01", "2026-09-01", "2026-10-01", "2026-11-01"]
+    definition = make_definition(datasets=[make_monthly(months, [50.0, None, 52.0, 53.0, 10.0])])
+    plan, ax = _drawn(definition)
+    gap = plan.gaps[0].index
+    partial = plan.partial
+    assert partial is not None
+    lines = [line for line in ax.get_lines() if isinstance(line, Line2D)]
+    for line in lines:
+        xs = [float(x) for x in line.get_xdata()]
+        ys = [float(y) for y in line.get_ydata()]
+        assert gap not in xs, "a line was drawn through the period with no data"
+        if partial.index in xs:
+            assert xs == [partial.index], "the running period was joined to the line"
+            assert line.get_markerfacecolor() == "white"  # hollow
+        assert all(not math.isnan(y) for y in ys)
+    texts = [t.get_text() for t in ax.findobj(Text)]
+    assert "no data" in texts
+    assert any("8 of 30 days" in t for t in texts)
+
+
+def test_dots_scale_does_not_start_at_zero_and_says_so() -> None:
+    definition = make_compare_definition({"a": 3.9, "b": 4.3, "c": 4.1}, focus="differences")
+    plan, ax = _drawn(definition)
+    low, _ = ax.get_xlim()
+    assert low > 0
+    assert plan.notes
+    assert ax.get_title(loc="left") == plan.notes[0]
+    assert not ax.patches  # dots, not bars
+
+
+def test_user_text_is_never_mathtext() -> None:
+    definition = make_compare_definition({"$x^2$": 1.0, "b": 2.0})
+    _, ax = _drawn(definition)
+    labels = [t.get_text() for t in ax.get_yticklabels()]
+    assert "$x^2$" in labels
+    assert all(not t.get_parse_math() for t in ax.get_yticklabels())
