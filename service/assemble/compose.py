@@ -23,13 +23,23 @@ from service.render import charts as chart_render
 
 
 def compose(checked: Checked, *, status_line: str) -> bytes:
-    drawn = {c.plan.chart_id: chart_render.draw(c.plan) for c in checked.charts}
-    content = content_for(checked, drawn, status_line=status_line)
+    pages = chart_render.draw_pages([c.plan for c in checked.charts])
+    with pikepdf.open(io.BytesIO(pages)) as drawn:
+        sizes = {c.plan.chart_id: _size(drawn.pages[i]) for i, c in enumerate(checked.charts)}
+    content = content_for(checked, sizes, status_line=status_line)
     document, slots = pack.build(content)
-    return place.place(document, slots, drawn)
+    order = {c.plan.chart_id: i for i, c in enumerate(checked.charts)}
+    return place.place(document, slots, pages, order)
 
 
-def content_for(checked: Checked, drawn: Mapping[str, bytes], *, status_line: str) -> PackContent:
+def _size(page: pikepdf.Page) -> tuple[float, float]:
+    box = [float(v) for v in page.mediabox]
+    return box[2] - box[0], box[3] - box[1]
+
+
+def content_for(
+    checked: Checked, sizes: Mapping[str, tuple[float, float]], *, status_line: str
+) -> PackContent:
     definition = checked.definition
     report = definition.report
     by_id = {c.plan.chart_id: c for c in checked.charts}
@@ -37,7 +47,7 @@ def content_for(checked: Checked, drawn: Mapping[str, bytes], *, status_line: st
     for section in definition.sections:
         blocks: list[ChartBlock | TableBlock] = []
         for chart in section.charts:
-            blocks.append(_chart_block(by_id[chart.id], drawn[chart.id]))
+            blocks.append(_chart_block(by_id[chart.id], sizes[chart.id]))
         for table in section.tables:
             blocks.append(_table_block(table, checked.tables[table.dataset], report.locale))
         sections.append(SectionBlock(section.heading, section.narrative, blocks))
@@ -59,9 +69,7 @@ def content_for(checked: Checked, drawn: Mapping[str, bytes], *, status_line: st
     )
 
 
-def _chart_block(chart: CheckedChart, pdf: bytes) -> ChartBlock:
-    with pikepdf.open(io.BytesIO(pdf)) as doc:
-        box = [float(v) for v in doc.pages[0].mediabox]
+def _chart_block(chart: CheckedChart, size: tuple[float, float]) -> ChartBlock:
     counts = summary(chart.results)
     line = "Checks: " + ", ".join(f"{n} {s}" for s, n in counts.items() if n)
     failed = [r.check for r in chart.results if r.status.value == "failed"]
@@ -72,8 +80,8 @@ def _chart_block(chart: CheckedChart, pdf: bytes) -> ChartBlock:
         title=chart.plan.title,
         subtitle=chart.plan.subtitle,
         note=chart.plan.note,
-        width_pt=box[2] - box[0],
-        height_pt=box[3] - box[1],
+        width_pt=size[0],
+        height_pt=size[1],
         check_line=line + " (details in the appendix).",
     )
 

@@ -15,15 +15,15 @@ from service.assemble.pack import Slot
 from service.errors import RenderFailed
 
 
-def place(document: bytes, slots: list[Slot], charts: Mapping[str, bytes]) -> bytes:
+def place(document: bytes, slots: list[Slot], charts: bytes, page_of: Mapping[str, int]) -> bytes:
+    """Put page ``page_of[slot.chart_id]`` of ``charts`` into each slot of ``document``."""
     try:
-        with pikepdf.open(io.BytesIO(document)) as pdf:
-            sources: list[pikepdf.Pdf] = []  # kept open until the destination is saved
+        with pikepdf.open(io.BytesIO(document)) as pdf, pikepdf.open(io.BytesIO(charts)) as source:
+            # ``source`` stays open until the destination is saved
             for number, slot in enumerate(slots):
-                source = pikepdf.open(io.BytesIO(charts[slot.chart_id]))
-                sources.append(source)
                 page = pdf.pages[slot.page]
-                form = pdf.copy_foreign(source.pages[0].as_form_xobject())
+                chart_page = source.pages[page_of[slot.chart_id]]
+                form = pdf.copy_foreign(chart_page.as_form_xobject())
                 name = page.add_resource(
                     form, pikepdf.Name.XObject, name=pikepdf.Name(f"/PlChart{number}")
                 )
@@ -42,8 +42,6 @@ def place(document: bytes, slots: list[Slot], charts: Mapping[str, bytes]) -> by
                 compress_streams=True,
                 object_stream_mode=pikepdf.ObjectStreamMode.generate,
             )
-            for source in sources:
-                source.close()
             return out.getvalue()
     except (pikepdf.PdfError, KeyError, IndexError) as exc:
         raise RenderFailed(f"the charts could not be placed in the pack: {exc}") from exc

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import io
 
+from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 
 from service.errors import RenderFailed
@@ -51,6 +52,23 @@ def figure_for(plan: ChartPlan) -> Figure:
     except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
         raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
     return figure
+
+
+def draw_pages(plans: list[ChartPlan]) -> bytes:
+    """Every chart of a pack as one page each of a single vector PDF, in order.
+
+    One file shares one font subset across all charts: measured on the demo, fontTools subsetting
+    for every chart separately was over half of the render time.
+    """
+    buffer = io.BytesIO()
+    metadata = {"CreationDate": None, "Creator": "Plumbline"}
+    try:
+        with PdfPages(buffer, metadata=metadata) as pages:
+            for plan in plans:
+                pages.savefig(figure_for(plan))
+    except (ValueError, RuntimeError, OverflowError) as exc:
+        raise RenderFailed(f"the charts could not be drawn: {exc}") from exc
+    return buffer.getvalue()
 
 
 def draw(plan: ChartPlan) -> bytes:
