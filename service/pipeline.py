@@ -55,6 +55,17 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
     troubled = {p.path for p in problems}
     for path, chart in definition.charts():
         table = tables.get(chart.dataset)
+        if chart.intent not in intents.ENCODERS:
+            problems.append(
+                Problem(
+                    "intent_unavailable",
+                    f"{path}.intent",
+                    f"this build of Plumbline cannot draw intent '{chart.intent}' yet",
+                    f"use one of: {', '.join(sorted(intents.ENCODERS))}",
+                    chart.intent,
+                )
+            )
+            continue
         if table is None or any(t == path or t.startswith(f"{path}.") for t in troubled):
             continue  # its dataset or its own fields are already reported
         problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
@@ -89,11 +100,15 @@ def check(taken: Intake) -> Checked:
     definition = taken.definition
     as_of = local_wall_time(definition.report.as_of)
     locale = definition.report.locale
+    palette = tuple(definition.report.palette) if definition.report.palette else None
+    env = intents.Env(locale=locale, as_of=as_of, palette=palette)
     charts: list[CheckedChart] = []
     for path, chart in definition.charts():
         table = taken.tables[chart.dataset]
-        plan = intents.ENCODERS[chart.intent].encode(chart, table, locale, as_of)
-        ctx = registry.Context(chart=chart, table=table, as_of=as_of, locale=locale)
+        plan = intents.ENCODERS[chart.intent].encode(chart, table, env)
+        ctx = registry.Context(
+            chart=chart, table=table, as_of=as_of, locale=locale, owner=definition.report.owner
+        )
         guarded = engine.guard(plan, ctx, definition.waivers)
         charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))
     used = {(r.check, r.chart) for c in charts for r in c.results if r.status is Status.waived}

@@ -201,7 +201,8 @@ def plan_of(definition: Json) -> ChartPlan:
     taken = intake(definition)
     _, chart = taken.definition.charts()[0]
     ctx = context_for(taken)
-    return intents.ENCODERS[chart.intent].encode(chart, ctx.table, ctx.locale, ctx.as_of)
+    env = intents.Env(locale=ctx.locale, as_of=ctx.as_of)
+    return intents.ENCODERS[chart.intent].encode(chart, ctx.table, env)
 
 
 def problems_of(definition: Json | bytes, limits: Limits | None = None) -> list[Problem]:

@@ -83,6 +83,8 @@ def _chart_block(chart: CheckedChart, size: tuple[float, float]) -> ChartBlock:
         width_pt=size[0],
         height_pt=size[1],
         check_line=line + " (details in the appendix).",
+        source=chart.plan.source,
+        description=chart.plan.description,
     )
 
 

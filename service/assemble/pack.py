@@ -53,6 +53,8 @@ class ChartBlock:
     width_pt: float
     height_pt: float
     check_line: str
+    source: str | None = None
+    description: str | None = None
 
 
 @dataclass(frozen=True)
@@ -233,8 +235,14 @@ def _section(section: SectionBlock, s: dict[str, Any], found: list[Slot]) -> Ite
             if block.subtitle:
                 parts.append(Paragraph(_text(block.subtitle), s["subtitle"]))
             parts.append(ChartSlot(block.chart_id, block.width_pt, block.height_pt, found))
+            if block.source:
+                parts.append(Paragraph(f"Source: {_text(block.source)}", s["muted"]))
             if block.note:
                 parts.append(Paragraph(_text(block.note), s["muted"]))
+            if block.description:
+                parts.append(
+                    Paragraph(f"<i>Text alternative:</i> {_text(block.description)}", s["small"])
+                )
             parts.append(Paragraph(_text(block.check_line), s["muted"]))
             yield KeepTogether(parts)
         else:

@@ -4,7 +4,14 @@ Importing this package registers every check, in the order the engine runs them:
 an earlier check (e.g. the zero baseline) is seen by the later ones (the lie factor).
 """
 
-from service.checks import baseline, lie_factor, missing, partial, scale_note  # noqa: F401
+from service.checks import (  # noqa: F401  (each registers its checks, in this order)
+    baseline,
+    lie_factor,
+    missing,
+    partial,
+    scale_note,
+    text,
+)
 from service.checks.registry import CHECKS
 
 __all__ = ["CHECKS"]

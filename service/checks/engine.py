@@ -11,7 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from datetime import date
 
-from service.checks import registry
+from service.checks import describe, registry
 from service.checks.registry import CheckSpec, Context, Finding
 from service.checks.results import CheckResult, Status, WaiverRecord
 from service.definition.model import Waiver
@@ -26,10 +26,31 @@ class Guarded:
 
 def guard(plan: ChartPlan, ctx: Context, waivers: list[Waiver]) -> Guarded:
     results: list[CheckResult] = []
-    for spec in registry.applicable(plan):
+    specs = registry.applicable(plan)
+    plan = _run([s for s in specs if s.phase == "plan"], plan, ctx, waivers, results)
+    if not plan.description:
+        plan = plan.model_copy(update={"description": describe.describe(plan, results)})
+    plan = _run([s for s in specs if s.phase == "final"], plan, ctx, waivers, results)
+    flags = [f"{r.check}: {r.explanation}" for r in results if r.status is Status.failed]
+    if flags:
+        plan = plan.model_copy(update={"flags": flags})
+    return Guarded(plan=plan, results=results)
+
+
+def _run(
+    specs: list[CheckSpec],
+    plan: ChartPlan,
+    ctx: Context,
+    waivers: list[Waiver],
+    results: list[CheckResult],
+) -> ChartPlan:
+    for spec in specs:
         finding = spec.measure(plan, ctx)
         if finding.ok:
             results.append(_result(spec, plan, Status.passed, finding, finding.detail))
+            continue
+        if spec.level == "advice":
+            results.append(_result(spec, plan, Status.advice, finding, finding.detail))
             continue
         waiver, expired = _waiver_for(spec, plan, ctx, waivers)
         if waiver is not None:
@@ -53,21 +74,22 @@ def guard(plan: ChartPlan, ctx: Context, waivers: list[Waiver]) -> Guarded:
             after = spec.measure(corrected, ctx)
             if after.ok:
                 text = f"{finding.detail} {spec.correction}{note}"
-                results.append(_result(spec, plan, Status.corrected, finding, text))
+                results.append(_result(spec, plan, Status.corrected, finding, text, after=after))
                 plan = corrected
                 continue
         results.append(_result(spec, plan, Status.failed, finding, finding.detail + note))
-    flags = [f"{r.check}: {r.explanation}" for r in results if r.status is Status.failed]
-    if flags:
-        plan = plan.model_copy(update={"flags": flags})
-    return Guarded(plan=plan, results=results)
+    return plan
 
 
 def _waiver_for(
     spec: CheckSpec, plan: ChartPlan, ctx: Context, waivers: list[Waiver]
 ) -> tuple[Waiver | None, date | None]:
     for waiver in waivers:
-        if waiver.check == spec.id and waiver.chart == plan.chart_id and spec.waivable:
+        if (
+            waiver.check == spec.id
+            and waiver.chart == plan.chart_id
+            and spec.waivable_for(plan.intent)
+        ):
             if waiver.expires is not None and waiver.expires < ctx.as_of.date():
                 return None, waiver.expires
             return waiver, None
@@ -82,18 +104,24 @@ def _result(
     explanation: str,
     *,
     waiver: WaiverRecord | None = None,
+    after: Finding | None = None,
 ) -> CheckResult:
     return CheckResult(
         check=spec.id,
         chart=plan.chart_id,
         status=status,
         measured=finding.measured,
-        measured_text=finding.shown if finding.shown is not None else _plain(finding.measured),
+        measured_text=_shown(finding),
+        corrected_to=None if after is None else _shown(after),
         threshold=spec.threshold,
         explanation=explanation,
         source=spec.source,
         waiver=waiver,
     )
+
+
+def _shown(finding: Finding) -> str:
+    return finding.shown if finding.shown is not None else _plain(finding.measured)
 
 
 def _plain(value: float | int | str | None) -> str:

@@ -10,10 +10,10 @@ import difflib
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 from datetime import datetime
-from typing import Any
+from typing import Any, Literal
 
 from service.data.frames import Table
-from service.definition.model import CompareChart, ReportDefinition, TrendChart
+from service.definition.model import AnyChart, ReportDefinition
 from service.errors import Problem
 from service.intents.plan import ChartPlan
 
@@ -22,10 +22,12 @@ from service.intents.plan import ChartPlan
 class Context:
     """What a check may consult besides the plan: the chart's definition, its data, the clock."""
 
-    chart: CompareChart | TrendChart
+    chart: AnyChart
     table: Table
     as_of: datetime
     locale: str
+    owner: str = ""
+    """The report's owner, accountable for data whose source is not stated."""
 
 
 @dataclass(frozen=True)
@@ -54,6 +56,12 @@ class CheckSpec:
     correction: str | None
     measure: Measure
     correct: Correct | None = None
+    phase: Literal["plan", "final"] = "plan"
+    """``final`` checks run after the plan is finished (its text alternative written)."""
+    level: Literal["rule", "advice"] = "rule"
+    """An ``advice`` check never fails or blocks: a breach is reported with status ``advice``."""
+    never_waivable_for: frozenset[str] = frozenset()
+    """Intents for which this otherwise waivable check protects data integrity."""
 
     @property
     def correctable(self) -> bool:
@@ -61,6 +69,9 @@ class CheckSpec:
 
     def applies(self, plan: ChartPlan) -> bool:
         return plan.intent in self.intents and plan.form in self.forms
+
+    def waivable_for(self, intent: str) -> bool:
+        return self.waivable and intent not in self.never_waivable_for
 
     def describe(self) -> dict[str, Any]:
         return {
@@ -74,6 +85,8 @@ class CheckSpec:
             "correctable": self.correctable,
             "correction": self.correction,
             "waivable": self.waivable,
+            "never_waivable_for": sorted(self.never_waivable_for),
+            "level": self.level,
         }
 
 
@@ -114,7 +127,8 @@ def waiver_problems(definition: ReportDefinition) -> Iterable[Problem]:
                 waiver.check,
             )
             continue
-        if not spec.waivable:
+        chart = charts.get(waiver.chart)
+        if not spec.waivable or (chart is not None and not spec.waivable_for(chart.intent)):
             yield Problem(
                 "not_waivable",
                 f"{path}.check",
@@ -122,7 +136,6 @@ def waiver_problems(definition: ReportDefinition) -> Iterable[Problem]:
                 "fix the data or the chart instead",
                 waiver.check,
             )
-        chart = charts.get(waiver.chart)
         if chart is None:
             close = difflib.get_close_matches(waiver.chart, list(charts), n=1)
             yield Problem(

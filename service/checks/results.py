@@ -13,6 +13,8 @@ class Status(StrEnum):
     corrected = "corrected"
     waived = "waived"
     failed = "failed"
+    advice = "advice"
+    """Worth a reader's attention, but not a breach of a rule: never blocks."""
 
 
 class WaiverRecord(BaseModel):
@@ -31,6 +33,8 @@ class CheckResult(BaseModel):
     status: Status
     measured: float | int | str | None
     measured_text: str
+    corrected_to: str | None = None
+    """For a correction: the measured value after it (``measured_text`` is before)."""
     threshold: str
     explanation: str
     source: str
@@ -50,5 +54,7 @@ def summary(results: list[CheckResult]) -> dict[str, int]:
 
 def summary_line(results: list[CheckResult]) -> str:
     counts = summary(results)
-    parts = ", ".join(f"{n} {status}" for status, n in counts.items())
-    return f"{len(results)} checks: {parts}"
+    shown = [f"{counts[s.value]} {s.value}" for s in Status if s is not Status.advice]
+    if counts[Status.advice.value]:
+        shown.append(f"{counts[Status.advice.value]} advice")
+    return f"{len(results)} checks: {', '.join(shown)}"

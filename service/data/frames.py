@@ -42,6 +42,9 @@ class Table:
     frequency: Frequency | None = None
     periods: pd.PeriodIndex | None = None
     types: dict[str, ColumnType] = field(default_factory=dict)
+    source: str | None = None
+    estimates: frozenset[str] = frozenset()
+    """Columns declared as estimates or forecasts rather than actuals."""
 
 
 def load_all(
@@ -82,6 +85,8 @@ def load(dataset: Dataset, *, path: str, as_of: datetime) -> tuple[Table | None,
         frame=frame,
         units={c.name: c.unit for c in dataset.columns if c.unit},
         types={c.name: c.type for c in dataset.columns},
+        source=dataset.source,
+        estimates=frozenset(c.name for c in dataset.columns if c.estimate),
     )
     if dataset.time_column and dataset.frequency and not problems:
         table, found = _with_periods(table, dataset, as_of, locate)
@@ -288,4 +293,6 @@ def _with_periods(
         frequency=dataset.frequency,
         periods=pd.PeriodIndex(found[order]),
         types=table.types,
+        source=table.source,
+        estimates=table.estimates,
     ), problems

@@ -41,11 +41,18 @@ class Column(Input):
         None, description="Unit of a numeric column, e.g. 'GBP', '%', 'journeys'."
     )
     description: Text | None = None
+    estimate: bool = Field(
+        False, description="The values are estimates or forecasts, not actuals (drawn dashed)."
+    )
+    projectable: bool = Field(
+        False, description="A partial last period of this column may be projected (e.g. run rate)."
+    )
 
 
 class Dataset(Input):
     name: Id
     description: Text | None = None
+    source: Text | None = Field(None, description="Where the data comes from (the source line).")
     columns: list[Column] = Field(min_length=1)
     time_column: Name | None = Field(
         None, description="The column that places each row in time (type date or timestamp)."
@@ -91,6 +98,37 @@ class Report(Input):
     owner: Label
     audience: Label | None = None
     locale: Annotated[str, Field(pattern=r"^[a-z]{2,3}(-[A-Z]{2})?$")] = "en-GB"
+    palette: list[Annotated[str, Field(pattern=r"^#[0-9a-fA-F]{6}$")]] | None = Field(
+        None,
+        min_length=1,
+        max_length=12,
+        description="A custom categorical palette (e.g. brand colours); checked like the default.",
+    )
+
+
+class Role(StrEnum):
+    """What a chart uses a column for; validation checks each role's type and unit."""
+
+    measure = "measure"  # numeric, with a unit
+    number = "number"  # numeric, unit optional (sample sizes, spreads)
+    category = "category"  # text
+
+
+class Precision(Input):
+    """The precision readers need from the chart: a share of the value, or an amount."""
+
+    relative: Annotated[float, Field(gt=0, lt=1)] | None = Field(
+        None, description="e.g. 0.01: readers must tell values apart to within 1 % of the value"
+    )
+    absolute: Annotated[float, Field(gt=0)] | None = Field(
+        None, description="e.g. 0.5: readers must tell values apart to within 0.5 units"
+    )
+
+    @model_validator(mode="after")
+    def _one(self) -> Precision:
+        if (self.relative is None) == (self.absolute is None):
+            raise ValueError("give the precision as 'relative' or 'absolute', not both")
+        return self
 
 
 class ChartBase(Input):
@@ -100,6 +138,44 @@ class ChartBase(Input):
     subtitle: Text | None = None
     dataset: Id
     note: Text | None = Field(None, description="A sentence printed under the chart.")
+    source: Text | None = Field(
+        None, description="The source line under the chart; defaults to the dataset's source."
+    )
+    description: Text | None = Field(
+        None,
+        description="A text alternative written by the author; otherwise one is generated.",
+    )
+    precision: Precision | None = None
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        """Every column this chart reads: (field path, column name, role)."""
+        return []
+
+
+class Interval(Input):
+    """Uncertainty of each category's value: interval bounds, or a spread with a sample size."""
+
+    lower: Name | None = None
+    upper: Name | None = None
+    sd: Name | None = Field(None, description="Standard deviation of each category's sample")
+    n: Name | None = Field(None, description="Sample size of each category")
+    level: Annotated[float, Field(gt=0.5, lt=1)] = Field(
+        0.95, description="Confidence level of the intervals"
+    )
+
+    @model_validator(mode="after")
+    def _pairs(self) -> Interval:
+        bounds = (self.lower is None, self.upper is None)
+        spread = (self.sd is None, self.n is None)
+        if bounds == (False, False) and spread == (True, True):
+            return self
+        if spread == (False, False) and bounds == (True, True):
+            return self
+        raise ValueError("give either 'lower' and 'upper', or 'sd' and 'n'")
+
+    def columns(self, base: str) -> list[tuple[str, str, Role]]:
+        names = {"lower": self.lower, "upper": self.upper, "sd": self.sd, "n": self.n}
+        return [(f"{base}.{k}", v, Role.number) for k, v in names.items() if v is not None]
 
 
 class CompareChart(ChartBase):
@@ -119,6 +195,22 @@ class CompareChart(ChartBase):
         "with a note on the chart, instead of truncated bars.",
     )
     sort: Literal["descending", "ascending", "as_given"] = "descending"
+    interval: Interval | None = Field(
+        None, description="Draw each value's uncertainty and judge whether differences are real."
+    )
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        found = [
+            ("category", self.category, Role.category),
+            ("measure", self.measure, Role.measure),
+        ]
+        return found + (self.interval.columns("interval") if self.interval else [])
+
+
+class Projection(Input):
+    method: Literal["run_rate"] = Field(
+        description="'run_rate': the partial period's value divided by the share of it elapsed"
+    )
 
 
 class TrendChart(ChartBase):
@@ -129,9 +221,146 @@ class TrendChart(ChartBase):
     from_zero: bool = Field(
         False, description="Start the value axis at zero (otherwise it fits the data, with a note)."
     )
+    scale: Literal["linear", "log"] = "linear"
+    focus: Name | None = Field(
+        None, description="With many series, the one to highlight (the rest are drawn in grey)."
+    )
+    projection: Projection | None = Field(
+        None,
+        description="Estimate the partial last period (only for columns declared projectable).",
+    )
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        return [(f"measures[{i}]", m, Role.measure) for i, m in enumerate(self.measures)]
 
 
-Chart = Annotated[CompareChart | TrendChart, Field(discriminator="intent")]
+class ShareChart(ChartBase):
+    """Parts of a whole."""
+
+    intent: Literal["share"]
+    category: Name
+    measure: Name
+    whole: float | None = Field(
+        None, description="The stated whole the parts must add up to (else their sum)."
+    )
+    tolerance: Annotated[float, Field(ge=0)] | None = Field(
+        None,
+        description="How far the parts may miss the whole (default: half a unit of the last "
+        "decimal shown in the data, per part).",
+    )
+    expected_categories: list[Label] | None = Field(
+        None, description="Parts the whole is made of; any the data lacks is shown as missing."
+    )
+    allow_pie: bool = Field(
+        False, description="Allow a pie when it can be read: at most 5 parts, each pair distinct."
+    )
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        return [("category", self.category, Role.category), ("measure", self.measure, Role.measure)]
+
+
+class RelativeChangeChart(ChartBase):
+    """Two or more measures over time, usually in different units: indexed, or aligned panels."""
+
+    intent: Literal["relative_change"]
+    measures: list[Name] = Field(min_length=2)
+    form: Literal["index", "panels"] = "index"
+    base_period: date | None = Field(
+        None, description="The period indexed to 100 (default: the first with every measure)."
+    )
+    index_as: Literal["base_100", "percent_change"] = "base_100"
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        return [(f"measures[{i}]", m, Role.measure) for i, m in enumerate(self.measures)]
+
+
+class MovementChart(ChartBase):
+    """A KPI's latest change judged against its own history (individuals and moving-range chart)."""
+
+    intent: Literal["movement"]
+    measure: Name
+    run_length: Annotated[int, Field(ge=6, le=12)] = Field(
+        8, description="Points in a row on one side of the centre line that count as a signal"
+    )
+    min_history: Annotated[int, Field(ge=6)] = Field(
+        10, description="Fewer points than this: no verdict is given"
+    )
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        return [("measure", self.measure, Role.measure)]
+
+
+class TargetChart(ChartBase):
+    """Actual against plan or target, per category."""
+
+    intent: Literal["target"]
+    category: Name
+    actual: Name
+    target: Name | None = Field(None, description="A column holding each category's target")
+    target_value: float | None = Field(None, description="One target for every category")
+    form: Literal["bars", "deviation"] = "bars"
+
+    @model_validator(mode="after")
+    def _one_target(self) -> TargetChart:
+        if (self.target is None) == (self.target_value is None):
+            raise ValueError("give the target as a column ('target') or a value ('target_value')")
+        return self
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        found = [("category", self.category, Role.category), ("actual", self.actual, Role.measure)]
+        return found + ([("target", self.target, Role.measure)] if self.target else [])
+
+
+class DistributionChart(ChartBase):
+    """How the values of one measure are spread."""
+
+    intent: Literal["distribution"]
+    measure: Name
+    form: Literal["histogram", "box"] = "histogram"
+    group: Name | None = Field(None, description="A text column: one box per group")
+    bins: Annotated[int, Field(ge=2, le=200)] | None = None
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        found = [("measure", self.measure, Role.measure)]
+        return found + ([("group", self.group, Role.category)] if self.group else [])
+
+
+class RelationshipChart(ChartBase):
+    """Two measures against each other."""
+
+    intent: Literal["relationship"]
+    x: Name
+    y: Name
+    label: Name | None = Field(None, description="A text column naming each point")
+    fit: bool = Field(False, description="Draw a least-squares line, with its r²")
+
+    def columns(self) -> list[tuple[str, str, Role]]:
+        found = [("x", self.x, Role.measure), ("y", self.y, Role.measure)]
+        return found + ([("label", self.label, Role.category)] if self.label else [])
+
+
+AnyChart = (
+    CompareChart
+    | TrendChart
+    | ShareChart
+    | RelativeChangeChart
+    | MovementChart
+    | TargetChart
+    | DistributionChart
+    | RelationshipChart
+)
+Chart = Annotated[AnyChart, Field(discriminator="intent")]
+
+INTENTS = (
+    "compare",
+    "trend",
+    "share",
+    "relative_change",
+    "movement",
+    "target",
+    "distribution",
+    "relationship",
+)
 
 
 class Table(Input):
@@ -167,7 +396,7 @@ class ReportDefinition(Input):
     sections: list[Section] = Field(min_length=1)
     waivers: list[Waiver] = Field(default_factory=list)
 
-    def charts(self) -> list[tuple[str, CompareChart | TrendChart]]:
+    def charts(self) -> list[tuple[str, AnyChart]]:
         """Every chart with its path in the definition, in reading order."""
         return [
             (f"sections[{s}].charts[{c}]", chart)

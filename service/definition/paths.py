@@ -5,7 +5,18 @@ from __future__ import annotations
 from collections.abc import Iterable
 
 #: Tags of the chart union, which pydantic inserts into error locations after the list index.
-_UNION_TAGS = frozenset({"compare", "trend"})
+_UNION_TAGS = frozenset(
+    {
+        "compare",
+        "trend",
+        "share",
+        "relative_change",
+        "movement",
+        "target",
+        "distribution",
+        "relationship",
+    }
+)
 
 
 def join(loc: Iterable[int | str]) -> str:

@@ -19,10 +19,13 @@ from pydantic import ValidationError
 from service.config import Limits
 from service.definition import paths
 from service.definition.model import (
+    INTENTS,
+    AnyChart,
     ColumnType,
-    CompareChart,
     Dataset,
+    RelativeChangeChart,
     ReportDefinition,
+    Role,
     TrendChart,
 )
 from service.errors import InvalidDefinition, PayloadTooLarge, Problem
@@ -155,13 +158,11 @@ def _owner_model(loc: tuple[int | str, ...], document: Any, model: Any) -> Any:
             node = node[part] if isinstance(node, list) and 0 <= part < len(node) else None
             if current is _CHART:  # the list index picks the chart; its intent picks the model
                 intent = node.get("intent") if isinstance(node, dict) else None
-                current = {"compare": model.CompareChart, "trend": model.TrendChart}.get(
-                    str(intent)
-                )
+                current = _chart_models(model).get(str(intent))
             if current is None:
                 return None
             continue
-        if part in {"compare", "trend"}:
+        if part in INTENTS:
             continue
         if current is _CHART:
             return None
@@ -173,6 +174,12 @@ def _owner_model(loc: tuple[int | str, ...], document: Any, model: Any) -> Any:
 
 
 _CHART = object()
+
+
+def _chart_models(model: Any) -> dict[str, Any]:
+    return {
+        typ.model_fields["intent"].annotation.__args__[0]: typ for typ in model.AnyChart.__args__
+    }
 
 
 def _init_field_models() -> dict[tuple[str, str], Any]:
@@ -290,10 +297,7 @@ def references(definition: ReportDefinition) -> Iterable[Problem]:
         if source is None:
             yield _unknown(f"{path}.dataset", "dataset", chart.dataset, names)
             continue
-        if isinstance(chart, CompareChart):
-            yield from _compare_problems(path, chart, source)
-        elif isinstance(chart, TrendChart):
-            yield from _trend_problems(path, chart, source)
+        yield from _chart_problems(path, chart, source)
     for s, section in enumerate(definition.sections):
         for t, table in enumerate(section.tables):
             path = f"sections[{s}].tables[{t}]"
@@ -358,24 +362,32 @@ def _dataset_problems(path: str, dataset: Dataset) -> Iterable[Problem]:
         )
 
 
-def _column(dataset: Dataset, name: str) -> ColumnType | None:
-    return next((c.type for c in dataset.columns if c.name == name), None)
-
-
-def _measure_problems(path: str, dataset: Dataset, name: str) -> Iterable[Problem]:
+def _role_problems(
+    path: str, dataset: Dataset, name: str, role: Role, intent: str
+) -> Iterable[Problem]:
     column = next((c for c in dataset.columns if c.name == name), None)
     if column is None:
         yield _unknown(path, "column", name, [c.name for c in dataset.columns], dataset.name)
+        return
+    if role is Role.category:
+        if column.type is not ColumnType.text:
+            yield Problem(
+                "column_type_mismatch",
+                path,
+                f"'{name}' has type '{column.type}', but categories are text",
+                "choose a column of type 'text', or use intent 'trend' for values over time",
+                column.type.value,
+            )
         return
     if column.type not in NUMERIC:
         yield Problem(
             "column_type_mismatch",
             path,
-            f"the measure '{name}' has type '{column.type}', but a measure must be numeric",
+            f"'{name}' has type '{column.type}', but {intent} needs a number here",
             "choose a column of type 'number' or 'integer'",
             column.type.value,
         )
-    if not column.unit:
+    if role is Role.measure and not column.unit:
         yield Problem(
             "unit_missing",
             path,
@@ -386,56 +398,60 @@ def _measure_problems(path: str, dataset: Dataset, name: str) -> Iterable[Proble
         )
 
 
-def _compare_problems(path: str, chart: CompareChart, dataset: Dataset) -> Iterable[Problem]:
-    kind = _column(dataset, chart.category)
-    if kind is None:
-        yield _unknown(
-            f"{path}.category",
-            "column",
-            chart.category,
-            [c.name for c in dataset.columns],
-            dataset.name,
-        )
-    elif kind is not ColumnType.text:
-        yield Problem(
-            "column_type_mismatch",
-            f"{path}.category",
-            f"the category '{chart.category}' has type '{kind}', but categories are text",
-            "choose a column of type 'text', or use intent 'trend' for values over time",
-            kind.value,
-        )
-    yield from _measure_problems(f"{path}.measure", dataset, chart.measure)
+#: Intents that draw values over time, and so need a dataset with a time column.
+_OVER_TIME = frozenset({"trend", "relative_change", "movement"})
 
 
-def _trend_problems(path: str, chart: TrendChart, dataset: Dataset) -> Iterable[Problem]:
-    if dataset.time_column is None:
+def _chart_problems(path: str, chart: AnyChart, dataset: Dataset) -> Iterable[Problem]:
+    for field, name, role in chart.columns():
+        yield from _role_problems(f"{path}.{field}", dataset, name, role, chart.intent)
+    if chart.intent in _OVER_TIME and dataset.time_column is None:
         yield Problem(
             "time_column_missing",
             f"{path}.dataset",
-            f"a trend needs time, but dataset '{dataset.name}' declares no time column",
+            f"'{chart.intent}' draws values over time, but dataset '{dataset.name}' declares no "
+            "time column",
             f"give dataset '{dataset.name}' a 'time_column' and a 'frequency'",
             dataset.name,
         )
-    units: dict[str, str] = {}
-    for i, measure in enumerate(chart.measures):
-        yield from _measure_problems(f"{path}.measures[{i}]", dataset, measure)
-        column = next((c for c in dataset.columns if c.name == measure), None)
-        if column is not None and column.unit:
-            units[measure] = column.unit
+    if isinstance(chart, TrendChart | RelativeChangeChart):
+        yield from _repeated(
+            [(f"{path}.measures[{i}]", m) for i, m in enumerate(chart.measures)],
+            "",
+            "name each measure once",
+        )
+    if isinstance(chart, TrendChart):
+        yield from _trend_problems(path, chart, dataset)
+
+
+def _trend_problems(path: str, chart: TrendChart, dataset: Dataset) -> Iterable[Problem]:
+    columns = {c.name: c for c in dataset.columns}
+    units = {m: columns[m].unit for m in chart.measures if m in columns and columns[m].unit}
     if len(set(units.values())) > 1:
         listed = ", ".join(f"{m} ({u})" for m, u in units.items())
         yield Problem(
             "mixed_units",
             f"{path}.measures",
             f"the measures have different units: {listed}; one axis cannot honestly carry them",
-            "draw one chart per unit (Plumbline never draws two y-axes)",
+            "use intent 'relative_change' (indexed, or aligned panels): Plumbline never draws "
+            "two y-axes",
             list(units.values()),
         )
-    yield from _repeated(
-        [(f"{path}.measures[{i}]", m) for i, m in enumerate(chart.measures)],
-        "",
-        "name each measure once",
-    )
+    if chart.focus is not None and chart.focus not in chart.measures:
+        yield _unknown(f"{path}.focus", "measure", chart.focus, list(chart.measures))
+    if chart.projection is not None:
+        for i, measure in enumerate(chart.measures):
+            column = columns.get(measure)
+            if column is not None and not column.projectable:
+                yield Problem(
+                    "not_projectable",
+                    f"{path}.measures[{i}]",
+                    f"'{measure}' is not declared projectable, so its partial period cannot be "
+                    "estimated",
+                    f"declare 'projectable': true on column '{measure}' if a run rate is "
+                    "meaningful for it, or drop 'projection'",
+                    measure,
+                )
 
 
 def _unknown(path: str, what: str, value: str, known: list[str], owner: str = "") -> Problem:

@@ -19,6 +19,7 @@ from service.definition.model import CompareChart
 from service.errors import Problem
 from service.intents import scales
 from service.intents.plan import Category, ChartPlan, Scale, heading
+from service.intents.registry import Encoder, Env, register
 
 
 def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
@@ -59,7 +60,8 @@ def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> It
         )
 
 
-def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
+def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
+    locale = env.locale
     frame = table.frame[[chart.category, chart.measure]]
     if chart.sort != "as_given":
         frame = frame.sort_values(
@@ -79,7 +81,7 @@ def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
         if not scale.includes_zero:
             notes.append(scale_note(scale, locale))
         return ChartPlan(
-            **heading(chart, locale),
+            **heading(chart, locale, table.source),
             form="dots",
             value_axis=scale,
             categories=categories,
@@ -90,7 +92,7 @@ def encode(chart: CompareChart, table: Table, *, locale: str) -> ChartPlan:
     if base != 0.0:
         lo = base if base > 0 else min(lo, base)
     return ChartPlan(
-        **heading(chart, locale),
+        **heading(chart, locale, table.source),
         form="bars",
         value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label),
         bar_base=base,
@@ -107,3 +109,6 @@ def truncation_note(base: float, unit: str, locale: str) -> str:
 def scale_note(scale: Scale, locale: str) -> str:
     start = formatting.with_unit(scale.lo, scale.unit, locale)
     return f"Scale starts at {start}, not zero: compare positions, not lengths."
+
+
+ENCODER = register(Encoder("compare", problems, encode, frozenset({"bars", "dots"})))

@@ -2,6 +2,20 @@
 
 Encoders turn an intent plus data into a plan; checks measure the plan (and may correct it); the
 renderer draws the plan and nothing else. Nothing here knows about matplotlib.
+
+One plan type serves every form; each form uses the fields it needs and leaves the rest empty:
+
+| form | fields |
+|---|---|
+| bars, dots | categories (value, optional interval lo/hi, target, percent), bar_base |
+| deviation | categories (value = actual − target), bar_base 0, references |
+| pie | categories (value, percent) |
+| lines | periods, series, gaps, partial, references |
+| control | lines fields, plus references (centre line, limits) and verdicts |
+| panels | periods, panels (each with its own value axis and series), gaps, partial |
+| histogram | bins, value_axis (counts), x_axis (measure) |
+| box | boxes, value_axis |
+| scatter | points, x_axis, value_axis (y), fit |
 """
 
 from __future__ import annotations
@@ -12,7 +26,14 @@ from pydantic import BaseModel, ConfigDict
 
 from service.definition.model import ChartBase
 
-Form = Literal["bars", "dots", "lines"]
+Form = Literal[
+    "bars", "dots", "deviation", "pie", "lines", "control", "panels", "histogram", "box", "scatter"
+]
+
+#: Forms whose marks encode value by length or area: they must start at zero.
+LENGTH_FORMS = frozenset({"bars", "deviation", "pie", "histogram"})
+#: Forms whose marks encode value by position: a non-zero scale is allowed if the chart says so.
+POSITION_FORMS = frozenset({"dots", "lines", "control", "panels", "box", "scatter"})
 
 
 class Frozen(BaseModel):
@@ -20,12 +41,13 @@ class Frozen(BaseModel):
 
 
 class Scale(Frozen):
-    """The value axis: its drawn range and unit."""
+    """A value axis: its drawn range and unit."""
 
     lo: float
     hi: float
     unit: str
     label: str
+    log: bool = False
 
     @property
     def includes_zero(self) -> bool:
@@ -35,6 +57,14 @@ class Scale(Frozen):
 class Category(Frozen):
     label: str
     value: float | None
+    lo: float | None = None
+    """Lower bound of the value's interval (uncertainty), when the data has one."""
+    hi: float | None = None
+    target: float | None = None
+    percent: int | None = None
+    """The displayed share in whole percent (largest remainder: they sum to 100)."""
+    expected_missing: bool = False
+    """An expected part the data lacks: shown as missing, never dropped."""
 
 
 class Series(Frozen):
@@ -45,6 +75,12 @@ class Series(Frozen):
     values: list[float | None]
     segments: list[tuple[int, int]]
     """Runs of periods joined by a line, as (first, last) indexes, inclusive."""
+    xs: list[int] | None = None
+    """Period indexes of ``values`` when the series was reduced for drawing (else 0..n-1)."""
+    estimate: bool = False
+    """Estimates or forecasts: drawn dashed and labelled, never joined to actuals."""
+    muted: bool = False
+    """Drawn in grey, behind the focus series."""
 
 
 class Gap(Frozen):
@@ -63,8 +99,70 @@ class PartialMark(Frozen):
     fraction: float
 
 
-def heading(chart: ChartBase, locale: str) -> dict[str, Any]:
-    """The fields every plan copies from its chart definition."""
+class Reference(Frozen):
+    """A horizontal reference: a target, a centre line, a natural process limit."""
+
+    value: float
+    label: str
+    kind: Literal["target", "centre", "limit"]
+
+
+class Verdict(Frozen):
+    """The reading of a change, printed beside it: a signal, or routine variation."""
+
+    index: int
+    text: str
+    signal: bool
+
+
+class Panel(Frozen):
+    """One of several aligned panels sharing the time axis, each with its own scale."""
+
+    title: str
+    value_axis: Scale
+    series: list[Series]
+    notes: list[str] = []
+
+
+class Bin(Frozen):
+    lo: float
+    hi: float
+    count: int
+
+
+class Box(Frozen):
+    label: str
+    n: int
+    low: float
+    q1: float
+    median: float
+    q3: float
+    high: float
+    outliers: list[float] = []
+
+
+class Point(Frozen):
+    x: float
+    y: float
+    label: str | None = None
+
+
+class Fit(Frozen):
+    slope: float
+    intercept: float
+    r2: float
+
+
+class Reduction(Frozen):
+    """Points removed before drawing because the output could not show them (M4)."""
+
+    before: int
+    after: int
+    width_px: int
+
+
+def heading(chart: ChartBase, locale: str, source: str | None = None) -> dict[str, Any]:
+    """The fields every plan copies from its chart definition (``source``: the dataset's)."""
     return {
         "chart_id": chart.id,
         "intent": chart.intent,
@@ -72,6 +170,8 @@ def heading(chart: ChartBase, locale: str) -> dict[str, Any]:
         "subtitle": chart.subtitle,
         "note": chart.note,
         "locale": locale,
+        "source": chart.source or source,
+        "description": chart.description,
     }
 
 
@@ -84,13 +184,32 @@ class ChartPlan(Frozen):
     note: str | None = None
     locale: str = "en-GB"
     value_axis: Scale
+    x_axis: Scale | None = None
     bar_base: float | None = None
     """Where bars start on the value axis (bars only)."""
     categories: list[Category] = []
     periods: list[str] = []
     series: list[Series] = []
+    panels: list[Panel] = []
     gaps: list[Gap] = []
     partial: PartialMark | None = None
+    references: list[Reference] = []
+    verdicts: list[Verdict] = []
+    bins: list[Bin] = []
+    boxes: list[Box] = []
+    points: list[Point] = []
+    fit: Fit | None = None
+    reduction: Reduction | None = None
+    value_labels: bool = False
+    """Print each value beside its mark (e.g. when the chart alone cannot give the precision)."""
+    palette: list[str] = []
+    """The colours the marks use, in order; empty means the house palette."""
+    guide: str | None = None
+    """A one-line reading guide shown beside the chart (box plots, scatter plots)."""
+    source: str | None = None
+    """The source line printed under the chart."""
+    description: str | None = None
+    """The text alternative: what the chart shows, in plain words."""
     notes: list[str] = []
     """Sentences the chart itself must show (e.g. that its scale does not start at zero)."""
     flags: list[str] = []

@@ -9,7 +9,6 @@ it is drawn hollow and labelled with its completeness.
 from __future__ import annotations
 
 from collections.abc import Iterable
-from datetime import datetime
 
 import pandas as pd
 
@@ -22,6 +21,7 @@ from service.errors import Problem
 from service.intents import scales
 from service.intents.compare import scale_note
 from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series, heading
+from service.intents.registry import Encoder, Env, register
 
 
 def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
@@ -69,7 +69,8 @@ def runs(values: list[float | None]) -> list[tuple[int, int]]:
     return out
 
 
-def encode(chart: TrendChart, table: Table, *, locale: str, as_of: datetime) -> ChartPlan:
+def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
+    locale, as_of = env.locale, env.as_of
     assert table.periods is not None and table.frequency is not None
     full = periods.expected(table.periods.min(), table.periods.max())
     frame = table.frame.set_index(table.periods).reindex(full)
@@ -92,7 +93,7 @@ def encode(chart: TrendChart, table: Table, *, locale: str, as_of: datetime) -> 
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
     return ChartPlan(
-        **heading(chart, locale),
+        **heading(chart, locale, table.source),
         form="lines",
         value_axis=scale,
         periods=[periods.label(p, table.frequency, locale) for p in full],
@@ -101,3 +102,6 @@ def encode(chart: TrendChart, table: Table, *, locale: str, as_of: datetime) -> 
         partial=partial,
         notes=[] if scale.includes_zero else [scale_note(scale, locale)],
     )
+
+
+ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines"})))

@@ -9,7 +9,11 @@ from matplotlib.figure import Figure
 
 from service.errors import RenderFailed
 from service.intents.plan import ChartPlan
-from service.render import forms, style
+from service.render import (  # noqa: F401  (each registers its drawers)
+    forms,
+    style,
+)
+from service.render.registry import DRAWERS
 
 
 def size_in(plan: ChartPlan) -> tuple[float, float]:
@@ -25,9 +29,9 @@ def figure_for(plan: ChartPlan) -> Figure:
     """The chart as a matplotlib figure (what ``draw`` saves; tests measure its artists)."""
     style.install()
     figure = Figure(figsize=size_in(plan), layout="constrained")
-    ax = figure.add_subplot()
     try:
-        forms.DRAWERS[plan.form](ax, plan)
+        DRAWERS[plan.form](figure, plan)
+        ax = figure.axes[0]
         if plan.notes:
             ax.set_title(
                 "\n".join(plan.notes),

@@ -1,46 +1,16 @@
-"""One drawing function per plan form, looked up in ``DRAWERS``."""
+"""The basic forms: bars, dots and lines, each filling one axes."""
 
 from __future__ import annotations
 
 from collections.abc import Callable
-from typing import Any
 
 from matplotlib.axes import Axes
-from matplotlib.ticker import FixedLocator, FuncFormatter
+from matplotlib.figure import Figure
+from matplotlib.ticker import FixedLocator
 
-from service import formatting
 from service.intents.plan import ChartPlan
-from service.render import style
-
-Drawer = Callable[[Axes, ChartPlan], None]
-
-
-def _value_formatter(plan: ChartPlan) -> FuncFormatter:
-    def fmt(value: float, _pos: Any) -> str:
-        return formatting.number(value, plan.locale)
-
-    return FuncFormatter(fmt)
-
-
-def _label(plan: ChartPlan, value: float | None) -> str:
-    present = [c.value for c in plan.categories if c.value is not None]
-    digits = formatting.decimals_for(present)
-    return formatting.with_unit(value, plan.value_axis.unit, plan.locale, digits=digits)
-
-
-def _no_data(ax: Axes, x: float, y: float) -> None:
-    """A category whose value is missing says so, where its mark would start."""
-    ax.text(
-        x,
-        y,
-        "  no data",
-        va="center",
-        ha="left",
-        color=style.MUTED,
-        fontsize=7.5,
-        fontstyle="italic",
-        parse_math=False,
-    )
+from service.render import common, style
+from service.render.registry import Drawer, drawer
 
 
 def draw_bars(ax: Axes, plan: ChartPlan) -> None:
@@ -50,10 +20,15 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     span = axis.hi - axis.lo
     for y, category in zip(rows, plan.categories, strict=True):
         if category.value is None:
-            _no_data(ax, base, y)
+            common.no_data(ax, base, y)
             continue
         ax.barh(
-            y, category.value - base, left=base, height=0.62, color=style.PALETTE[0], linewidth=0
+            y,
+            category.value - base,
+            left=base,
+            height=0.62,
+            color=common.colour(plan, 0),
+            linewidth=0,
         )
         inside = category.value - base
         ha = "left" if inside >= 0 else "right"
@@ -61,14 +36,14 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
         ax.text(
             category.value + pad,
             y,
-            _label(plan, category.value),
+            common.value_label(plan, category.value),
             va="center",
             ha=ha,
             color=style.INK,
             fontsize=7.5,
             parse_math=False,
         )
-    _category_axis(ax, plan, rows)
+    common.category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi + span * 0.08)
     if axis.lo < 0 < axis.hi:
         ax.axvline(0, color=style.MUTED, linewidth=0.8)
@@ -80,40 +55,28 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
     for y, category in zip(rows, plan.categories, strict=True):
         ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0)
         if category.value is None:
-            _no_data(ax, axis.lo, y)
+            common.no_data(ax, axis.lo, y)
             continue
         ax.plot(
             [category.value],
             [y],
             marker="o",
             markersize=5.5,
-            color=style.PALETTE[0],
+            color=common.colour(plan, 0),
             linestyle="none",
         )
         ax.text(
             category.value,
             y + 0.28,
-            _label(plan, category.value),
+            common.value_label(plan, category.value),
             va="bottom",
             ha="center",
             color=style.INK,
             fontsize=7,
             parse_math=False,
         )
-    _category_axis(ax, plan, rows)
+    common.category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi)
-
-
-def _category_axis(ax: Axes, plan: ChartPlan, rows: list[int]) -> None:
-    ax.yaxis.set_major_locator(FixedLocator(rows))
-    ax.set_yticklabels([c.label for c in plan.categories], parse_math=False)
-    ax.tick_params(axis="y", length=0)
-    ax.set_ylim(-0.6, len(rows) - 0.4)
-    ax.spines["left"].set_visible(False)
-    ax.xaxis.set_major_formatter(_value_formatter(plan))
-    ax.grid(axis="x")
-    ax.set_axisbelow(True)
-    ax.set_xlabel(plan.value_axis.label, parse_math=False)
 
 
 def draw_lines(ax: Axes, plan: ChartPlan) -> None:
@@ -122,7 +85,7 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     partial = plan.partial
     ends: list[tuple[str, int, float, str]] = []
     for number, series in enumerate(plan.series):
-        colour = style.PALETTE[number % len(style.PALETTE)]
+        colour = common.colour(plan, number)
         for first, end in series.segments:
             # the running period is never joined to the complete ones
             last = end - 1 if partial is not None and end == partial.index else end
@@ -175,7 +138,7 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     ax.set_xticklabels([plan.periods[i] for i in ticks], parse_math=False)
     ax.set_xlim(-0.6, n - 0.4 + (0.12 * n + 0.8 if ends else 0.0))
     ax.set_ylim(axis.lo, axis.hi)
-    ax.yaxis.set_major_formatter(_value_formatter(plan))
+    ax.yaxis.set_major_formatter(common.value_formatter(plan))
     ax.grid(axis="y")
     ax.set_axisbelow(True)
     ax.set_ylabel(axis.label, parse_math=False)
@@ -224,4 +187,15 @@ def _direct_labels(ax: Axes, ends: list[tuple[str, int, float, str]], lo: float,
         )
 
 
-DRAWERS: dict[str, Drawer] = {"bars": draw_bars, "dots": draw_dots, "lines": draw_lines}
+def _alone(draw: Callable[[Axes, ChartPlan], None]) -> Drawer:
+    """A drawer for a form that fills one axes."""
+
+    def in_figure(figure: Figure, plan: ChartPlan) -> None:
+        draw(figure.add_subplot(), plan)
+
+    return in_figure
+
+
+drawer("bars")(_alone(draw_bars))
+drawer("dots")(_alone(draw_dots))
+drawer("lines")(_alone(draw_lines))

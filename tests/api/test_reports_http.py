@@ -34,7 +34,7 @@ def test_post_demo_stores_a_draft_that_can_be_fetched(
     body = response.json()
     assert body["status"] == "draft"
     assert body["blocked"] is False
-    assert body["summary"] == {"passed": 8, "corrected": 1, "waived": 0, "failed": 0}
+    assert body["summary"] == {"passed": 16, "corrected": 1, "waived": 0, "failed": 0, "advice": 0}
     assert response.headers["location"] == f"/v1/reports/{body['id']}"
     corrected = [c for c in body["checks"] if c["status"] == "corrected"]
     assert [(c["check"], c["chart"]) for c in corrected] == [

@@ -20,6 +20,7 @@ from pypdf import PdfReader
 
 ROOT = Path(__file__).parents[2]
 DEMO = ROOT / "sample_requests" / "bus-cooperative-monthly.json"
+CHARTS = ("boardings-trend", "on-time-by-route", "rating-by-route", "journeys-trend")
 
 
 def plumbline(
@@ -41,7 +42,7 @@ def demo_pdf(tmp_path_factory: pytest.TempPathFactory) -> Path:
     out = tmp_path_factory.mktemp("demo") / "demo.pdf"
     run = plumbline("render", DEMO, "-o", out)
     assert run.returncode == 0, run.stderr
-    assert "9 checks: 8 passed, 1 corrected, 0 waived, 0 failed" in run.stdout
+    assert "17 checks: 16 passed, 1 corrected, 0 waived, 0 failed" in run.stdout
     return out
 
 
@@ -106,6 +107,8 @@ def test_appendix_lists_every_check_of_every_chart(demo_pdf: Path) -> None:
         ("journeys-trend", "missing-periods"): "passed",
         ("journeys-trend", "partial-period"): "passed",
         ("journeys-trend", "nonzero-scale-noted"): "passed",
+        **{(chart, "source-line"): "passed" for chart in CHARTS},
+        **{(chart, "text-alternative"): "passed" for chart in CHARTS},
     }
     text = "\n".join(page_texts(demo_pdf))
     assert "Tufte, The Visual Display of Quantitative Information (1983), p. 57" in text
@@ -172,7 +175,13 @@ def test_check_command_json_and_exit_codes(tmp_path: Path) -> None:
     run = plumbline("check", DEMO, "--json")
     assert run.returncode == 0
     report = json.loads(run.stdout)
-    assert report["summary"] == {"passed": 8, "corrected": 1, "waived": 0, "failed": 0}
+    assert report["summary"] == {
+        "passed": 16,
+        "corrected": 1,
+        "waived": 0,
+        "failed": 0,
+        "advice": 0,
+    }
     source = tmp_path / "waived.json"
     source.write_text(json.dumps(_with_waiver()))
     assert plumbline("check", source).returncode == 1

@@ -93,7 +93,11 @@ def test_focus_on_differences_draws_noted_dots() -> None:
     assert plan.form == "dots"
     assert not plan.value_axis.includes_zero
     assert plan.notes == [scale_note_text(plan.value_axis, "en-GB")]
-    assert [r.check for r in checked.results] == ["nonzero-scale-noted"]
+    assert [r.check for r in checked.results] == [
+        "nonzero-scale-noted",
+        "source-line",
+        "text-alternative",
+    ]
     found = result_of(checked, "nonzero-scale-noted")
     assert found.status is Status.passed
     assert found.measured == plan.value_axis.lo

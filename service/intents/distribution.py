@@ -1,0 +1,1 @@
+"""Intent `distribution` (being built)."""

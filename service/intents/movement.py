@@ -1,0 +1,1 @@
+"""Intent `movement` (being built)."""

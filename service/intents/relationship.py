@@ -1,0 +1,1 @@
+"""Intent `relationship` (being built)."""

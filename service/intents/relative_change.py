@@ -1,0 +1,1 @@
+"""Intent `relative_change` (being built)."""

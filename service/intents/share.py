@@ -1,0 +1,1 @@
+"""Intent `share` (being built)."""

@@ -1,0 +1,1 @@
+"""Intent `target` (being built)."""
