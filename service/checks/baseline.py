@@ -43,6 +43,7 @@ SPEC = register(
         source="Tufte (1983), p. 57; Correll, Bertini & Franconeri, 'Truncating the Y-Axis: Threat or "
         "Menace?', CHI 2020",
         waivable=True,
+        never_waivable_for=frozenset({"share"}),
         correction="Bars were drawn from zero instead.",
         measure=_measure,
         correct=_correct,

@@ -41,7 +41,11 @@ def worst(values: list[float], shown: list[float]) -> float | None:
 
 
 def drawn_lengths(plan: ChartPlan) -> tuple[list[float], list[float]]:
+    """The values the marks stand for, and the lengths drawn for them."""
     base = plan.bar_base or 0.0
+    if plan.form == "histogram":
+        counts = [float(b.count) for b in plan.bins]
+        return counts, [c - base for c in counts]
     values = [c.value for c in plan.categories if c.value is not None]
     return values, [v - base for v in values]
 
@@ -81,6 +85,7 @@ SPEC = register(
         threshold="0.95 to 1.05",
         source="Tufte, The Visual Display of Quantitative Information (1983), p. 57",
         waivable=True,
+        never_waivable_for=frozenset({"share"}),
         correction=None,
         measure=_measure,
     )

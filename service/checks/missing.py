@@ -7,27 +7,32 @@ for each such period, no line segment spanning it, and a "no data" mark on it.
 
 from __future__ import annotations
 
-import pandas as pd
-
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
-from service.definition.model import TrendChart
+from service.definition.model import AnyChart, MovementChart, RelativeChangeChart, TrendChart
 from service.intents import trend
-from service.intents.plan import ChartPlan, Gap
+from service.intents.plan import ChartPlan, Gap, Series, all_series
 
 #: Period labels listed in an explanation before it says "and N more".
 _LISTED = 6
 
 
+def measures_of(chart: AnyChart) -> list[str]:
+    """The measures a time chart draws, one series each."""
+    if isinstance(chart, MovementChart):
+        return [chart.measure]
+    assert isinstance(chart, TrendChart | RelativeChangeChart)
+    return list(chart.measures)
+
+
 def expected_gaps(ctx: Context) -> tuple[list[str], dict[int, list[str]]]:
     """The full period labels and, per period index, the measures with no value there."""
-    chart, table = ctx.chart, ctx.table
-    assert isinstance(chart, TrendChart)
+    table = ctx.table
     assert table.periods is not None and table.frequency is not None
     full = periods.expected(table.periods.min(), table.periods.max())
     frame = table.frame.set_index(table.periods).reindex(full)
     gaps: dict[int, list[str]] = {}
-    for measure in chart.measures:
+    for measure in measures_of(ctx.chart):
         for i in map(int, frame.index.get_indexer(frame.index[frame[measure].isna()])):
             gaps.setdefault(i, []).append(measure)
     labels = [periods.label(p, table.frequency, ctx.locale) for p in full]
@@ -39,13 +44,13 @@ def _violations(plan: ChartPlan, labels: list[str], gaps: dict[int, list[str]]) 
         return ["the time axis does not hold every expected period"]
     found: list[str] = []
     marked = {g.index: set(g.series) for g in plan.gaps}
-    for series in plan.series:
+    for series in all_series(plan):
         for i, names in gaps.items():
             if series.name not in names:
                 continue
-            if series.values[i] is not None:
+            if series.at(i) is not None:
                 found.append(f"{series.name} has a value drawn at {labels[i]}")
-            if any(a <= i <= b for a, b in series.segments):
+            if series.spans(i):
                 found.append(f"{series.name} is joined across {labels[i]}")
             if series.name not in marked.get(i, set()):
                 found.append(f"{labels[i]} is not marked 'no data' for {series.name}")
@@ -80,19 +85,21 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
+    """Remove whatever is drawn at a missing period and break the lines there."""
     labels, gaps = expected_gaps(ctx)
-    chart, table = ctx.chart, ctx.table
-    assert isinstance(chart, TrendChart) and table.periods is not None
-    full = periods.expected(table.periods.min(), table.periods.max())
-    frame = table.frame.set_index(table.periods).reindex(full)
-    series = []
-    for old, measure in zip(plan.series, chart.measures, strict=True):
-        values = [None if pd.isna(v) else float(v) for v in frame[measure]]
-        series.append(old.model_copy(update={"values": values, "segments": trend.runs(values)}))
+
+    def mended(series: Series) -> Series:
+        missing = {i for i, names in gaps.items() if series.name in names}
+        xs = series.positions()
+        values = [None if x in missing else v for x, v in zip(xs, series.values, strict=True)]
+        return series.model_copy(update={"values": values, "segments": trend.runs(values)})
+
+    panels = [p.model_copy(update={"series": [mended(s) for s in p.series]}) for p in plan.panels]
     return plan.model_copy(
         update={
             "periods": labels,
-            "series": series,
+            "series": [mended(s) for s in plan.series],
+            "panels": panels,
             "gaps": [Gap(index=i, series=names) for i, names in gaps.items()],
         }
     )

@@ -8,6 +8,7 @@ the chart says that its scale does not start at zero.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Iterable
 
 import pandas as pd
@@ -60,18 +61,46 @@ def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> It
         )
 
 
+def intervals(
+    chart: CompareChart, frame: pd.DataFrame, values: list[float | None]
+) -> list[tuple[float | None, float | None]]:
+    """Each value's interval: the given bounds, or mean ± t·sd/√n at the stated level."""
+    spec = chart.interval
+    if spec is None:
+        return [(None, None)] * len(values)
+    if spec.lower is not None and spec.upper is not None:
+        return [
+            (None if pd.isna(lo) else float(lo), None if pd.isna(hi) else float(hi))
+            for lo, hi in zip(frame[spec.lower], frame[spec.upper], strict=True)
+        ]
+    assert spec.sd is not None and spec.n is not None
+    from scipy import stats  # loaded only for charts that carry spreads
+
+    out: list[tuple[float | None, float | None]] = []
+    for value, sd, n in zip(values, frame[spec.sd], frame[spec.n], strict=True):
+        if value is None or pd.isna(sd) or pd.isna(n) or n < 2:
+            out.append((None, None))
+            continue
+        half = float(stats.t.ppf((1 + spec.level) / 2, int(n) - 1)) * float(sd) / math.sqrt(n)
+        out.append((value - half, value + half))
+    return out
+
+
 def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
     locale = env.locale
-    frame = table.frame[[chart.category, chart.measure]]
+    frame = table.frame
     if chart.sort != "as_given":
         frame = frame.sort_values(
             chart.measure, ascending=chart.sort == "ascending", kind="stable", na_position="last"
         )
     values = [None if pd.isna(v) else float(v) for v in frame[chart.measure]]
+    bounds = intervals(chart, frame, values)
     categories = [
-        Category(label=str(c), value=v) for c, v in zip(frame[chart.category], values, strict=True)
+        Category(label=str(c), value=v, lo=lo, hi=hi)
+        for c, v, (lo, hi) in zip(frame[chart.category], values, bounds, strict=True)
     ]
     present = [v for v in values if v is not None]
+    present += [b for pair in bounds for b in pair if b is not None]
     unit = table.units.get(chart.measure, "")
     label = formatting.titled(chart.measure, unit)
     notes: list[str] = []

@@ -82,6 +82,20 @@ class Series(Frozen):
     muted: bool = False
     """Drawn in grey, behind the focus series."""
 
+    def positions(self) -> list[int]:
+        """The period index of each value."""
+        return self.xs if self.xs is not None else list(range(len(self.values)))
+
+    def at(self, period: int) -> float | None:
+        """The value drawn at period index ``period`` (None: nothing drawn there)."""
+        xs = self.positions()
+        return self.values[xs.index(period)] if period in xs else None
+
+    def spans(self, period: int) -> bool:
+        """Whether a drawn line segment reaches or crosses period index ``period``."""
+        xs = self.positions()
+        return any(xs[a] <= period <= xs[b] for a, b in self.segments)
+
 
 class Gap(Frozen):
     """A period drawn as 'no data'."""
@@ -173,6 +187,11 @@ def heading(chart: ChartBase, locale: str, source: str | None = None) -> dict[st
         "source": chart.source or source,
         "description": chart.description,
     }
+
+
+def all_series(plan: ChartPlan) -> list[Series]:
+    """Every series of a plan, whether drawn on one axes or in panels."""
+    return [*plan.series, *(s for panel in plan.panels for s in panel.series)]
 
 
 class ChartPlan(Frozen):

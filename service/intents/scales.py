@@ -40,3 +40,14 @@ def fit(values: Iterable[float], *, include_zero: bool, pad: float = 0.06) -> tu
 def _tidy(value: float) -> float:
     """Drop floating-point dust (3.8000000000000003 → 3.8) so labels and notes read cleanly."""
     return float(f"{value:.12g}")
+
+
+def fit_log(values: Iterable[float]) -> tuple[float, float]:
+    """A logarithmic range: from the power of ten at or below the least value to the one above
+    the greatest."""
+    positive = [v for v in values if math.isfinite(v) and v > 0]
+    if not positive:
+        return (1.0, 10.0)
+    lo = 10.0 ** math.floor(math.log10(min(positive)))
+    hi = 10.0 ** math.ceil(math.log10(max(positive)))
+    return (lo, hi if hi > lo else lo * 10)

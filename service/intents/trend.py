@@ -44,6 +44,14 @@ def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iter
         )
         return
     for i, measure in enumerate(chart.measures):
+        if chart.scale == "log" and (table.frame[measure] <= 0).any():
+            yield Problem(
+                "log_of_non_positive",
+                f"{path}.measures[{i}]",
+                f"'{measure}' has zero or negative values, which a logarithmic scale cannot show",
+                "use scale 'linear'",
+                measure,
+            )
         if table.frame[measure].isna().all():
             yield Problem(
                 "no_values",
@@ -52,6 +60,9 @@ def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iter
                 "give it values, or drop it from the chart",
                 measure,
             )
+
+
+LOG_NOTE = "Logarithmic scale: equal distances show equal ratios, not equal differences."
 
 
 def runs(values: list[float | None]) -> list[tuple[int, int]]:
@@ -89,9 +100,13 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     if done is not None:
         partial = PartialMark(index=len(full) - 1, text=done.text(), fraction=done.fraction)
     present = [v for s in series for v in s.values if v is not None]
-    lo, hi = scales.fit(present, include_zero=chart.from_zero)
+    log = chart.scale == "log"
+    lo, hi = scales.fit_log(present) if log else scales.fit(present, include_zero=chart.from_zero)
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
-    scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
+    scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log)
+    notes = [] if scale.includes_zero or log else [scale_note(scale, locale)]
+    if log:
+        notes.append(LOG_NOTE)
     return ChartPlan(
         **heading(chart, locale, table.source),
         form="lines",
@@ -100,8 +115,8 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
         series=series,
         gaps=gaps,
         partial=partial,
-        notes=[] if scale.includes_zero else [scale_note(scale, locale)],
+        notes=notes,
     )
 
 
-ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines"})))
+ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines", "panels"})))

@@ -31,12 +31,12 @@ def value_label(plan: ChartPlan, value: float | None) -> str:
     return formatting.with_unit(value, plan.value_axis.unit, plan.locale, digits=digits)
 
 
-def no_data(ax: Axes, x: float, y: float) -> None:
+def no_data(ax: Axes, x: float, y: float, text: str | None = None) -> None:
     """A category whose value is missing says so, where its mark would start."""
     ax.text(
         x,
         y,
-        "  no data",
+        f"  {text or 'no data'}",
         va="center",
         ha="left",
         color=style.MUTED,

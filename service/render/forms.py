@@ -2,13 +2,16 @@
 
 from __future__ import annotations
 
+import math
 from collections.abc import Callable
+from typing import Any
 
 from matplotlib.axes import Axes
 from matplotlib.figure import Figure
-from matplotlib.ticker import FixedLocator
+from matplotlib.ticker import FixedLocator, NullFormatter
 
-from service.intents.plan import ChartPlan
+from service import formatting
+from service.intents.plan import ChartPlan, Scale, Series
 from service.render import common, style
 from service.render.registry import Drawer, drawer
 
@@ -19,9 +22,19 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     axis = plan.value_axis
     span = axis.hi - axis.lo
     for y, category in zip(rows, plan.categories, strict=True):
+        if category.target is not None:
+            ax.plot(
+                [category.target] * 2,
+                [y - 0.42, y + 0.42],
+                color=style.INK,
+                linewidth=1.6,
+                solid_capstyle="butt",
+                zorder=4,
+            )
         if category.value is None:
-            common.no_data(ax, base, y)
+            common.no_data(ax, base, y, "expected, no data" if category.expected_missing else None)
             continue
+        _interval(ax, category.lo, category.hi, y)
         ax.barh(
             y,
             category.value - base,
@@ -33,10 +46,14 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
         inside = category.value - base
         ha = "left" if inside >= 0 else "right"
         pad = span * 0.008 * (1 if inside >= 0 else -1)
+        text = common.value_label(plan, category.value)
+        if category.percent is not None:
+            text = f"{category.percent} %  ({text})"
+        top = category.hi if category.hi is not None else category.value
         ax.text(
-            category.value + pad,
+            max(category.value, top) + pad if inside >= 0 else category.value + pad,
             y,
-            common.value_label(plan, category.value),
+            text,
             va="center",
             ha=ha,
             color=style.INK,
@@ -49,14 +66,26 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
         ax.axvline(0, color=style.MUTED, linewidth=0.8)
 
 
+def _interval(ax: Axes, lo: float | None, hi: float | None, y: float) -> None:
+    """A value's uncertainty interval, drawn as a thin line with end ticks."""
+    if lo is None or hi is None:
+        return
+    ax.plot([lo, hi], [y, y], color=style.INK, linewidth=0.9, zorder=5)
+    for end in (lo, hi):
+        ax.plot([end, end], [y - 0.14, y + 0.14], color=style.INK, linewidth=0.9, zorder=5)
+
+
 def draw_dots(ax: Axes, plan: ChartPlan) -> None:
     rows = list(range(len(plan.categories)))[::-1]
     axis = plan.value_axis
     for y, category in zip(rows, plan.categories, strict=True):
         ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0)
         if category.value is None:
-            common.no_data(ax, axis.lo, y)
+            common.no_data(
+                ax, axis.lo, y, "expected, no data" if category.expected_missing else None
+            )
             continue
+        _interval(ax, category.lo, category.hi, y)
         ax.plot(
             [category.value],
             [y],
@@ -80,49 +109,82 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
 
 
 def draw_lines(ax: Axes, plan: ChartPlan) -> None:
-    axis = plan.value_axis
-    n = len(plan.periods)
+    ends = draw_series(ax, plan, plan.series, plan.value_axis)
+    draw_gaps(ax, plan, plan.value_axis, len(plan.series))
+    time_axis(ax, plan, room=bool(ends))
+    value_axis(ax, plan, plan.value_axis)
+    label_partial(ax, plan, plan.series)
+    _direct_labels(ax, ends, plan.value_axis)
+
+
+Ends = list[tuple[str, int, float, str]]
+
+
+def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scale) -> Ends:
+    """Draw lines segment by segment (never across a gap, never into a partial period).
+
+    Returns where each line ends, for direct labels when there is more than one."""
     partial = plan.partial
-    ends: list[tuple[str, int, float, str]] = []
-    for number, series in enumerate(plan.series):
-        colour = common.colour(plan, number)
+    ends: Ends = []
+    for number, series in enumerate(series_list):
+        colour = style.MUTED if series.muted else common.colour(plan, number)
+        xs_all = series.xs or list(range(len(series.values)))
+        style_kw: dict[str, Any] = {"color": colour, "linewidth": 1.0 if series.muted else 1.6}
+        if series.estimate:
+            style_kw["linestyle"] = (0, (3, 2))
         for first, end in series.segments:
-            # the running period is never joined to the complete ones
-            last = end - 1 if partial is not None and end == partial.index else end
+            last = end - 1 if partial is not None and xs_all[end] == partial.index else end
             if last < first:
                 continue
-            xs = list(range(first, last + 1))
-            ys = [float(series.values[i] or 0.0) for i in xs]  # a segment holds no gaps
-            ax.plot(xs, ys, color=colour, marker="o" if first == last else "", markersize=3.5)
-        value = series.values[partial.index] if partial is not None else None
-        if partial is not None and value is not None:
-            ax.plot(
-                [partial.index],
-                [value],
-                marker="o",
-                markersize=6,
-                markerfacecolor="white",
-                markeredgecolor=colour,
-                markeredgewidth=1.4,
-                linestyle="none",
-                zorder=3,
-            )
+            xs = xs_all[first : last + 1]
+            ys = [float(v or 0.0) for v in series.values[first : last + 1]]  # no gaps inside
+            ax.plot(xs, ys, marker="o" if first == last else "", markersize=3.5, **style_kw)
+            if plan.value_labels:
+                for x, y in zip(xs, ys, strict=True):
+                    ax.annotate(
+                        formatting.number(y, plan.locale),
+                        xy=(x, y),
+                        xytext=(0, 4),
+                        textcoords="offset points",
+                        ha="center",
+                        fontsize=6.5,
+                        color=style.INK,
+                        parse_math=False,
+                    )
+        if partial is not None and partial.index in xs_all:
+            value = series.values[xs_all.index(partial.index)]
+            if value is not None:
+                ax.plot(
+                    [partial.index],
+                    [value],
+                    marker="o",
+                    markersize=6,
+                    markerfacecolor="white",
+                    markeredgecolor=colour,
+                    markeredgewidth=1.4,
+                    linestyle="none",
+                    zorder=3,
+                )
         complete = [
-            i
-            for i, v in enumerate(series.values)
-            if v is not None and (partial is None or i != partial.index)
+            (x, v)
+            for x, v in zip(xs_all, series.values, strict=True)
+            if v is not None and (partial is None or x != partial.index)
         ]
-        if complete and len(plan.series) > 1:
-            ends.append(
-                (series.name, complete[-1], float(series.values[complete[-1]] or 0.0), colour)
-            )
+        if complete and (len(series_list) > 1 or series.estimate):
+            name = f"{series.name} (estimate)" if series.estimate else series.name
+            ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
+    return ends
+
+
+def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None:
+    middle = (axis.lo * axis.hi) ** 0.5 if axis.log else (axis.lo + axis.hi) / 2
     for gap in plan.gaps:
         ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0, zorder=0)
-        everyone = len(gap.series) == len(plan.series)
+        everyone = len(gap.series) >= series_count
         text = "no data" if everyone else "no data: " + ", ".join(gap.series)
         ax.text(
             gap.index,
-            (axis.lo + axis.hi) / 2,
+            middle,
             text,
             rotation=90,
             va="center",
@@ -132,19 +194,41 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
             fontstyle="italic",
             parse_math=False,
         )
+
+
+def time_axis(ax: Axes, plan: ChartPlan, *, room: bool, labels: bool = True) -> None:
+    n = len(plan.periods)
     step = max(1, -(-n // 8))
     ticks = list(range(0, n, step))
     ax.xaxis.set_major_locator(FixedLocator(ticks))
-    ax.set_xticklabels([plan.periods[i] for i in ticks], parse_math=False)
-    ax.set_xlim(-0.6, n - 0.4 + (0.12 * n + 0.8 if ends else 0.0))
+    if labels:
+        ax.set_xticklabels([plan.periods[i] for i in ticks], parse_math=False)
+    else:
+        ax.set_xticklabels([])
+    ax.set_xlim(-0.6, n - 0.4 + (0.12 * n + 0.8 if room else 0.0))
+
+
+def value_axis(ax: Axes, plan: ChartPlan, axis: Scale) -> None:
+    if axis.log:
+        ax.set_yscale("log")
     ax.set_ylim(axis.lo, axis.hi)
     ax.yaxis.set_major_formatter(common.value_formatter(plan))
+    ax.yaxis.set_minor_formatter(NullFormatter())
     ax.grid(axis="y")
     ax.set_axisbelow(True)
     ax.set_ylabel(axis.label, parse_math=False)
-    partial_values = [s.values[partial.index] for s in plan.series] if partial else []
-    present = [v for v in partial_values if v is not None]
-    if partial is not None and present:
+
+
+def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
+    partial = plan.partial
+    if partial is None:
+        return
+    present = []
+    for series in series_list:
+        xs = series.xs or list(range(len(series.values)))
+        if partial.index in xs and series.values[xs.index(partial.index)] is not None:
+            present.append(float(series.values[xs.index(partial.index)] or 0.0))
+    if present:
         ax.annotate(
             f"{plan.periods[partial.index]} so far:\n{partial.text}",
             xy=(partial.index, min(present)),
@@ -157,19 +241,20 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
             fontstyle="italic",
             parse_math=False,
         )
-    _direct_labels(ax, ends, axis.lo, axis.hi)
 
 
-def _direct_labels(ax: Axes, ends: list[tuple[str, int, float, str]], lo: float, hi: float) -> None:
+def _direct_labels(ax: Axes, ends: Ends, axis: Scale) -> None:
     """Name each line at its last complete point, nudged apart so no two labels overlap."""
     if not ends:
         return
+    lo, hi = (math.log10(axis.lo), math.log10(axis.hi)) if axis.log else (axis.lo, axis.hi)
     height_pt = ax.get_figure().get_size_inches()[1] * 72 * 0.7  # type: ignore[union-attr]
     per_unit = height_pt / (hi - lo)
     order = sorted(range(len(ends)), key=lambda k: ends[k][2])
     placed: list[float] = []
     for k in order:
-        want = (ends[k][2] - lo) * per_unit
+        value = math.log10(ends[k][2]) if axis.log else ends[k][2]
+        want = (value - lo) * per_unit
         y = max(want, placed[-1] + 9.0) if placed else want
         placed.append(y)
         name, x, value, colour = ends[k]

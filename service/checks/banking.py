@@ -1,0 +1,1 @@
+"""Checks: banking (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: colour (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: cycle (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: distribution (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: estimates (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: layout (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: movement (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: points (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: precision (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: series (being built)."""

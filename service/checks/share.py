@@ -1,0 +1,1 @@
+"""Checks: share (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: time_axis (being built)."""

@@ -1,0 +1,1 @@
+"""Checks: uncertainty (being built)."""

@@ -1,0 +1,1 @@
+"""Drawers: control (being built)."""

@@ -1,0 +1,1 @@
+"""Drawers: deviation (being built)."""

@@ -1,0 +1,1 @@
+"""Drawers: distribution (being built)."""

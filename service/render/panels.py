@@ -1,0 +1,1 @@
+"""Drawers: panels (being built)."""

@@ -1,0 +1,1 @@
+"""Drawers: pie (being built)."""

@@ -1,0 +1,1 @@
+"""Drawers: scatter (being built)."""
