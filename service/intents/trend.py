@@ -119,4 +119,4 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     )
 
 
-ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines", "panels"})))
+ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines"})))
