@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test lint unit serve schema clean
+.PHONY: demo test lint unit serve schema docs clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -37,6 +37,10 @@ serve: $(VENV)/.installed
 
 schema: $(VENV)/.installed
 	$(BIN)/plumbline schema
+
+docs: $(VENV)/.installed
+	@mkdir -p docs
+	$(BIN)/plumbline checks --markdown > docs/checks.md
 
 clean:
 	rm -rf $(VENV) out .pytest_cache .mypy_cache .ruff_cache

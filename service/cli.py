@@ -47,6 +47,7 @@ def _parser() -> argparse.ArgumentParser:
 
     p = sub.add_parser("checks", help="list every integrity check with its rule and source")
     p.add_argument("--json", action="store_true", help="machine-readable output")
+    p.add_argument("--markdown", action="store_true", help="the catalogue as Markdown")
     p.set_defaults(run=_checks)
 
     p = sub.add_parser("check", help="validate a definition and run its checks without rendering")
@@ -96,6 +97,9 @@ def _checks(args: argparse.Namespace, settings: Settings) -> int:
     from service.checks import registry
 
     catalogue = registry.catalogue()
+    if args.markdown:
+        print(registry.markdown(), end="")
+        return EXIT_OK
     if args.json:
         print(json.dumps(catalogue, indent=2))
         return EXIT_OK

@@ -106,6 +106,8 @@ def check(taken: Intake) -> Checked:
     for path, chart in definition.charts():
         table = taken.tables[chart.dataset]
         plan = intents.ENCODERS[chart.intent].encode(chart, table, env)
+        if env.palette and not plan.palette:
+            plan = plan.model_copy(update={"palette": list(env.palette)})
         ctx = registry.Context(
             chart=chart, table=table, as_of=as_of, locale=locale, owner=definition.report.owner
         )
@@ -138,15 +140,17 @@ class Built:
     unused_waivers: list[str]
 
 
-def render(checked: Checked, *, status_line: str = "DRAFT — not signed off") -> bytes:
+def render(
+    checked: Checked, *, status_line: str = "DRAFT — not signed off"
+) -> tuple[bytes, Checked]:
+    """The pack's PDF, and the report with the checks measured while drawing (label layout)."""
     from service.assemble import compose  # the drawing stack loads only when drawing
 
-    return compose.compose(checked, status_line=status_line)
+    return compose.compose_checked(checked, status_line=status_line)
 
 
 def build(raw: bytes, limits: Limits) -> Built:
-    checked = check(intake(raw, limits))
-    pdf = render(checked)
+    pdf, checked = render(check(intake(raw, limits)))
     definition = checked.definition
     return Built(
         pdf=pdf,

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import io
 import math
+from dataclasses import replace
 from collections.abc import Mapping
 
 import pandas as pd
@@ -12,7 +13,7 @@ import pikepdf
 from service import formatting
 from service.assemble import pack, place
 from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock, TableBlock
-from service.checks import registry
+from service.checks import layout, registry
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import CheckResult, summary, summary_line
 from service.data import periods
@@ -23,13 +24,24 @@ from service.render import charts as chart_render
 
 
 def compose(checked: Checked, *, status_line: str) -> bytes:
-    pages = chart_render.draw_pages([c.plan for c in checked.charts])
+    return compose_checked(checked, status_line=status_line)[0]
+
+
+def compose_checked(checked: Checked, *, status_line: str) -> tuple[bytes, Checked]:
+    """The pack, and the report with the checks measured while drawing added to it."""
+    pages, reports = chart_render.draw_pages([c.plan for c in checked.charts])
+    waivers = checked.definition.waivers
+    charts = [
+        replace(c, results=[*c.results, layout.result(c.plan, report, waivers)])
+        for c, report in zip(checked.charts, reports, strict=True)
+    ]
+    checked = replace(checked, charts=charts)
     with pikepdf.open(io.BytesIO(pages)) as drawn:
         sizes = {c.plan.chart_id: _size(drawn.pages[i]) for i, c in enumerate(checked.charts)}
     content = content_for(checked, sizes, status_line=status_line)
     document, slots = pack.build(content)
     order = {c.plan.chart_id: i for i, c in enumerate(checked.charts)}
-    return place.place(document, slots, pages, order)
+    return place.place(document, slots, pages, order), checked
 
 
 def _size(page: pikepdf.Page) -> tuple[float, float]:

@@ -56,7 +56,7 @@ class CheckSpec:
     correction: str | None
     measure: Measure
     correct: Correct | None = None
-    phase: Literal["plan", "final"] = "plan"
+    phase: Literal["plan", "final", "drawn"] = "plan"
     """``final`` checks run after the plan is finished (its text alternative written)."""
     level: Literal["rule", "advice"] = "rule"
     """An ``advice`` check never fails or blocks: a breach is reported with status ``advice``."""
@@ -91,6 +91,17 @@ class CheckSpec:
 
 
 CHECKS: dict[str, CheckSpec] = {}
+_ORDER: list[str] = []
+
+
+def set_order(modules: list[str]) -> None:
+    """The order the engine runs checks in, by the module that defines them."""
+    _ORDER[:] = modules
+
+
+def _rank(spec: CheckSpec) -> int:
+    module = spec.measure.__module__
+    return _ORDER.index(module) if module in _ORDER else len(_ORDER)
 
 
 def register(spec: CheckSpec) -> CheckSpec:
@@ -99,6 +110,9 @@ def register(spec: CheckSpec) -> CheckSpec:
     if spec.correct is None and spec.correction is not None:
         raise ValueError(f"check {spec.id!r} describes a correction it cannot make")
     CHECKS[spec.id] = spec
+    ordered = sorted(CHECKS.values(), key=_rank)  # stable: registration order within a module
+    CHECKS.clear()
+    CHECKS.update((s.id, s) for s in ordered)
     return spec
 
 
@@ -163,3 +177,40 @@ def waiver_problems(definition: ReportDefinition) -> Iterable[Problem]:
                 list(key),
             )
         seen.add(key)
+
+
+def markdown() -> str:
+    """The catalogue as a Markdown document (``docs/checks.md`` is generated from this)."""
+    lines = [
+        "# Integrity checks",
+        "",
+        "Generated from the check registry by `plumbline checks --markdown`; do not edit by hand.",
+        "Every chart is measured by each check that applies to its intent and form. Statuses:",
+        "`passed`; `corrected` (Plumbline changed the chart to meet the rule, recording before and",
+        "after); `waived` (a breach accepted with a reason, by a named person); `failed` (blocks",
+        "the pack); `advice` (worth a reader's attention, never blocks).",
+        "",
+        "| id | rule | applies to | measures | threshold | corrects | waivable | source |",
+        "|---|---|---|---|---|---|---|---|",
+    ]
+    for spec in CHECKS.values():
+        waivable = "no"
+        if spec.waivable:
+            waivable = "yes"
+            if spec.never_waivable_for:
+                waivable += f" (not for {', '.join(sorted(spec.never_waivable_for))})"
+        if spec.level == "advice":
+            waivable = "advice only"
+        applies = ", ".join(sorted(spec.intents)) + " — " + ", ".join(sorted(spec.forms))
+        cells = [
+            f"`{spec.id}`",
+            spec.title,
+            applies,
+            spec.measures,
+            spec.threshold,
+            "yes" if spec.correctable else "no",
+            waivable,
+            spec.source,
+        ]
+        lines.append("| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |")
+    return "\n".join(lines) + "\n"

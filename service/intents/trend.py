@@ -62,6 +62,33 @@ def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iter
             )
 
 
+def estimates_note(names: list[str]) -> str:
+    return "Estimates, not actuals (dashed or hollow): " + ", ".join(names) + "."
+
+
+def project(series: list[Series], partial: PartialMark, chart: TrendChart) -> list[Series]:
+    """Run-rate estimates of the partial period: its value so far divided by the share elapsed.
+
+    Each is a separate series (so it is never joined to the actuals), marked as an estimate."""
+    out = []
+    for s in series:
+        value = s.values[partial.index]
+        if value is None or partial.fraction <= 0 or s.estimate:
+            continue
+        values: list[float | None] = [None] * len(s.values)
+        values[partial.index] = value / partial.fraction
+        out.append(
+            Series(
+                name=f"{s.name} (estimate)",
+                unit=s.unit,
+                values=values,
+                segments=[(partial.index, partial.index)],
+                estimate=True,
+            )
+        )
+    return out
+
+
 LOG_NOTE = "Logarithmic scale: equal distances show equal ratios, not equal differences."
 
 
@@ -89,7 +116,15 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     series: list[Series] = []
     for measure in chart.measures:
         values = [None if pd.isna(v) else float(v) for v in frame[measure]]
-        series.append(Series(name=measure, unit=unit, values=values, segments=runs(values)))
+        series.append(
+            Series(
+                name=measure,
+                unit=unit,
+                values=values,
+                segments=runs(values),
+                estimate=measure in table.estimates,
+            )
+        )
     gaps = [
         Gap(index=i, series=[s.name for s in series if s.values[i] is None])
         for i in range(len(full))
@@ -99,12 +134,21 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     done = periods.completeness(full[-1], as_of)
     if done is not None:
         partial = PartialMark(index=len(full) - 1, text=done.text(), fraction=done.fraction)
+    notes: list[str] = []
+    if chart.projection is not None and partial is not None:
+        series.extend(project(series, partial, chart))
+    elif chart.projection is not None:
+        notes.append("No projection: the last period was complete at as_of.")
+    estimated = sorted(s.name for s in series if s.estimate)
+    if estimated:
+        notes.append(estimates_note(estimated))
     present = [v for s in series for v in s.values if v is not None]
     log = chart.scale == "log"
     lo, hi = scales.fit_log(present) if log else scales.fit(present, include_zero=chart.from_zero)
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log)
-    notes = [] if scale.includes_zero or log else [scale_note(scale, locale)]
+    if not (scale.includes_zero or log):
+        notes.append(scale_note(scale, locale))
     if log:
         notes.append(LOG_NOTE)
     return ChartPlan(

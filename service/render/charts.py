@@ -3,21 +3,30 @@
 from __future__ import annotations
 
 import io
+import textwrap
+import warnings
+from importlib import import_module
 
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 
 from service.errors import RenderFailed
 from service.intents.plan import ChartPlan
-from service.render import (  # noqa: F401  (each registers its drawers)
-    forms,
-    style,
-)
+from service.render import layout, style
 from service.render.registry import DRAWERS
+
+#: Modules that register drawers (see ``render.registry``), loaded by name so no tool drops them.
+DRAWER_MODULES = ("forms", "pie", "control", "panels", "deviation", "distribution", "scatter")
+for _name in DRAWER_MODULES:
+    import_module(f"service.render.{_name}")
+
+
+#: Characters of a note line at the chart's width (7.5 pt italic DejaVu Sans on 170 mm).
+NOTE_WIDTH = 115
 
 
 def size_in(plan: ChartPlan) -> tuple[float, float]:
-    lines = len(plan.notes) + len(plan.flags)
+    lines = sum(len(textwrap.wrap(n, NOTE_WIDTH)) for n in plan.notes) + len(plan.flags)
     extra = 0.18 * lines
     if plan.form in {"bars", "dots"}:
         rows = max(len(plan.categories), 2)
@@ -34,7 +43,7 @@ def figure_for(plan: ChartPlan) -> Figure:
         ax = figure.axes[0]
         if plan.notes:
             ax.set_title(
-                "\n".join(plan.notes),
+                "\n".join(textwrap.fill(note, NOTE_WIDTH) for note in plan.notes),
                 loc="left",
                 color=style.INK,
                 fontsize=7.5,
@@ -58,7 +67,7 @@ def figure_for(plan: ChartPlan) -> Figure:
     return figure
 
 
-def draw_pages(plans: list[ChartPlan]) -> bytes:
+def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[layout.LayoutReport]]:
     """Every chart of a pack as one page each of a single vector PDF, in order.
 
     One file shares one font subset across all charts: measured on the demo, fontTools subsetting
@@ -66,13 +75,18 @@ def draw_pages(plans: list[ChartPlan]) -> bytes:
     """
     buffer = io.BytesIO()
     metadata = {"CreationDate": None, "Creator": "Plumbline"}
+    reports = []
     try:
         with PdfPages(buffer, metadata=metadata) as pages:
             for plan in plans:
-                pages.savefig(figure_for(plan))
+                figure = figure_for(plan)
+                reports.append(layout.mend(figure))
+                with warnings.catch_warnings():  # a collapsed layout is in the report already
+                    warnings.filterwarnings("ignore", "constrained_layout not applied")
+                    pages.savefig(figure)
     except (ValueError, RuntimeError, OverflowError) as exc:
         raise RenderFailed(f"the charts could not be drawn: {exc}") from exc
-    return buffer.getvalue()
+    return buffer.getvalue(), reports
 
 
 def draw(plan: ChartPlan) -> bytes:

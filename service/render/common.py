@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from typing import Any
 
 from matplotlib.axes import Axes
@@ -10,6 +11,9 @@ from matplotlib.ticker import FixedLocator, FuncFormatter
 from service import formatting
 from service.intents.plan import ChartPlan
 from service.render import style
+
+#: Characters of a category label before it wraps onto a second line.
+LABEL_WIDTH = 36
 
 
 def colour(plan: ChartPlan, index: int) -> str:
@@ -48,7 +52,9 @@ def no_data(ax: Axes, x: float, y: float, text: str | None = None) -> None:
 
 def category_axis(ax: Axes, plan: ChartPlan, rows: list[int]) -> None:
     ax.yaxis.set_major_locator(FixedLocator(rows))
-    ax.set_yticklabels([c.label for c in plan.categories], parse_math=False)
+    ax.set_yticklabels(
+        [textwrap.fill(c.label, LABEL_WIDTH) for c in plan.categories], parse_math=False
+    )
     ax.tick_params(axis="y", length=0)
     ax.set_ylim(-0.6, len(rows) - 0.4)
     ax.spines["left"].set_visible(False)

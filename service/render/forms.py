@@ -126,19 +126,36 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
     Returns where each line ends, for direct labels when there is more than one."""
     partial = plan.partial
     ends: Ends = []
+    names = [s.name for s in series_list]
     for number, series in enumerate(series_list):
-        colour = style.MUTED if series.muted else common.colour(plan, number)
+        base = series.name.removesuffix(" (estimate)")
+        index = names.index(base) if series.estimate and base in names else number
+        colour = style.MUTED if series.muted else common.colour(plan, index)
         xs_all = series.xs or list(range(len(series.values)))
         style_kw: dict[str, Any] = {"color": colour, "linewidth": 1.0 if series.muted else 1.6}
         if series.estimate:
             style_kw["linestyle"] = (0, (3, 2))
         for first, end in series.segments:
-            last = end - 1 if partial is not None and xs_all[end] == partial.index else end
+            running = partial is not None and xs_all[end] == partial.index and not series.estimate
+            last = end - 1 if running else end
             if last < first:
                 continue
             xs = xs_all[first : last + 1]
             ys = [float(v or 0.0) for v in series.values[first : last + 1]]  # no gaps inside
-            ax.plot(xs, ys, marker="o" if first == last else "", markersize=3.5, **style_kw)
+            if first == last and series.estimate:  # a lone estimate: a hollow diamond
+                ax.plot(
+                    xs,
+                    ys,
+                    marker="D",
+                    markersize=5,
+                    markerfacecolor="white",
+                    markeredgewidth=1.2,
+                    linestyle="none",
+                    color=colour,
+                )
+            else:
+                marker = "o" if first == last else ""
+                ax.plot(xs, ys, marker=marker, markersize=3.5, **style_kw)
             if plan.value_labels:
                 for x, y in zip(xs, ys, strict=True):
                     ax.annotate(
@@ -151,7 +168,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
                         color=style.INK,
                         parse_math=False,
                     )
-        if partial is not None and partial.index in xs_all:
+        if partial is not None and partial.index in xs_all and not series.estimate:
             value = series.values[xs_all.index(partial.index)]
             if value is not None:
                 ax.plot(
@@ -168,10 +185,11 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         complete = [
             (x, v)
             for x, v in zip(xs_all, series.values, strict=True)
-            if v is not None and (partial is None or x != partial.index)
+            if v is not None and (partial is None or x != partial.index or series.estimate)
         ]
         if complete and (len(series_list) > 1 or series.estimate):
-            name = f"{series.name} (estimate)" if series.estimate else series.name
+            tagged = series.estimate and "estimate" not in series.name
+            name = f"{series.name} (estimate)" if tagged else series.name
             ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
     return ends
 

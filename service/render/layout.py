@@ -1,0 +1,136 @@
+"""Measure a drawn chart's text after layout: overlapping tick labels, text cut off at the edge.
+
+Runs on the real figure (text extents need a renderer), and mends what it can by thinning the
+time axis's tick labels or shrinking category labels; what it found and did is reported, and the
+check ``label-layout`` turns the report into a result.
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass, field
+
+from matplotlib.axes import Axes
+from matplotlib.axis import XAxis, YAxis
+from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.figure import Figure
+from matplotlib.text import Text
+from matplotlib.transforms import Bbox
+
+#: Text may reach this close to the figure's edge (pixels at the figure's dpi) before it is cut.
+EDGE_TOLERANCE_PX = 1.0
+
+
+@dataclass
+class LayoutReport:
+    overlaps_before: int = 0
+    clipped_before: int = 0
+    overlaps: int = 0
+    clipped: int = 0
+    actions: list[str] = field(default_factory=list)
+
+    @property
+    def clean(self) -> bool:
+        return self.overlaps == 0 and self.clipped == 0
+
+
+def _visible(texts: list[Text]) -> list[Text]:
+    return [t for t in texts if t.get_visible() and t.get_text().strip()]
+
+
+def _drawn_ticklabels(axis: XAxis | YAxis) -> list[Text]:
+    """Tick labels matplotlib actually draws: those of ticks inside the view limits."""
+    lo, hi = sorted(axis.get_view_interval())
+    span = (hi - lo) or 1.0
+    return _visible(
+        [
+            tick.label1
+            for tick in axis.get_major_ticks()
+            if lo - span * 1e-9 <= tick.get_loc() <= hi + span * 1e-9
+        ]
+    )
+
+
+def _overlapping(boxes: list[Bbox]) -> int:
+    """Pairs of boxes that share more than one square pixel."""
+    return sum(
+        1
+        for i, a in enumerate(boxes)
+        for b in boxes[i + 1 :]
+        if _area(Bbox.intersection(a, b)) > 1.0
+    )
+
+
+def _area(box: Bbox | None) -> float:
+    return 0.0 if box is None else max(0.0, box.width) * max(0.0, box.height)
+
+
+def measure(figure: Figure) -> tuple[int, int]:
+    """(overlapping tick-label pairs, text artists cut off at the figure's edge)."""
+    canvas = FigureCanvasAgg(figure)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        figure.draw_without_rendering()
+    collapsed = any("constrained_layout not applied" in str(w.message) for w in caught)
+    renderer = canvas.get_renderer()  # type: ignore[no-untyped-call]
+    edge = figure.bbox.padded(EDGE_TOLERANCE_PX)
+    overlaps, clipped = 0, int(collapsed)  # a collapsed layout leaves no room for the plot
+    ticks: list[Text] = []
+    for ax in figure.axes:
+        for axis in (ax.xaxis, ax.yaxis):
+            labels = _drawn_ticklabels(axis)
+            ticks.extend(labels)
+            overlaps += _overlapping([t.get_window_extent(renderer) for t in labels])
+    every_tick = {
+        id(t) for ax in figure.axes for t in [*ax.get_xticklabels(), *ax.get_yticklabels()]
+    }
+    others = [t for t in figure.findobj(Text) if isinstance(t, Text) and id(t) not in every_tick]
+    texts = _visible(others) + ticks
+    for text in texts:
+        box = text.get_window_extent(renderer)
+        if box.width > 0 and not (edge.contains(box.x0, box.y0) and edge.contains(box.x1, box.y1)):
+            clipped += 1
+    return overlaps, clipped
+
+
+def _thin(ax: Axes) -> bool:
+    """Show every other x tick label; False when there is nothing left to thin."""
+    labels = _drawn_ticklabels(ax.xaxis)
+    if len(labels) < 3:
+        return False
+    for i, label in enumerate(labels):
+        label.set_visible(i % 2 == 0)
+    return True
+
+
+def _shrink(ax: Axes) -> bool:
+    changed = False
+    for label in ax.get_yticklabels():
+        size = label.get_fontsize()
+        if isinstance(size, int | float) and size > 6:
+            label.set_fontsize(size - 1)
+            changed = True
+    return changed
+
+
+def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
+    """Measure, and try to mend overlaps and cut-off text; report before and after."""
+    report = LayoutReport()
+    report.overlaps_before, report.clipped_before = report.overlaps, report.clipped = measure(
+        figure
+    )
+    for _ in range(attempts):
+        if report.clean:
+            break
+        acted = False
+        for ax in figure.axes:
+            if _thin(ax):
+                report.actions.append("showed every other label on the horizontal axis")
+                acted = True
+            elif _shrink(ax):
+                report.actions.append("shrank the category labels")
+                acted = True
+        if not acted:
+            break
+        report.overlaps, report.clipped = measure(figure)
+    return report
