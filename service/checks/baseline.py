@@ -25,6 +25,8 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     values = [c.value for c in plan.categories if c.value is not None]
+    values += [float(b.count) for b in plan.bins]
+    values += [c.target for c in plan.categories if c.target is not None]
     lo, hi = scales.fit(values, include_zero=True)
     axis = plan.value_axis.model_copy(update={"lo": lo, "hi": hi})
     note = truncation_note(plan.bar_base or 0.0, axis.unit, plan.locale)
@@ -36,8 +38,8 @@ SPEC = register(
     CheckSpec(
         id="bar-zero-baseline",
         title="Bars start at zero",
-        intents=frozenset({"compare"}),
-        forms=frozenset({"bars"}),
+        intents=frozenset({"compare", "share", "target", "distribution"}),
+        forms=frozenset({"bars", "deviation", "histogram"}),
         measures="where the bars start on the value axis",
         threshold="0",
         source="Tufte (1983), p. 57; Correll, Bertini & Franconeri, 'Truncating the Y-Axis: Threat or "

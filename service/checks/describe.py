@@ -73,11 +73,40 @@ def _series(plan: ChartPlan) -> list[str]:
     return words
 
 
+def _shape(plan: ChartPlan) -> str:
+    """What histograms, box plots and scatter plots hold, which categories and series do not say."""
+    if plan.bins:
+        total = sum(b.count for b in plan.bins)
+        top = max(plan.bins, key=lambda b: b.count)
+        unit = plan.x_axis.unit if plan.x_axis else ""
+        lo = formatting.with_unit(plan.bins[0].lo, unit, plan.locale)
+        hi = formatting.with_unit(plan.bins[-1].hi, unit, plan.locale)
+        most = (
+            f"{formatting.number(top.lo, plan.locale)} to "
+            f"{formatting.with_unit(top.hi, unit, plan.locale)}"
+        )
+        return f" {total} values from {lo} to {hi}; most between {most} ({top.count})."
+    if plan.boxes:
+        medians = "; ".join(
+            f"{b.label}: median {_value(plan, b.median)}, middle half "
+            f"{formatting.number(b.q1, plan.locale)} to {_value(plan, b.q3)} (n = {b.n})"
+            for b in plan.boxes
+        )
+        return f" {medians}."
+    if plan.points:
+        fit = f"; r² = {plan.fit.r2:.2f}" if plan.fit else ""
+        return f" {len(plan.points)} points{fit}."
+    return ""
+
+
 def describe(plan: ChartPlan, results: list[CheckResult]) -> str:
     """A plain-language description of the chart for readers who cannot see it."""
     opening = f"{_FORM_WORDS.get(plan.form, 'Chart')}: {plan.title}."
     parts = _categories(plan) + _series(plan)
     text = opening + (" " + "; ".join(parts) + "." if parts else "")
+    text += _shape(plan)
+    if plan.guide:
+        text += f" {plan.guide}"
     text += "".join(f" {v.text}." for v in plan.verdicts)
     text += "".join(f" {note}" for note in plan.notes)
     corrected = [r.check for r in results if r.status is Status.corrected]

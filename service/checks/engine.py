@@ -26,7 +26,7 @@ class Guarded:
 
 def guard(plan: ChartPlan, ctx: Context, waivers: list[Waiver]) -> Guarded:
     results: list[CheckResult] = []
-    specs = registry.applicable(plan)
+    specs = list(registry.CHECKS.values())  # applicability is judged on the plan as it stands
     plan = _run([s for s in specs if s.phase == "plan"], plan, ctx, waivers, results)
     if not plan.description:
         plan = plan.model_copy(update={"description": describe.describe(plan, results)})
@@ -45,6 +45,8 @@ def _run(
     results: list[CheckResult],
 ) -> ChartPlan:
     for spec in specs:
+        if not spec.applies(plan):
+            continue  # e.g. a pie corrected to bars is then measured as bars
         finding = spec.measure(plan, ctx)
         if finding.ok:
             results.append(_result(spec, plan, Status.passed, finding, finding.detail))

@@ -78,8 +78,8 @@ SPEC = register(
     CheckSpec(
         id="lie-factor",
         title="Lie factor of drawn lengths",
-        intents=frozenset({"compare"}),
-        forms=frozenset({"bars"}),
+        intents=frozenset({"compare", "share", "target", "distribution"}),
+        forms=frozenset({"bars", "deviation", "histogram"}),
         measures="the worst ratio, over every pair of bars, of the change shown by the drawn lengths "
         "to the change in the data",
         threshold="0.95 to 1.05",

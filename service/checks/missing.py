@@ -109,8 +109,8 @@ SPEC = register(
     CheckSpec(
         id="missing-periods",
         title="Missing periods are shown as gaps",
-        intents=frozenset({"trend"}),
-        forms=frozenset({"lines"}),
+        intents=frozenset({"trend", "relative_change", "movement"}),
+        forms=frozenset({"lines", "panels", "control"}),
         measures="periods the declared frequency expects between the first and last row that have no "
         "value, and whether each is drawn as a marked gap",
         threshold="every missing period drawn as a gap; none joined or filled",

@@ -60,8 +60,8 @@ SPEC = register(
     CheckSpec(
         id="partial-period",
         title="A partial last period is marked",
-        intents=frozenset({"trend"}),
-        forms=frozenset({"lines"}),
+        intents=frozenset({"trend", "relative_change", "movement"}),
+        forms=frozenset({"lines", "panels", "control"}),
         measures="the share of the last period elapsed at as_of (whole days)",
         threshold="a period under 100 % elapsed is drawn hollow and labelled",
         source="common practice (no source)",

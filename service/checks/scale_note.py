@@ -49,8 +49,10 @@ SPEC = register(
     CheckSpec(
         id="nonzero-scale-noted",
         title="A scale that does not start at zero is marked",
-        intents=frozenset({"compare", "trend"}),
-        forms=frozenset({"dots", "lines"}),
+        intents=frozenset(
+            {"compare", "trend", "relative_change", "movement", "distribution", "relationship"}
+        ),
+        forms=frozenset({"dots", "lines", "panels", "control", "box", "scatter"}),
         measures="where the value axis starts, and whether the chart states it",
         threshold="axis includes 0, or a note on the chart",
         source="common practice (no source)",

@@ -1,1 +1,246 @@
-"""Checks: uncertainty (being built)."""
+"""Values that carry uncertainty show it, and the chart says whether their differences are real.
+
+For a compare chart with an ``interval``, recomputed from the data alone:
+
+- spread and sample size (``sd``, ``n``): a one-way analysis of variance from the summary statistics
+  (Fisher), F = [Σ nᵢ(x̄ᵢ − x̄)² / (k − 1)] / [Σ (nᵢ − 1)sᵢ² / (N − k)], p from the F distribution
+  with (k − 1, N − k) degrees of freedom, judged at α = 1 − level;
+- interval bounds only (``lower``, ``upper``): two categories are distinguishable when their intervals
+  do not overlap. Overlap does not prove the values equal: two 95 % intervals can overlap while the
+  difference is significant (Schenker & Gentleman 2001), so the rule is conservative.
+
+The plan must draw each interval (``Category.lo``/``hi``) and carry a one-line note with the verdict;
+a plan lacking either is corrected. A chart without an interval passes: no uncertainty is given.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from itertools import combinations
+
+import pandas as pd
+
+from service import formatting
+from service.checks.registry import CheckSpec, Context, Finding, register
+from service.definition.model import CompareChart
+from service.intents import compare
+from service.intents.plan import ChartPlan
+
+
+@dataclass(frozen=True)
+class Anova:
+    f: float
+    p: float
+    df_between: int
+    df_within: int
+
+
+def anova(means: list[float], sds: list[float], ns: list[float]) -> Anova:
+    """One-way ANOVA from each group's mean, standard deviation (n − 1 divisor) and size."""
+    from scipy import stats  # loaded only for charts that carry spreads
+
+    k, total = len(means), sum(ns)
+    grand = sum(n * m for n, m in zip(ns, means, strict=True)) / total
+    between = sum(n * (m - grand) ** 2 for n, m in zip(ns, means, strict=True)) / (k - 1)
+    within = sum((n - 1) * s**2 for n, s in zip(ns, sds, strict=True)) / (total - k)
+    if within == 0:  # no spread inside any group: any difference of means is certain
+        f = math.inf if between > 0 else 0.0
+        p = 0.0 if between > 0 else 1.0
+    else:
+        f = between / within
+        p = float(stats.f.sf(f, k - 1, total - k))
+    return Anova(f=f, p=p, df_between=k - 1, df_within=int(total - k))
+
+
+def separate_pairs(
+    intervals: dict[str, tuple[float, float]],
+) -> tuple[list[tuple[str, str]], int]:
+    """Pairs of categories whose intervals do not overlap, and how many pairs there are."""
+    pairs = list(combinations(intervals, 2))
+    apart = [
+        (a, b)
+        for a, b in pairs
+        if intervals[a][1] < intervals[b][0] or intervals[b][1] < intervals[a][0]
+    ]
+    return apart, len(pairs)
+
+
+def plural(noun: str) -> str:
+    """A column name made plural for a sentence ("route" → "routes", "category" → "categories")."""
+    if noun.endswith("y") and noun[-2:-1] not in set("aeiou"):
+        return noun[:-1] + "ies"
+    if noun.endswith(("s", "x", "z", "ch", "sh")):
+        return noun + "es"
+    return noun + "s"
+
+
+@dataclass(frozen=True)
+class Verdict:
+    measured: float | int | str
+    shown: str
+    detail: str
+    note: str
+
+
+def _p(value: float, locale: str) -> str:
+    return "p < 0.0001" if value < 0.0001 else f"p = {formatting.number(value, locale, digits=4)}"
+
+
+def verdict(chart: CompareChart, ctx: Context) -> Verdict:
+    """Whether the differences between the categories are distinguishable, from the data alone."""
+    spec = chart.interval
+    assert spec is not None
+    frame = ctx.table.frame
+    things = plural(chart.category)
+    level = f"{formatting.number(spec.level * 100, ctx.locale)} %"
+    if spec.sd is not None and spec.n is not None:
+        rows = frame[[chart.measure, spec.sd, spec.n]].dropna()
+        rows = rows[rows[spec.n] >= 1]
+        if len(rows) < 2 or rows[spec.n].sum() <= len(rows):
+            return _undecided(things)
+        result = anova(
+            [float(v) for v in rows[chart.measure]],
+            [float(v) for v in rows[spec.sd]],
+            [float(v) for v in rows[spec.n]],
+        )
+        test = (
+            f"one-way ANOVA F = {formatting.number(result.f, ctx.locale, digits=2)}, "
+            f"{_p(result.p, ctx.locale)}"
+        )
+        if result.p < 1 - spec.level:
+            return Verdict(
+                round(result.p, 6),
+                f"distinguishable ({_p(result.p, ctx.locale)})",
+                f"Differences between {things} are distinguishable: {test} (at the {level} level "
+                "at least one differs beyond chance; not every pair need differ).",
+                f"Differences between {things} are beyond chance ({test}).",
+            )
+        return Verdict(
+            round(result.p, 6),
+            f"not distinguishable ({_p(result.p, ctx.locale)})",
+            f"Differences between {things} are not distinguishable from chance: {test} "
+            f"(not significant at the {level} level).",
+            f"Differences between {things} may be chance ({test}): do not rank them.",
+        )
+    assert spec.lower is not None and spec.upper is not None
+    bounds = frame[[chart.category, spec.lower, spec.upper]].dropna()
+    intervals = {
+        str(c): (float(lo), float(hi))
+        for c, lo, hi in zip(
+            bounds[chart.category], bounds[spec.lower], bounds[spec.upper], strict=True
+        )
+    }
+    if len(intervals) < 2:
+        return _undecided(things)
+    apart, pairs = separate_pairs(intervals)
+    listed = ", ".join(f"{a}–{b}" for a, b in apart[:4]) + (" …" if len(apart) > 4 else "")
+    shown = f"{len(apart)} of {pairs} {'pair' if pairs == 1 else 'pairs'} apart"
+    caveat = "overlapping intervals do not prove the values equal"
+    if apart:
+        return Verdict(
+            len(apart),
+            shown,
+            f"Differences between {things} are distinguishable for {len(apart)} of {pairs} pairs "
+            f"({listed}): their {level} intervals do not overlap; {caveat}.",
+            f"Intervals ({level}) do not overlap for {len(apart)} of {pairs} pairs of {things} "
+            f"({listed}); overlap does not prove equality.",
+        )
+    return Verdict(
+        0,
+        shown,
+        f"Every pair of {things} has overlapping {level} intervals, so no difference is "
+        f"clearly distinguishable; {caveat}.",
+        f"The {level} intervals of all {things} overlap: the differences may be chance.",
+    )
+
+
+def _undecided(things: str) -> Verdict:
+    return Verdict(
+        "undecided",
+        "too few intervals",
+        f"Fewer than two {things} have an interval, so their differences cannot be judged.",
+        f"Too few {things} have an interval to judge their differences.",
+    )
+
+
+def _expected_bounds(
+    chart: CompareChart, ctx: Context
+) -> dict[str, tuple[float | None, float | None]]:
+    frame = ctx.table.frame
+    values = [None if pd.isna(v) else float(v) for v in frame[chart.measure]]
+    bounds = compare.intervals(chart, frame, values)
+    return dict(zip(map(str, frame[chart.category]), bounds, strict=True))
+
+
+def _drawn(plan: ChartPlan, expected: dict[str, tuple[float | None, float | None]]) -> list[str]:
+    """Categories whose interval the data has but the plan does not draw as given."""
+    wrong = []
+    for category in plan.categories:
+        lo, hi = expected.get(category.label, (None, None))
+        if lo is None or hi is None:
+            continue
+        if (
+            category.lo is None
+            or category.hi is None
+            or not (math.isclose(category.lo, lo) and math.isclose(category.hi, hi))
+        ):
+            wrong.append(category.label)
+    return wrong
+
+
+def _measure(plan: ChartPlan, ctx: Context) -> Finding:
+    chart = ctx.chart
+    if not isinstance(chart, CompareChart) or chart.interval is None:
+        return Finding(
+            True, "no uncertainty given", "The data gives no uncertainty for these values."
+        )
+    found = verdict(chart, ctx)
+    wrong = _drawn(plan, _expected_bounds(chart, ctx))
+    missing = []
+    if wrong:
+        missing.append(f"the intervals of {', '.join(wrong[:5])} are not drawn as given")
+    if found.note not in plan.notes:
+        missing.append("the chart does not say whether the differences are real")
+    if missing:
+        return Finding(
+            False, found.measured, f"{found.detail} But {'; '.join(missing)}.", found.shown
+        )
+    return Finding(True, found.measured, found.detail, found.shown)
+
+
+def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
+    chart = ctx.chart
+    assert isinstance(chart, CompareChart)
+    expected = _expected_bounds(chart, ctx)
+    categories = []
+    for category in plan.categories:
+        lo, hi = expected.get(category.label, (None, None))
+        given = lo is not None and hi is not None
+        categories.append(category.model_copy(update={"lo": lo, "hi": hi}) if given else category)
+    note = verdict(chart, ctx).note
+    notes = plan.notes if note in plan.notes else [*plan.notes, note]
+    return plan.model_copy(update={"categories": categories, "notes": notes})
+
+
+SPEC = register(
+    CheckSpec(
+        id="uncertainty",
+        title="Uncertainty is drawn and its verdict stated",
+        intents=frozenset({"compare"}),
+        forms=frozenset({"bars", "dots"}),
+        measures="with sd and n: the p value of a one-way ANOVA from the summary statistics; with "
+        "bounds: the pairs of categories whose intervals do not overlap",
+        threshold="α = 1 − the interval's level (0.05 by default); every interval drawn and the "
+        "verdict on the chart",
+        source="One-way analysis of variance (Fisher, Statistical Methods for Research Workers, "
+        "1925); Schenker & Gentleman, 'On judging the significance of differences by examining "
+        "the overlap between confidence intervals', The American Statistician 55(3), 2001 "
+        "(from memory)",
+        waivable=False,
+        correction="Each interval was drawn and a line saying whether the differences are real "
+        "was added to the chart.",
+        measure=_measure,
+        correct=_correct,
+    )
+)

@@ -25,12 +25,24 @@ for _name in DRAWER_MODULES:
 NOTE_WIDTH = 115
 
 
+#: Height of one of several aligned panels.
+PANEL_HEIGHT_IN = 1.6
+
+
 def size_in(plan: ChartPlan) -> tuple[float, float]:
     lines = sum(len(textwrap.wrap(n, NOTE_WIDTH)) for n in plan.notes) + len(plan.flags)
+    lines += len(textwrap.wrap(plan.guide, NOTE_WIDTH)) if plan.guide else 0
     extra = 0.18 * lines
-    if plan.form in {"bars", "dots"}:
+    if plan.form in {"bars", "dots", "deviation"}:
         rows = max(len(plan.categories), 2)
         return style.WIDTH_IN, min(8.5, 0.75 + style.BAR_ROW_IN * rows + extra)
+    if plan.form == "box":
+        rows = max(len(plan.boxes), 2)
+        return style.WIDTH_IN, min(8.5, 1.0 + 2 * style.BAR_ROW_IN * rows + extra)
+    if plan.form == "panels":
+        return style.WIDTH_IN, min(9.0, 0.6 + PANEL_HEIGHT_IN * len(plan.panels) + extra)
+    if plan.form == "pie":
+        return style.WIDTH_IN, 3.4 + extra
     return style.WIDTH_IN, style.LINE_HEIGHT_IN + extra
 
 

@@ -49,15 +49,30 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
         text = common.value_label(plan, category.value)
         if category.percent is not None:
             text = f"{category.percent} %  ({text})"
-        top = category.hi if category.hi is not None else category.value
+        ends = [category.value, category.hi, category.target]
+        top = max(v for v in ends if v is not None)
         ax.text(
-            max(category.value, top) + pad if inside >= 0 else category.value + pad,
+            top + pad if inside >= 0 else category.value + pad,
             y,
             text,
             va="center",
             ha=ha,
             color=style.INK,
             fontsize=7.5,
+            parse_math=False,
+        )
+    for ref in plan.references:
+        ax.axvline(ref.value, color=style.INK, linewidth=0.9, linestyle=(0, (4, 2)), zorder=4)
+        ax.annotate(
+            ref.label,
+            xy=(ref.value, 1.0),
+            xycoords=("data", "axes fraction"),
+            xytext=(2, 2),
+            textcoords="offset points",
+            fontsize=7,
+            color=style.INK,
+            ha="left",
+            va="bottom",
             parse_math=False,
         )
     common.category_axis(ax, plan, rows)
