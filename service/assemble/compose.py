@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import io
 import math
-from dataclasses import replace
 from collections.abc import Mapping
+from dataclasses import replace
 
 import pandas as pd
 import pikepdf
