@@ -163,4 +163,4 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     )
 
 
-ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines"})))
+ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines", "panels"})))

@@ -125,6 +125,7 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
 
 def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     ends = draw_series(ax, plan, plan.series, plan.value_axis)
+    draw_references(ax, plan)
     draw_gaps(ax, plan, plan.value_axis, len(plan.series))
     time_axis(ax, plan, room=bool(ends))
     value_axis(ax, plan, plan.value_axis)
@@ -147,7 +148,11 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         index = names.index(base) if series.estimate and base in names else number
         colour = style.MUTED if series.muted else common.colour(plan, index)
         xs_all = series.xs or list(range(len(series.values)))
-        style_kw: dict[str, Any] = {"color": colour, "linewidth": 1.0 if series.muted else 1.6}
+        style_kw: dict[str, Any] = {
+            "color": colour,
+            "linewidth": 1.0 if series.muted else 1.6,
+            "zorder": 1.8 if series.muted else 2.2,  # grey lines behind the focus series
+        }
         if series.estimate:
             style_kw["linestyle"] = (0, (3, 2))
         for first, end in series.segments:
@@ -207,6 +212,24 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             name = f"{series.name} (estimate)" if tagged else series.name
             ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
     return ends
+
+
+def draw_references(ax: Axes, plan: ChartPlan) -> None:
+    """Horizontal reference lines (a base of 100, a target), labelled at the left."""
+    for ref in plan.references:
+        ax.axhline(ref.value, color=style.MUTED, linewidth=0.8, linestyle=(0, (4, 2)), zorder=1)
+        ax.annotate(
+            ref.label,
+            xy=(0.0, ref.value),
+            xycoords=("axes fraction", "data"),
+            xytext=(3, 2),
+            textcoords="offset points",
+            fontsize=7,
+            color=style.MUTED,
+            ha="left",
+            va="bottom",
+            parse_math=False,
+        )
 
 
 def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None:
