@@ -24,7 +24,6 @@ def draw_scatter(figure: Figure, plan: ChartPlan) -> None:
         ys,
         s=18,
         color=common.colour(plan, 0),
-        alpha=0.85,
         linewidths=0,
         zorder=3,
         gid="points",

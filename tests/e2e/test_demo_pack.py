@@ -20,7 +20,21 @@ from pypdf import PdfReader
 
 ROOT = Path(__file__).parents[2]
 DEMO = ROOT / "sample_requests" / "bus-cooperative-monthly.json"
-CHARTS = ("boardings-trend", "on-time-by-route", "rating-by-route", "journeys-trend")
+#: What the demo is built to show: one chart per intent, and the guards it exercises.
+EXPECTED = {
+    ("on-time-by-route", "bar-zero-baseline"): "corrected",  # asked for bars from 85 %
+    ("revenue-share", "expected-parts-shown"): "corrected",  # "Group travel" has no data
+    ("rating-by-route", "uncertainty"): "corrected",  # intervals and the ANOVA verdict added
+    ("boardings-trend", "missing-periods"): "passed",  # August drawn as a gap
+    ("boardings-trend", "partial-period"): "passed",  # November 8 of 30 days
+    ("boardings-trend", "estimates-distinct"): "passed",  # run-rate estimate apart from actuals
+    ("revenue-share", "parts-sum-to-whole"): "passed",
+    ("cost-vs-use", "no-dual-axis"): "passed",
+    ("complaints-movement", "delta-verdict"): "passed",
+    ("depot-target", "lie-factor"): "passed",
+    ("lateness-distribution", "histogram-bins-even"): "passed",
+    ("length-vs-punctuality", "fit-on-request"): "passed",
+}
 
 
 def plumbline(
@@ -42,7 +56,7 @@ def demo_pdf(tmp_path_factory: pytest.TempPathFactory) -> Path:
     out = tmp_path_factory.mktemp("demo") / "demo.pdf"
     run = plumbline("render", DEMO, "-o", out)
     assert run.returncode == 0, run.stderr
-    assert "17 checks: 16 passed, 1 corrected, 0 waived, 0 failed" in run.stdout
+    assert re.search(r"^\d+ checks: \d+ passed, 3 corrected, 0 waived, 0 failed", run.stdout, re.M)
     return out
 
 
@@ -75,7 +89,10 @@ def test_chart_text_is_extractable_vector_text(demo_pdf: Path) -> None:
         "Nov 2026 so far:",
         "8 of 30 days",
         "21 Market express",
-        "Scale starts at 3.8 points, not zero",
+        "Scale starts at 3.6 points, not zero",
+        "expected, no data",  # the expected part the data lacks
+        "Differences between routes are beyond chance (one-way ANOVA",
+        "r² =",
         "94.6%",
         "scheduled",
         "operated",
@@ -84,32 +101,31 @@ def test_chart_text_is_extractable_vector_text(demo_pdf: Path) -> None:
 
 
 def _appendix_rows(path: Path) -> list[list[str]]:
+    """Every row of the appendix table, on however many pages it runs."""
+    rows: list[list[str]] = []
     with pdfplumber.open(path) as pdf:
-        page = next(
-            p
-            for p in pdf.pages
-            if "Integrity checks" in (p.extract_text() or "")
-            and "Threshold" in (p.extract_text() or "")
+        start = next(
+            i for i, p in enumerate(pdf.pages) if (p.extract_text() or "").startswith("Integrity")
         )
-        table = max(page.extract_tables(), key=len)
-    return [[re.sub(r"\s+", "", cell or "") for cell in row] for row in table[1:]]
+        for page in pdf.pages[start:]:
+            for table in page.extract_tables():
+                for row in table:
+                    cells = [re.sub(r"\s+", "", cell or "") for cell in row]
+                    if len(cells) == 6 and cells[:3] != ["Chart", "Check", "Status"]:
+                        rows.append(cells)
+    return rows
 
 
 def test_appendix_lists_every_check_of_every_chart(demo_pdf: Path) -> None:
     rows = {(r[0], r[1]): r[2] for r in _appendix_rows(demo_pdf)}
-    assert rows == {
-        ("boardings-trend", "missing-periods"): "passed",
-        ("boardings-trend", "partial-period"): "passed",
-        ("boardings-trend", "nonzero-scale-noted"): "passed",
-        ("on-time-by-route", "bar-zero-baseline"): "corrected",
-        ("on-time-by-route", "lie-factor"): "passed",
-        ("rating-by-route", "nonzero-scale-noted"): "passed",
-        ("journeys-trend", "missing-periods"): "passed",
-        ("journeys-trend", "partial-period"): "passed",
-        ("journeys-trend", "nonzero-scale-noted"): "passed",
-        **{(chart, "source-line"): "passed" for chart in CHARTS},
-        **{(chart, "text-alternative"): "passed" for chart in CHARTS},
-    }
+    # The CLI's own JSON, minus the check measured only while drawing, is the full list.
+    report = json.loads(plumbline("check", DEMO, "--json").stdout)
+    listed = {(r["chart"], r["check"]): r["status"] for r in report["results"]}
+    drawn = {key: rows.pop(key) for key in list(rows) if key[1] == "label-layout"}
+    assert rows == listed
+    assert len(drawn) == len({chart for chart, _ in listed}) == 10
+    for key, status in EXPECTED.items():
+        assert rows[key] == status, key
     text = "\n".join(page_texts(demo_pdf))
     assert "Tufte, The Visual Display of Quantitative Information (1983), p. 57" in text
 
@@ -175,13 +191,10 @@ def test_check_command_json_and_exit_codes(tmp_path: Path) -> None:
     run = plumbline("check", DEMO, "--json")
     assert run.returncode == 0
     report = json.loads(run.stdout)
-    assert report["summary"] == {
-        "passed": 16,
-        "corrected": 1,
-        "waived": 0,
-        "failed": 0,
-        "advice": 0,
-    }
+    assert report["blocked"] is False
+    assert report["summary"]["corrected"] == 3
+    assert report["summary"]["failed"] == 0
+    assert report["summary"]["passed"] > 100
     source = tmp_path / "waived.json"
     source.write_text(json.dumps(_with_waiver()))
     assert plumbline("check", source).returncode == 1

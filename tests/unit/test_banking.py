@@ -57,7 +57,7 @@ def test_sunspots_bank_to_cleveland_ratio() -> None:
     assert result is not None
     m, ratio = result
     # Source: computed from statsmodels' yearly sunspots (1700–2008) with Cleveland's median
-    # absolute slope over the data range (Cleveland, McGill & McGill, JASA 1988); value computed from the bundled data.
+    # absolute slope over the data range (Cleveland, McGill & McGill, JASA 1988).
     # Cleveland's published sunspot figure uses about 0.055 (from a secondary source).
     assert m == pytest.approx(23.5615, rel=1e-3)
     assert ratio == pytest.approx(0.04244, rel=1e-3)
