@@ -98,9 +98,9 @@ def data_share(plan: ChartPlan) -> float:
 def drawn_ratio(plan: ChartPlan) -> float:
     """Height / width of one plot area, taken from the figure size (stacked panels share it)."""
     # late import: the house sizes live with the drawing stack, kept out of the check-only path
-    from service.render import charts
+    from service.intents.geometry import size_in
 
-    width, height = charts.size_in(plan)
+    width, height = size_in(plan)
     return height / max(len(plan.panels), 1) / width
 
 

@@ -3,17 +3,18 @@ out from the white page.
 
 The colours measured are the ones the chart draws its marks with: the plan's palette (the report's
 custom palette), else the house palette, taken in order for as many colour-coded marks as the form has.
-The formulas live in ``service.render.colour_math``; this module decides what to measure and the
+The formulas live in ``service.colour_math``; this module decides what to measure and the
 thresholds. A breach on a custom palette is corrected by drawing with the house palette instead
 (which must itself pass); a mandated brand palette can be kept with a waiver.
 """
 
 from __future__ import annotations
 
+from service import colour_math
+from service import palette as house
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS
 from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan, Series
-from service.render import colour_math, style
 
 _ALL_INTENTS = frozenset(INTENTS)
 _ALL_FORMS = LENGTH_FORMS | POSITION_FORMS
@@ -25,7 +26,7 @@ MIN_MARK_CONTRAST = 3.0
 MIN_TEXT_CONTRAST = 4.5
 """WCAG 2.2 SC 1.4.3 Contrast (Minimum), for normal-size text."""
 BACKGROUND = "#ffffff"
-TEXT_COLOURS = {"ink": style.INK, "muted text": style.MUTED, "flag": style.FLAG}
+TEXT_COLOURS = {"ink": house.INK, "muted text": house.MUTED, "flag": house.FLAG}
 
 _SERIES_FORMS = frozenset({"lines", "control"})
 _VISION_WORDS = {
@@ -38,13 +39,13 @@ _VISION_WORDS = {
 
 def palette_of(plan: ChartPlan) -> list[str]:
     """The colours marks are drawn with, in order: the plan's palette, else the house palette."""
-    return [c.lower() for c in (plan.palette or style.PALETTE)]
+    return [c.lower() for c in (plan.palette or house.PALETTE)]
 
 
 def _series_colours(palette: list[str], series: list[Series]) -> list[str]:
     """As ``render.forms.draw_series`` colours them: by position, muted series in one grey."""
     coloured = [palette[i % len(palette)] for i, s in enumerate(series) if not s.muted]
-    return coloured + ([style.MUTED.lower()] if any(s.muted for s in series) else [])
+    return coloured + ([house.MUTED.lower()] if any(s.muted for s in series) else [])
 
 
 def colour_groups(plan: ChartPlan) -> list[list[str]]:
@@ -60,7 +61,7 @@ def colour_groups(plan: ChartPlan) -> list[list[str]]:
     if plan.form in _SERIES_FORMS:
         colours = _series_colours(palette, plan.series)
         if plan.form == "control" and plan.series and any(v.signal for v in plan.verdicts):
-            colours.append(style.FLAG.lower())
+            colours.append(house.FLAG.lower())
         return [colours]
     values = [c.value for c in plan.categories if c.value is not None]
     if plan.form == "pie":

@@ -1,16 +1,31 @@
 """Labels are readable: no overlapping tick labels, no text cut off at the chart's edge.
 
-Text extents exist only after layout, so this check is measured when the chart is drawn
-(:mod:`service.render.layout`); ``plumbline check``, which draws nothing, does not list it.
+Text extents exist only after layout, so this check is measured when the chart is drawn:
+:mod:`service.render.layout` measures and fills in a :class:`LayoutReport`. ``plumbline check``,
+which draws nothing, does not list it.
 """
 
 from __future__ import annotations
+
+from dataclasses import dataclass, field
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.checks.results import CheckResult, Status, WaiverRecord
 from service.definition.model import INTENTS, Waiver
 from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan
-from service.render.layout import LayoutReport
+
+
+@dataclass
+class LayoutReport:
+    overlaps_before: int = 0
+    clipped_before: int = 0
+    overlaps: int = 0
+    clipped: int = 0
+    actions: list[str] = field(default_factory=list)
+
+    @property
+    def clean(self) -> bool:
+        return self.overlaps == 0 and self.clipped == 0
 
 
 def _at_render(plan: ChartPlan, ctx: Context) -> Finding:

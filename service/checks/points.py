@@ -31,9 +31,9 @@ PER_COLUMN = 4
 def width_px() -> int:
     """Pixel columns of the drawn time axis at ``DPI`` (1,606 for the 6.69 in page width)."""
     # late import: the house sizes live with the drawing stack, kept out of the check-only path
-    from service.render import style
+    from service.intents import geometry
 
-    return round(style.WIDTH_IN * PLOT_SHARE * DPI)
+    return round(geometry.WIDTH_IN * PLOT_SHARE * DPI)
 
 
 def m4_indexes(

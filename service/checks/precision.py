@@ -3,9 +3,9 @@
 What the drawn chart delivers is estimated from the plan (the renderer is not run):
 
 - value per millimetre = value-axis span / plot length in mm. The plot length is an estimate: for the
-  horizontal forms (bars, dots, deviation) 75 % of the figure width ``style.WIDTH_IN`` (the rest is
+  horizontal forms (bars, dots, deviation) 75 % of the figure width ``geometry.WIDTH_IN`` (the rest is
   category labels and margins); for the vertical forms (lines, control) 75 % of the figure height
-  ``charts.size_in(plan)`` (the rest is tick labels, notes and margins);
+  ``size_in(plan)`` (the rest is tick labels, notes and margins);
 - a reader judges a position against a gridline to about 0.5 mm (from memory; common practice), so
   the chart resolves differences of value_per_mm × 0.5. On a logarithmic axis the same 0.5 mm is a
   ratio, turned into an amount at the value that matters.
@@ -37,12 +37,12 @@ def plot_length_mm(plan: ChartPlan) -> float:
     # late imports: the house sizes live with the drawing stack, loaded only for charts that
     # state a precision
     if plan.form in HORIZONTAL:
-        from service.render import style
+        from service.intents import geometry
 
-        return style.WIDTH_IN * PLOT_SHARE * MM_PER_IN
-    from service.render import charts
+        return geometry.WIDTH_IN * PLOT_SHARE * MM_PER_IN
+    from service.intents.geometry import size_in
 
-    return charts.size_in(plan)[1] * PLOT_SHARE * MM_PER_IN
+    return size_in(plan)[1] * PLOT_SHARE * MM_PER_IN
 
 
 def shown_values(plan: ChartPlan) -> list[float]:

@@ -10,7 +10,9 @@ from importlib import import_module
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
 
+from service.checks.layout import LayoutReport
 from service.errors import RenderFailed
+from service.intents.geometry import NOTE_WIDTH, size_in
 from service.intents.plan import ChartPlan
 from service.render import layout, style
 from service.render.registry import DRAWERS
@@ -19,31 +21,6 @@ from service.render.registry import DRAWERS
 DRAWER_MODULES = ("forms", "pie", "control", "panels", "deviation", "distribution", "scatter")
 for _name in DRAWER_MODULES:
     import_module(f"service.render.{_name}")
-
-
-#: Characters of a note line at the chart's width (7.5 pt italic DejaVu Sans on 170 mm).
-NOTE_WIDTH = 115
-
-
-#: Height of one of several aligned panels.
-PANEL_HEIGHT_IN = 1.6
-
-
-def size_in(plan: ChartPlan) -> tuple[float, float]:
-    lines = sum(len(textwrap.wrap(n, NOTE_WIDTH)) for n in plan.notes) + len(plan.flags)
-    lines += len(textwrap.wrap(plan.guide, NOTE_WIDTH)) if plan.guide else 0
-    extra = 0.18 * lines
-    if plan.form in {"bars", "dots", "deviation"}:
-        rows = max(len(plan.categories), 2)
-        return style.WIDTH_IN, min(8.5, 0.75 + style.BAR_ROW_IN * rows + extra)
-    if plan.form == "box":
-        rows = max(len(plan.boxes), 2)
-        return style.WIDTH_IN, min(8.5, 1.0 + 2 * style.BAR_ROW_IN * rows + extra)
-    if plan.form == "panels":
-        return style.WIDTH_IN, min(9.0, 0.6 + PANEL_HEIGHT_IN * len(plan.panels) + extra)
-    if plan.form == "pie":
-        return style.WIDTH_IN, 3.4 + extra
-    return style.WIDTH_IN, style.LINE_HEIGHT_IN + extra
 
 
 def figure_for(plan: ChartPlan) -> Figure:
@@ -79,7 +56,7 @@ def figure_for(plan: ChartPlan) -> Figure:
     return figure
 
 
-def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[layout.LayoutReport]]:
+def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
     """Every chart of a pack as one page each of a single vector PDF, in order.
 
     One file shares one font subset across all charts: measured on the demo, fontTools subsetting
@@ -112,3 +89,6 @@ def draw(plan: ChartPlan) -> bytes:
     except (ValueError, RuntimeError, OverflowError) as exc:
         raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
     return buffer.getvalue()
+
+
+__all__ = ["draw", "draw_pages", "figure_for", "size_in"]

@@ -8,7 +8,6 @@ check ``label-layout`` turns the report into a result.
 from __future__ import annotations
 
 import warnings
-from dataclasses import dataclass, field
 
 from matplotlib.axes import Axes
 from matplotlib.axis import XAxis, YAxis
@@ -17,21 +16,10 @@ from matplotlib.figure import Figure
 from matplotlib.text import Text
 from matplotlib.transforms import Bbox
 
+from service.checks.layout import LayoutReport
+
 #: Text may reach this close to the figure's edge (pixels at the figure's dpi) before it is cut.
 EDGE_TOLERANCE_PX = 1.0
-
-
-@dataclass
-class LayoutReport:
-    overlaps_before: int = 0
-    clipped_before: int = 0
-    overlaps: int = 0
-    clipped: int = 0
-    actions: list[str] = field(default_factory=list)
-
-    @property
-    def clean(self) -> bool:
-        return self.overlaps == 0 and self.clipped == 0
 
 
 def _visible(texts: list[Text]) -> list[Text]:

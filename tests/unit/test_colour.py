@@ -24,11 +24,12 @@ from factories import (
     status_of,
 )
 
+from service import colour_math as cm
+from service import palette as house
 from service.checks import colour as colour_check
 from service.checks.registry import CheckSpec, Context, Finding
 from service.checks.results import Status
 from service.intents.plan import Category, ChartPlan, Panel, Series, Verdict
-from service.render import colour_math as cm
 from service.render import style
 
 TWO_REDS = ["#d62728", "#e0302a"]  # differ only slightly, mostly in the green channel
@@ -275,7 +276,7 @@ def test_custom_palette_waived_is_kept() -> None:
 
 
 def test_fails_when_the_house_palette_cannot_help(monkeypatch: pytest.MonkeyPatch) -> None:
-    monkeypatch.setattr(style, "PALETTE", ("#d62728", "#e0302a"))
+    monkeypatch.setattr(house, "PALETTE", ("#d62728", "#e0302a"))
     definition = two_series()
     guard = guarded(definition, with_palette(definition, ["#1f77b4", "#1f77b5"]))
     assert status_of(guard, "colour-distinct") is Status.failed
