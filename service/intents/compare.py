@@ -74,14 +74,15 @@ def intervals(
             for lo, hi in zip(frame[spec.lower], frame[spec.upper], strict=True)
         ]
     assert spec.sd is not None and spec.n is not None
-    from scipy import stats  # loaded only for charts that carry spreads
+    from scipy import special  # Student's t quantile; scipy.stats costs a second to import
 
     out: list[tuple[float | None, float | None]] = []
     for value, sd, n in zip(values, frame[spec.sd], frame[spec.n], strict=True):
         if value is None or pd.isna(sd) or pd.isna(n) or n < 2:
             out.append((None, None))
             continue
-        half = float(stats.t.ppf((1 + spec.level) / 2, int(n) - 1)) * float(sd) / math.sqrt(n)
+        t = float(special.stdtrit(int(n) - 1, (1 + spec.level) / 2))
+        half = t * float(sd) / math.sqrt(n)
         out.append((value - half, value + half))
     return out
 
