@@ -70,6 +70,8 @@ def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
             for plan in plans:
                 figure = figure_for(plan)
                 reports.append(layout.mend(figure))
+                # mend() ran the layout on the final labels: keep it rather than run it again
+                figure.set_layout_engine("none")
                 with warnings.catch_warnings():  # a collapsed layout is in the report already
                     warnings.filterwarnings("ignore", "constrained_layout not applied")
                     pages.savefig(figure)
