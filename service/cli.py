@@ -1,7 +1,7 @@
 """The ``plumbline`` command: schema, checks, check, render, serve.
 
 Exit codes: 0 success; 1 an unwaived check failed (``render`` still writes the draft); 2 the input is
-invalid (every problem is printed with its path) or cannot be read.
+invalid (every problem is printed with its path) or cannot be read; 3 a fault inside Plumbline.
 """
 
 from __future__ import annotations
@@ -9,6 +9,7 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+import uuid
 from pathlib import Path
 from typing import Any
 
@@ -16,7 +17,7 @@ from service import __version__
 from service.config import Settings, get_settings
 from service.errors import InvalidDefinition, PayloadTooLarge, PlumblineError, Unreadable
 
-EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID = 0, 1, 2
+EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID, EXIT_INTERNAL = 0, 1, 2, 3
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -34,7 +35,16 @@ def main(argv: list[str] | None = None) -> int:
         return EXIT_INVALID
     except PlumblineError as exc:
         print(f"error: {exc.message}", file=sys.stderr)
-        return EXIT_INVALID if exc.status < 500 else EXIT_FAILED_CHECKS
+        return EXIT_INVALID if exc.status < 500 else EXIT_INTERNAL
+    except Exception as exc:  # noqa: BLE001 - the one last-resort handler: no traceback for users
+        incident = uuid.uuid4().hex[:12]
+        print(
+            f"internal error (incident {incident}): {type(exc).__name__}: {exc}. This is a fault "
+            "in Plumbline, not in your definition; please report it with the incident id and the "
+            "definition.",
+            file=sys.stderr,
+        )
+        return EXIT_INTERNAL
 
 
 def _parser() -> argparse.ArgumentParser:

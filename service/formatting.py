@@ -34,7 +34,10 @@ def number(value: float | None, locale: str, *, digits: int | None = None) -> st
         pattern = "#,##0"
     else:
         pattern = "#,##0.##"
-    return str(format_decimal(value, format=pattern, locale=locale.replace("-", "_")))
+    try:
+        return str(format_decimal(value, format=pattern, locale=locale.replace("-", "_")))
+    except (ArithmeticError, ValueError):  # beyond the 28 digits CLDR decimals carry
+        return f"{value:.4g}"
 
 
 def with_unit(value: float | None, unit: str, locale: str, *, digits: int | None = None) -> str:

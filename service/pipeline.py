@@ -20,7 +20,7 @@ from service.config import Limits
 from service.data import frames
 from service.data.frames import Table
 from service.definition import validate
-from service.definition.model import ReportDefinition, local_wall_time
+from service.definition.model import ReportDefinition, Role, local_wall_time
 from service.errors import InvalidDefinition, Problem
 
 
@@ -69,10 +69,38 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
         if table is None or any(t == path or t.startswith(f"{path}.") for t in troubled):
             continue  # its dataset or its own fields are already reported
         problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
+    problems.extend(_empty_measures(definition, tables, problems))
     problems.extend(_table_limits(definition, tables, limits))
     if problems:
         raise InvalidDefinition(problems)
     return Intake(definition, tables, hashlib.sha256(data).hexdigest())
+
+
+def _empty_measures(
+    definition: ReportDefinition, tables: dict[str, Table], found: list[Problem]
+) -> list[Problem]:
+    """A measure with no value at all has nothing to show (zero would be a lie, gaps say nothing)."""
+    reported = {p.path for p in found if p.code == "no_values"}
+    out = []
+    for path, chart in definition.charts():
+        table = tables.get(chart.dataset)
+        if table is None:
+            continue
+        for field, name, role in chart.columns():
+            where = f"{path}.{field}"
+            if role is not Role.measure or where in reported or name not in table.frame:
+                continue
+            if table.frame[name].isna().all():
+                out.append(
+                    Problem(
+                        "no_values",
+                        where,
+                        f"'{name}' has no values at all in dataset '{table.name}'",
+                        "give it values, or drop the chart",
+                        name,
+                    )
+                )
+    return out
 
 
 def _table_limits(

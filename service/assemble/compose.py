@@ -18,7 +18,7 @@ from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import CheckResult, summary, summary_line
 from service.data import periods
 from service.data.frames import Table
-from service.definition.model import ColumnType
+from service.definition.model import ColumnType, local_wall_time
 from service.definition.model import Table as TableSpec
 from service.render import charts as chart_render
 
@@ -30,14 +30,21 @@ def compose(checked: Checked, *, status_line: str) -> bytes:
 def compose_checked(checked: Checked, *, status_line: str) -> tuple[bytes, Checked]:
     """The pack, and the report with the checks measured while drawing added to it."""
     pages, reports = chart_render.draw_pages([c.plan for c in checked.charts])
-    waivers = checked.definition.waivers
+    definition = checked.definition
+    today = local_wall_time(definition.report.as_of).date()
     charts = [
-        replace(c, results=[*c.results, layout.result(c.plan, report, waivers)])
+        replace(c, results=[*c.results, layout.result(c.plan, report, definition.waivers, today)])
         for c, report in zip(checked.charts, reports, strict=True)
     ]
-    checked = replace(checked, charts=charts)
-    with pikepdf.open(io.BytesIO(pages)) as drawn:
-        sizes = {c.plan.chart_id: _size(drawn.pages[i]) for i, c in enumerate(checked.charts)}
+    used = {(r.check, r.chart) for c in charts for r in c.results if r.status.value == "waived"}
+    unused = [
+        f"{w.check} on {w.chart}" for w in definition.waivers if (w.check, w.chart) not in used
+    ]
+    checked = replace(checked, charts=charts, unused_waivers=unused)
+    sizes: dict[str, tuple[float, float]] = {}
+    if checked.charts:
+        with pikepdf.open(io.BytesIO(pages)) as drawn:
+            sizes = {c.plan.chart_id: _size(drawn.pages[i]) for i, c in enumerate(checked.charts)}
     content = content_for(checked, sizes, status_line=status_line)
     document, slots = pack.build(content)
     order = {c.plan.chart_id: i for i, c in enumerate(checked.charts)}

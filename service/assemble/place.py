@@ -17,6 +17,8 @@ from service.errors import RenderFailed
 
 def place(document: bytes, slots: list[Slot], charts: bytes, page_of: Mapping[str, int]) -> bytes:
     """Put page ``page_of[slot.chart_id]`` of ``charts`` into each slot of ``document``."""
+    if not slots:  # a pack of tables and narrative only
+        return _tidy(document)
     try:
         with pikepdf.open(io.BytesIO(document)) as pdf, pikepdf.open(io.BytesIO(charts)) as source:
             # ``source`` stays open until the destination is saved
@@ -32,16 +34,25 @@ def place(document: bytes, slots: list[Slot], charts: bytes, page_of: Mapping[st
                     form, pikepdf.Name(str(name)), rect, allow_shrink=True, allow_expand=True
                 )
                 page.contents_add(pikepdf.Stream(pdf, placement), prepend=False)
-            for page in pdf.pages:
-                if "/Trans" in page.obj:
-                    del page.obj["/Trans"]  # reportlab's empty transition dicts (PDF/A dislikes)
-            out = io.BytesIO()
-            pdf.save(
-                out,
-                deterministic_id=True,
-                compress_streams=True,
-                object_stream_mode=pikepdf.ObjectStreamMode.generate,
-            )
-            return out.getvalue()
+            return _save(pdf)
     except (pikepdf.PdfError, KeyError, IndexError) as exc:
         raise RenderFailed(f"the charts could not be placed in the pack: {exc}") from exc
+
+
+def _tidy(document: bytes) -> bytes:
+    with pikepdf.open(io.BytesIO(document)) as pdf:
+        return _save(pdf)
+
+
+def _save(pdf: pikepdf.Pdf) -> bytes:
+    for page in pdf.pages:
+        if "/Trans" in page.obj:
+            del page.obj["/Trans"]  # reportlab's empty transition dicts (PDF/A dislikes them)
+    out = io.BytesIO()
+    pdf.save(
+        out,
+        deterministic_id=True,
+        compress_streams=True,
+        object_stream_mode=pikepdf.ObjectStreamMode.generate,
+    )
+    return out.getvalue()

@@ -35,7 +35,8 @@ def _categories(plan: ChartPlan) -> list[str]:
         return []
     top = max(present, key=lambda c: c.value or 0.0)
     low = min(present, key=lambda c: c.value or 0.0)
-    words = [f"{len(plan.categories)} categories"]
+    count = len(plan.categories)
+    words = [f"{count} {'category' if count == 1 else 'categories'}"]
     if top is not low:
         words.append(f"highest {top.label} ({_value(plan, top.value)})")
         words.append(f"lowest {low.label} ({_value(plan, low.value)})")
@@ -85,7 +86,9 @@ def _shape(plan: ChartPlan) -> str:
             f"{formatting.number(top.lo, plan.locale)} to "
             f"{formatting.with_unit(top.hi, unit, plan.locale)}"
         )
-        return f" {total} values from {lo} to {hi}; most between {most} ({top.count})."
+        return (
+            f" {total} values, in bins from {lo} to {hi}; the fullest bin is {most} ({top.count})."
+        )
     if plan.boxes:
         medians = "; ".join(
             f"{b.label}: median {_value(plan, b.median)}, middle half "

@@ -8,6 +8,7 @@ which draws nothing, does not list it.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from datetime import date
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.checks.results import CheckResult, Status, WaiverRecord
@@ -50,13 +51,16 @@ SPEC = register(
 )
 
 
-def result(plan: ChartPlan, report: LayoutReport, waivers: list[Waiver]) -> CheckResult:
+def result(
+    plan: ChartPlan, report: LayoutReport, waivers: list[Waiver], today: date
+) -> CheckResult:
+    """The ``label-layout`` result; ``today`` (the as_of date) decides whether a waiver expired."""
     before = f"{report.overlaps_before} overlaps, {report.clipped_before} cut off"
     after = f"{report.overlaps} overlaps, {report.clipped} cut off"
     base = {
         "check": SPEC.id,
         "chart": plan.chart_id,
-        "measured": report.overlaps + report.clipped,
+        "measured": report.overlaps_before + report.clipped_before,
         "measured_text": before,
         "threshold": SPEC.threshold,
         "source": SPEC.source,
@@ -73,6 +77,9 @@ def result(plan: ChartPlan, report: LayoutReport, waivers: list[Waiver]) -> Chec
         )
     text = f"After mending, labels still collide or are cut off ({after})."
     waiver = next((w for w in waivers if w.check == SPEC.id and w.chart == plan.chart_id), None)
+    if waiver is not None and waiver.expires is not None and waiver.expires < today:
+        text += f" A waiver expired on {waiver.expires.isoformat()} and no longer applies."
+        waiver = None
     if waiver is not None:
         record = WaiverRecord(reason=waiver.reason, by=waiver.by, expires=waiver.expires)
         return CheckResult(**base, status=Status.waived, explanation=text, waiver=record)

@@ -64,8 +64,10 @@ def _proportional(plan: ChartPlan, ctx: Context) -> Finding:
         True,
         len(labels),
         f"Each of the {len(labels)} periods from {labels[0]} to {labels[-1]} has its own place on "
-        "the time axis, so a gap keeps its width. Calendar periods are spaced equally (months of "
-        "28–31 days take the same width).",
+        "the time axis, so a gap keeps its width. Calendar periods are spaced equally (a month "
+        "of 28 days takes the width of one of 31)."
+        if ctx.table.frequency is not None and ctx.table.frequency.value == "month"
+        else "the time axis, so a gap keeps its width.",
         shown,
     )
 

@@ -67,7 +67,10 @@ def separate_pairs(
 
 
 def plural(noun: str) -> str:
-    """A column name made plural for a sentence ("route" → "routes", "category" → "categories")."""
+    """A column name made plural for a sentence ("route" → "routes", "category" → "categories");
+    a name that is not a plain word ("k", "area_code") becomes "categories"."""
+    if len(noun) < 3 or not noun.isalpha():
+        return "categories"
     if noun.endswith("y") and noun[-2:-1] not in set("aeiou"):
         return noun[:-1] + "ies"
     if noun.endswith(("s", "x", "z", "ch", "sh")):

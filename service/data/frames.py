@@ -11,7 +11,7 @@ import io
 import math
 from collections.abc import Iterable
 from dataclasses import dataclass, field
-from datetime import datetime
+from datetime import UTC, datetime, tzinfo
 from typing import Any
 
 import numpy as np
@@ -26,6 +26,10 @@ from service.definition.model import (
     local_wall_time,
 )
 from service.errors import Problem
+
+#: Numbers at or beyond this size are refused: no report quantity is that large, and the number
+#: formats (CLDR decimals, 28 significant digits) cannot print them.
+MAX_MAGNITUDE = 1e18
 
 #: At most this many value problems are listed per column; the last one says how many more there are.
 MAX_PROBLEMS_PER_COLUMN = 5
@@ -61,14 +65,19 @@ def load_all(
     for d, dataset in enumerate(definition.datasets):
         if d in skip:
             continue
-        table, found = load(dataset, path=f"datasets[{d}]", as_of=as_of)
+        table, found = load(
+            dataset, path=f"datasets[{d}]", as_of=as_of, zone=definition.report.as_of.tzinfo
+        )
         problems.extend(found)
         if table is not None and not found:
             tables[dataset.name] = table
     return tables, problems
 
 
-def load(dataset: Dataset, *, path: str, as_of: datetime) -> tuple[Table | None, list[Problem]]:
+def load(
+    dataset: Dataset, *, path: str, as_of: datetime, zone: tzinfo | None = None
+) -> tuple[Table | None, list[Problem]]:
+    """One dataset as typed columns; ``zone`` is the clock of ``as_of`` (timestamps go onto it)."""
     raw, problems, locate = _raw_frame(dataset, path)
     if raw is None:
         return None, problems
@@ -77,7 +86,7 @@ def load(dataset: Dataset, *, path: str, as_of: datetime) -> tuple[Table | None,
         values = (
             raw[column.name] if column.name in raw else pd.Series([None] * len(raw), dtype=object)
         )
-        converted, bad = _convert(values, column.type)
+        converted, bad = _convert(values, column.type, zone)
         frame[column.name] = converted
         problems.extend(_value_problems(bad, values, column.name, column.type, locate))
     table = Table(
@@ -181,7 +190,9 @@ def _raw_frame(dataset: Dataset, path: str) -> tuple[pd.DataFrame | None, list[P
     return frame.astype(object), problems, locate_line
 
 
-def _convert(values: pd.Series, kind: ColumnType) -> tuple[pd.Series, pd.Series]:
+def _convert(
+    values: pd.Series, kind: ColumnType, zone: tzinfo | None = None
+) -> tuple[pd.Series, pd.Series]:
     """Typed values, and a mask of the cells that were given but did not parse."""
     given = values.notna()
     if kind is ColumnType.text:
@@ -190,25 +201,45 @@ def _convert(values: pd.Series, kind: ColumnType) -> tuple[pd.Series, pd.Series]
     if kind in (ColumnType.number, ColumnType.integer):
         is_bool = values.map(lambda v: isinstance(v, bool))
         numbers = pd.to_numeric(values.where(~is_bool, None), errors="coerce").astype(float)
-        bad = given & (numbers.isna() | ~np.isfinite(numbers.fillna(0.0)) | is_bool)
+        huge = numbers.abs() >= MAX_MAGNITUDE
+        bad = given & (numbers.isna() | ~np.isfinite(numbers.fillna(0.0)) | is_bool | huge)
         if kind is ColumnType.integer:
             bad |= given & numbers.notna() & (numbers != np.floor(numbers.fillna(0.0)))
         return numbers.where(~bad), bad
-    fmt = "%Y-%m-%d" if kind is ColumnType.date else "ISO8601"
     text = values.where(given, None).map(lambda v: v if v is None else str(v))
-    parsed = pd.to_datetime(text, format=fmt, errors="coerce", utc=kind is ColumnType.timestamp)
-    if kind is ColumnType.timestamp:
-        parsed = parsed.dt.tz_localize(None)
+    if kind is ColumnType.date:
+        parsed = pd.to_datetime(text, format="%Y-%m-%d", errors="coerce")
+    else:
+        parsed = _on_senders_clock(text, zone)
     bad = given & parsed.isna()
     return parsed, bad
 
 
+_OFFSET = r"(?:Z|[+-]\d{2}:?\d{2})$"
+
+
+def _on_senders_clock(text: pd.Series, zone: tzinfo | None) -> pd.Series:
+    """Timestamps as wall time on the clock ``as_of`` was written in (its offset).
+
+    A timestamp with an offset is converted to that clock; one without is taken as already on it.
+    """
+    aware = text.str.contains(_OFFSET, regex=True, na=False)
+    out = pd.Series(pd.NaT, index=text.index, dtype="datetime64[ns]")
+    if aware.any():
+        stamped = pd.to_datetime(text[aware], format="ISO8601", errors="coerce", utc=True)
+        out[aware] = stamped.dt.tz_convert(zone or UTC).dt.tz_localize(None)
+    plain = ~aware & text.notna()
+    if plain.any():
+        out[plain] = pd.to_datetime(text[plain], format="ISO8601", errors="coerce")
+    return out
+
+
 _EXPECTED = {
     ColumnType.number: (
-        "a number",
+        "a number below 10^18 in size",
         "write numbers without units or thousands separators, e.g. 1234.5",
     ),
-    ColumnType.integer: ("a whole number", "write whole numbers, e.g. 1234"),
+    ColumnType.integer: ("a whole number below 10^18", "write whole numbers, e.g. 1234"),
     ColumnType.date: ("a date", "write dates as YYYY-MM-DD, e.g. 2026-10-01"),
     ColumnType.timestamp: ("a timestamp", "write ISO 8601, e.g. 2026-10-01T08:00:00+00:00"),
 }

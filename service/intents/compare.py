@@ -51,6 +51,7 @@ def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> It
             "give one row per category (add the rows up in the data first)",
             str(repeated.iloc[0]),
         )
+    yield from _interval_problems(chart, table, path)
     if len(labels) == 0:
         yield Problem(
             "empty_dataset",
@@ -59,6 +60,54 @@ def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> It
             "add rows",
             table.name,
         )
+
+
+def _interval_problems(chart: CompareChart, table: Table, path: str) -> Iterable[Problem]:
+    """Intervals that cannot be: bounds the wrong way round, a value outside its bounds, a
+    negative spread, a sample smaller than one."""
+    spec = chart.interval
+    if spec is None:
+        return
+    frame = table.frame
+    checks: list[tuple[str, pd.Series, str, str]] = []
+    if spec.lower is not None and spec.upper is not None:
+        lo, hi, value = frame[spec.lower], frame[spec.upper], frame[chart.measure]
+        checks.append(("lower", lo > hi, "its lower bound is above its upper bound", "swap them"))
+        checks.append(
+            (
+                "lower",
+                (value < lo) | (value > hi),
+                "its value lies outside its interval",
+                "check the bounds belong to this measure",
+            )
+        )
+    if spec.sd is not None and spec.n is not None:
+        checks.append(
+            (
+                "sd",
+                frame[spec.sd] < 0,
+                "its standard deviation is negative",
+                "a spread cannot be below zero",
+            )
+        )
+        checks.append(
+            (
+                "n",
+                frame[spec.n] < 1,
+                "its sample size is below one",
+                "give each category's number of observations",
+            )
+        )
+    for field, bad, what, hint in checks:
+        for row in list(bad.fillna(False).to_numpy().nonzero()[0])[:5]:
+            label = frame[chart.category].iloc[row]
+            yield Problem(
+                "impossible_interval",
+                f"{path}.interval.{field}",
+                f"'{label}': {what}",
+                hint,
+                str(label),
+            )
 
 
 def intervals(

@@ -26,14 +26,21 @@ def fit(values: Iterable[float], *, include_zero: bool, pad: float = 0.06) -> tu
     lo, hi = min(finite), max(finite)
     if include_zero:
         lo, hi = min(lo, 0.0), max(hi, 0.0)
+    if lo == hi == 0.0:
+        return (0.0, 1.0)
     if lo == hi:
-        lo, hi = (lo - 1.0, hi + 1.0) if lo == 0 else (lo - abs(lo) * 0.1, hi + abs(hi) * 0.1)
+        lo, hi = lo - abs(lo) * 0.1, hi + abs(hi) * 0.1
+    data_lo, data_hi = lo, hi
     room = (hi - lo) * pad
     step = nice_step(hi - lo)
     new_lo = lo if (include_zero and lo == 0.0) else math.floor((lo - room) / step) * step
     new_hi = hi if (include_zero and hi == 0.0) else math.ceil((hi + room) / step) * step
     if include_zero and lo >= 0.0:
         new_lo = 0.0
+    if data_lo >= 0.0:
+        new_lo = max(new_lo, 0.0)  # room for the marks never takes the axis below zero
+    if data_hi <= 0.0:
+        new_hi = min(new_hi, 0.0)
     return (_tidy(new_lo), _tidy(new_hi))
 
 

@@ -181,6 +181,23 @@ def problems(chart: ShareChart, table: Table, path: str, limits: Limits) -> Iter
             "give one row per part (add the rows up in the data first)",
             str(repeated.iloc[0]),
         )
+    values = table.frame[chart.measure]
+    if len(labels) and values.notna().any() and values.fillna(0).sum() == 0:
+        yield Problem(
+            "no_whole",
+            f"{path}.measure",
+            "every part is zero, so there is no whole to share out",
+            "check the data; a share chart needs parts that add up to something",
+            chart.measure,
+        )
+    if chart.whole is not None and chart.whole <= 0:
+        yield Problem(
+            "no_whole",
+            f"{path}.whole",
+            f"the stated whole is {chart.whole}, and parts of a whole need a positive whole",
+            "state the total the parts add up to",
+            chart.whole,
+        )
     seen: set[str] = set()
     for i, expected in enumerate(chart.expected_categories or []):
         if expected in seen:

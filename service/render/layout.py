@@ -28,6 +28,8 @@ def _visible(texts: list[Text]) -> list[Text]:
 
 def _drawn_ticklabels(axis: XAxis | YAxis) -> list[Text]:
     """Tick labels matplotlib actually draws: those of ticks inside the view limits."""
+    if not axis.axes.axison or not axis.get_visible():
+        return []  # an axes drawn without axes (a pie) draws no tick labels
     lo, hi = sorted(axis.get_view_interval())
     span = (hi - lo) or 1.0
     return _visible(

@@ -73,7 +73,7 @@ def measure(spec_id: str, plan: ChartPlan) -> tuple[bool, str | None]:
     ("grey", "ratio", "passes_text", "passes_marks"),
     [
         # Source: W3C WCAG 2.x relative luminance / contrast ratio definitions; values computed
-        # (REFERENCES.md §5).
+        # from those definitions against white.
         ("#777777", 4.4781, False, True),
         ("#767676", 4.5422, True, True),
         ("#949494", 3.0335, False, True),
@@ -114,7 +114,7 @@ def test_srgb_decoding_and_lab() -> None:
     ("lab1", "lab2", "expected"),
     [
         # Source: Sharma, Wu & Dalal, Color Res. Appl. 30(1):21-30, 2005, supplementary test data
-        # (sample rows as listed in REFERENCES.md §6).
+        # (sample rows of its 34 pairs; scikit-image ships the same table in its test data).
         ((50, 2.6772, -79.7751), (50, 0, -82.7485), 2.0425),
         ((50, 0, 0), (50, -1, 2), 2.3669),
         ((50, 2.49, -0.001), (50, -2.49, 0.0009), 7.1792),
@@ -173,9 +173,9 @@ def test_machado_matrices_agree_with_colour_science(vision: cm.Vision, deficienc
 
 def test_pure_red_seen_with_deutan_vision() -> None:
     seen = cm.simulate(cm.hex_to_srgb("#ff0000"), "deutan") * 255
-    # Source: computed with daltonlens (Simulator_Machado2009, deutan 1.0), REFERENCES.md §7:
-    # [163, 144, 0]. Tolerance ±2 per channel: implementations differ in rounding to 8 bits and in
-    # clipping before or after re-encoding.
+    # Source: computed with the daltonlens reference implementation (Simulator_Machado2009,
+    # deutan 1.0): [163, 144, 0]. Tolerance ±2 per channel: implementations differ in rounding to
+    # 8 bits and in clipping before or after re-encoding.
     assert seen == pytest.approx([163, 144, 0], abs=2)
     assert cm.simulate(cm.hex_to_srgb("#ff0000"), "normal") == pytest.approx([1, 0, 0])
 
@@ -191,8 +191,8 @@ def test_simulation_stays_in_gamut() -> None:
 
 @pytest.mark.parametrize(
     ("vision", "expected"),
-    # Source: REFERENCES.md §8, minimum pairwise ΔE00 of the 8 Okabe & Ito colours, computed with
-    # colorspacious at severity 100 (same Machado matrices); agreement to 0.05.
+    # Source: Okabe & Ito, Color Universal Design (2002, rev. 2008) colours; their minimum pairwise
+    # ΔE00, computed with colorspacious at severity 100 (same Machado matrices); agreement to 0.05.
     [("normal", 21.7), ("protan", 12.2), ("deutan", 11.6), ("tritan", 10.9)],
 )
 def test_okabe_ito_minimum_differences(vision: cm.Vision, expected: float) -> None:

@@ -2,7 +2,15 @@
 
 from __future__ import annotations
 
-from factories import make_definition, make_monthly, make_trend_chart, run_checks
+from datetime import date
+
+from factories import (
+    make_category_dataset,
+    make_definition,
+    make_monthly,
+    make_trend_chart,
+    run_checks,
+)
 
 from service.checks import layout as layout_check
 from service.checks.results import Status
@@ -11,6 +19,7 @@ from service.intents.plan import ChartPlan
 from service.render import charts, layout
 
 MONTHS = [f"2026-{m:02d}-01" for m in range(1, 11)]
+TODAY = date(2026, 11, 9)
 
 
 def _trend_plan(**chart: object) -> ChartPlan:
@@ -30,15 +39,14 @@ def test_a_plain_chart_has_room_for_every_label() -> None:
 
 def test_colliding_time_labels_are_thinned_and_recorded() -> None:
     plan = _trend_plan()
-    long = [f"{label} (week-ending figures, provisional)" for label in plan.periods]
+    long = [f"{label} (provisional figures)" for label in plan.periods]
     report = layout.mend(charts.figure_for(plan.model_copy(update={"periods": long})))
     assert report.overlaps_before > 0
-    assert report.actions  # something was done about it
-    result = layout_check.result(plan, report, [])
-    assert result.status in {Status.corrected, Status.failed}
-    assert result.measured_text.startswith(f"{report.overlaps_before} overlaps")
-    if result.status is Status.corrected:
-        assert result.corrected_to == "0 overlaps, 0 cut off"
+    assert report.actions == ["showed every other label on the horizontal axis"]
+    result = layout_check.result(plan, report, [], TODAY)
+    assert result.status is Status.corrected
+    assert result.measured_text == f"{report.overlaps_before} overlaps, 0 cut off"
+    assert result.corrected_to == "0 overlaps, 0 cut off"
 
 
 def test_text_cut_off_at_the_edge_fails_and_can_be_waived() -> None:
@@ -48,14 +56,14 @@ def test_text_cut_off_at_the_edge_fails_and_can_be_waived() -> None:
     figure.text(0.98, 0.5, "a label placed past the edge", parse_math=False)
     report = layout.mend(figure)
     assert report.clipped > 0
-    assert layout_check.result(plan, report, []).status is Status.failed
+    assert layout_check.result(plan, report, [], TODAY).status is Status.failed
     waiver = Waiver(
         check="label-layout",
         chart=plan.chart_id,
         by="A. Reviewer",
         reason="The label is the statutory title of the measure and must appear in full.",
     )
-    waived = layout_check.result(plan, report, [waiver])
+    waived = layout_check.result(plan, report, [waiver], TODAY)
     assert waived.status is Status.waived
     assert waived.waiver is not None
     assert waived.waiver.by == "A. Reviewer"
@@ -66,3 +74,42 @@ def test_long_notes_and_category_labels_wrap_instead_of_running_off() -> None:
     noted = plan.model_copy(update={"notes": ["A note that runs on and on " * 12]})
     report = layout.mend(charts.figure_for(noted))
     assert report.clean
+
+
+def test_an_expired_waiver_does_not_hide_a_layout_failure() -> None:
+    plan = _trend_plan()
+    figure = charts.figure_for(plan)
+    figure.text(0.98, 0.5, "a label placed past the edge", parse_math=False)
+    report = layout.mend(figure)
+    waiver = Waiver(
+        check="label-layout",
+        chart=plan.chart_id,
+        by="A. Reviewer",
+        reason="Accepted for the September pack only, while the feed was renamed.",
+        expires=date(2026, 10, 31),
+    )
+    result = layout_check.result(plan, report, [waiver], TODAY)
+    assert result.status is Status.failed
+    assert "expired on 2026-10-31" in result.explanation
+
+
+def test_a_pie_draws_no_axis_labels_to_collide() -> None:
+    definition = make_definition(
+        datasets=[make_category_dataset({"Buses": 50.0, "Trams": 30.0, "Ferries": 20.0})],
+        charts=[
+            {
+                "id": "modes",
+                "intent": "share",
+                "title": "Journeys by mode",
+                "dataset": "punctuality",
+                "category": "route",
+                "measure": "on_time",
+                "allow_pie": True,
+            }
+        ],
+    )
+    plan = run_checks(definition).charts[0].plan
+    assert plan.form == "pie"
+    report = layout.mend(charts.figure_for(plan))
+    assert report.clean
+    assert not report.actions

@@ -70,6 +70,8 @@ def test_gap_is_not_joined_and_partial_point_stands_alone() -> None:
     partial = plan.partial
     assert partial is not None
     lines = [line for line in ax.get_lines() if isinstance(line, Line2D)]
+    drawn = {float(x) for line in lines for x in line.get_xdata()}
+    assert drawn == {0.0, 2.0, 3.0, 4.0}  # every present period, not the gap at index 1
     for line in lines:
         xs = [float(x) for x in line.get_xdata()]
         ys = [float(y) for y in line.get_ydata()]

@@ -60,7 +60,7 @@ def test_monthly_series_with_gaps_is_proportional() -> None:
     assert plan.periods[2] == "May 2026"
     assert plan.periods[5:7] == ["Aug 2026", "Sept 2026"]  # CLDR en-GB: "Sept"
     assert [g.index for g in plan.gaps] == [2, 5, 6]
-    assert "months of 28–31 days take the same width" in found.explanation
+    assert "a month of 28 days takes the width of one of 31" in found.explanation
 
 
 def test_a_plan_that_drops_a_gap_period_fails() -> None:
