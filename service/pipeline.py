@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
-from service import formatting, intents
+from service import formatting, glyphs, intents
 from service.checks import engine, registry
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import Status, summary, summary_line
@@ -70,10 +70,53 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
             continue  # its dataset or its own fields are already reported
         problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
     problems.extend(_empty_measures(definition, tables, problems))
+    problems.extend(_undrawable_text(definition, tables))
     problems.extend(_table_limits(definition, tables, limits))
     if problems:
         raise InvalidDefinition(problems)
     return Intake(definition, tables, hashlib.sha256(data).hexdigest())
+
+
+def _texts(definition: ReportDefinition, tables: dict[str, Table]) -> list[tuple[str, str]]:
+    """Every piece of user text that reaches the page, with its path."""
+    r = definition.report
+    out = [("report.title", r.title), ("report.owner", r.owner), ("report.audience", r.audience)]
+    for s, section in enumerate(definition.sections):
+        out += [
+            (f"sections[{s}].heading", section.heading),
+            (f"sections[{s}].narrative", section.narrative),
+        ]
+        for t, spec in enumerate(section.tables):
+            out.append((f"sections[{s}].tables[{t}].title", spec.title))
+    for path, chart in definition.charts():
+        out += [
+            (f"{path}.{f}", getattr(chart, f))
+            for f in ("title", "subtitle", "note", "source", "description")
+        ]
+    for d, dataset in enumerate(definition.datasets):
+        out.append((f"datasets[{d}].source", dataset.source))
+        for c, column in enumerate(dataset.columns):
+            out += [
+                (f"datasets[{d}].columns[{c}].name", column.name),
+                (f"datasets[{d}].columns[{c}].unit", column.unit),
+            ]
+            loaded = tables.get(dataset.name)
+            if loaded is not None and column.type.value == "text":
+                values = loaded.frame[column.name].dropna().unique()
+                out += [(f"datasets[{d}].rows[*].{column.name}", str(v)) for v in values]
+    return [(p, t) for p, t in out if t]
+
+
+def _undrawable_text(definition: ReportDefinition, tables: dict[str, Table]) -> list[Problem]:
+    hint = {
+        "glyph_missing": "use characters of Latin, Greek or Cyrillic scripts, or describe the "
+        "symbol in words",
+        "right_to_left_text": "give the text in a left-to-right script for now",
+    }
+    return [
+        Problem(code, path, message, hint[code], text)
+        for path, code, message, text in glyphs.problems_in(_texts(definition, tables))
+    ]
 
 
 def _empty_measures(

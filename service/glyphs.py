@@ -1,0 +1,73 @@
+"""Can the pack's one typeface draw this text? Checked before anything is drawn.
+
+A character missing from the font is drawn silently as an empty box, and right-to-left scripts need
+shaping and reordering that neither matplotlib nor reportlab does: both would mislead a reader
+without a word. So user text is checked against the font's character map (DejaVu Sans, shipped with
+matplotlib, used for charts and text alike) and refused with a clear problem instead.
+"""
+
+from __future__ import annotations
+
+import unicodedata
+from collections.abc import Iterable
+from functools import lru_cache
+from pathlib import Path
+
+import matplotlib
+from fontTools.ttLib import TTFont
+
+_FACES = ("DejaVuSans.ttf", "DejaVuSans-Bold.ttf", "DejaVuSans-Oblique.ttf")
+
+
+@lru_cache(maxsize=1)
+def covered() -> frozenset[int]:
+    """Code points every face of the house typeface can draw."""
+    folder = Path(matplotlib.get_data_path()) / "fonts" / "ttf"
+    sets = []
+    for face in _FACES:
+        font = TTFont(folder / face, lazy=True)
+        sets.append(frozenset(font.getBestCmap()))
+        font.close()
+    return frozenset.intersection(*sets)
+
+
+def missing(text: str) -> list[str]:
+    """Characters of ``text`` the typeface cannot draw (control and space characters aside)."""
+    have = covered()
+    return list(
+        dict.fromkeys(
+            c
+            for c in text
+            if ord(c) not in have
+            and not c.isspace()
+            and unicodedata.category(c) not in {"Cc", "Cf"}
+        )
+    )
+
+
+def right_to_left(text: str) -> bool:
+    return any(unicodedata.bidirectional(c) in {"R", "AL"} for c in text)
+
+
+def problems_in(items: Iterable[tuple[str, str]]) -> Iterable[tuple[str, str, str, str]]:
+    """(path, code, message, text) for each piece of text that cannot be drawn as written."""
+    for path, text in items:
+        if not text:
+            continue
+        if right_to_left(text):
+            yield (
+                path,
+                "right_to_left_text",
+                "right-to-left text cannot yet be laid out correctly in a pack",
+                text,
+            )
+            continue
+        absent = missing(text)
+        if absent:
+            shown = ", ".join(f"'{c}' (U+{ord(c):04X})" for c in absent[:5])
+            yield (
+                path,
+                "glyph_missing",
+                f"the typeface cannot draw {shown}; it would print as an empty box",
+                text,
+            )
