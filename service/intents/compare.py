@@ -18,39 +18,14 @@ from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import CompareChart
 from service.errors import Problem
-from service.intents import scales
+from service.intents import categories, scales
 from service.intents.plan import Category, ChartPlan, Scale, heading
 from service.intents.registry import Encoder, Env, register
 
 
 def problems(chart: CompareChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
     labels = table.frame[chart.category]
-    if len(labels) > limits.max_categories:
-        yield Problem.over_limit(
-            f"{path}.category",
-            "categories",
-            len(labels),
-            setting="max_categories",
-            limit=limits.max_categories,
-            advice="show the largest categories and group the rest as 'Other' in the data",
-        )
-    if labels.isna().any():
-        yield Problem(
-            "category_missing",
-            f"{path}.category",
-            f"{int(labels.isna().sum())} rows of dataset '{table.name}' have no '{chart.category}'",
-            "give every row a category label",
-            None,
-        )
-    repeated = labels[labels.duplicated() & labels.notna()]
-    if not repeated.empty:
-        yield Problem(
-            "duplicate_category",
-            f"{path}.category",
-            f"categories appear more than once: {', '.join(map(str, repeated.unique()[:5]))}",
-            "give one row per category (add the rows up in the data first)",
-            str(repeated.iloc[0]),
-        )
+    yield from categories.problems(table, chart.category, path, limits)
     yield from _interval_problems(chart, table, path)
     if len(labels) == 0:
         yield Problem(

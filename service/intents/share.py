@@ -39,7 +39,7 @@ from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import ShareChart
 from service.errors import Problem
-from service.intents import scales
+from service.intents import categories, scales
 from service.intents.plan import Category, ChartPlan, Scale, heading
 from service.intents.registry import Encoder, Env, register
 
@@ -154,33 +154,15 @@ def problems(chart: ShareChart, table: Table, path: str, limits: Limits) -> Iter
             table.name,
         )
     absent = [e for e in chart.expected_categories or [] if e not in set(labels.dropna())]
-    count = len(labels) + len(set(absent))
-    if count > limits.max_categories:
-        yield Problem.over_limit(
-            f"{path}.category",
-            "parts",
-            count,
-            setting="max_categories",
-            limit=limits.max_categories,
-            advice="show the largest parts and group the rest as 'Other' in the data",
-        )
-    if labels.isna().any():
-        yield Problem(
-            "category_missing",
-            f"{path}.category",
-            f"{int(labels.isna().sum())} rows of dataset '{table.name}' have no '{chart.category}'",
-            "give every part a label",
-            None,
-        )
-    repeated = labels[labels.duplicated() & labels.notna()]
-    if not repeated.empty:
-        yield Problem(
-            "duplicate_category",
-            f"{path}.category",
-            f"parts appear more than once: {', '.join(map(str, repeated.unique()[:5]))}",
-            "give one row per part (add the rows up in the data first)",
-            str(repeated.iloc[0]),
-        )
+    yield from categories.problems(
+        table,
+        chart.category,
+        path,
+        limits,
+        count=len(labels) + len(set(absent)),
+        noun="parts",
+        advice="show the largest parts and group the rest as 'Other' in the data",
+    )
     values = table.frame[chart.measure]
     if len(labels) and values.notna().any() and values.fillna(0).sum() == 0:
         yield Problem(

@@ -22,7 +22,7 @@ from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import TargetChart
 from service.errors import Problem
-from service.intents import scales
+from service.intents import categories, scales
 from service.intents.plan import Category, ChartPlan, Reference, Scale, heading
 from service.intents.registry import Encoder, Env, register
 
@@ -41,32 +41,13 @@ def problems(chart: TargetChart, table: Table, path: str, limits: Limits) -> Ite
             table.name,
         )
         return
-    if len(labels) > limits.max_categories:
-        yield Problem.over_limit(
-            f"{path}.category",
-            "categories",
-            len(labels),
-            setting="max_categories",
-            limit=limits.max_categories,
-            advice="show the categories furthest from target and group the rest in the data",
-        )
-    if labels.isna().any():
-        yield Problem(
-            "category_missing",
-            f"{path}.category",
-            f"{int(labels.isna().sum())} rows of dataset '{table.name}' have no '{chart.category}'",
-            "give every row a category label",
-            None,
-        )
-    repeated = labels[labels.duplicated() & labels.notna()]
-    if not repeated.empty:
-        yield Problem(
-            "duplicate_category",
-            f"{path}.category",
-            f"categories appear more than once: {', '.join(map(str, repeated.unique()[:5]))}",
-            "give one row per category (add the rows up in the data first)",
-            str(repeated.iloc[0]),
-        )
+    yield from categories.problems(
+        table,
+        chart.category,
+        path,
+        limits,
+        advice="show the categories furthest from target and group the rest in the data",
+    )
     if chart.target is not None:
         actual_unit = table.units.get(chart.actual, "")
         target_unit = table.units.get(chart.target, "")
