@@ -116,7 +116,11 @@ def _appendix_row(result: CheckResult, locale: str) -> AppendixRow:
         chart=result.chart,
         check=result.check,
         status=result.status.value,
-        measured=result.measured_text,
+        measured=(
+            f"{result.measured_text} → {result.corrected_to}"
+            if result.corrected_to
+            else result.measured_text
+        ),
         threshold=result.threshold,
         explanation=explanation,
     )
