@@ -1,4 +1,4 @@
-"""The ``plumbline`` command: schema, checks, check, render, serve.
+"""The ``plumbline`` command: schema, checks, check, render, verify, serve.
 
 Exit codes: 0 success; 1 an unwaived check failed (``render`` still writes the draft); 2 the input is
 invalid (every problem is printed with its path) or cannot be read; 3 a fault inside Plumbline.
@@ -70,6 +70,21 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", type=Path, required=True, help="where to write the PDF")
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.set_defaults(run=_render)
+
+    p = sub.add_parser("verify", help="verify a sealed pack: signature, attachments, re-render")
+    p.add_argument("pack", type=Path)
+    p.add_argument(
+        "--trust",
+        type=Path,
+        action="append",
+        default=[],
+        help="a trusted certificate (PEM); repeatable; default: the development certificate",
+    )
+    p.add_argument(
+        "--no-rerender", action="store_true", help="skip re-rendering the attached definition"
+    )
+    p.add_argument("--json", action="store_true", help="machine-readable output")
+    p.set_defaults(run=_verify)
 
     p = sub.add_parser("serve", help="start the HTTP service")
     p.add_argument("--host", default=None)
@@ -198,6 +213,27 @@ def _render(args: argparse.Namespace, settings: Settings) -> int:
         print(built.summary)
         _blocked_message(built.blocked, built.results)
     return EXIT_FAILED_CHECKS if built.blocked else EXIT_OK
+
+
+def _verify(args: argparse.Namespace, settings: Settings) -> int:
+    from service import pipeline, seal
+    from service.seal import keys, verify
+
+    roots = [_read(path) for path in args.trust]
+    development = keys.development_certificate(settings.data_dir / "keys")
+    if not roots and development is not None:
+        roots = [development]
+    rerender = None
+    if not args.no_rerender:
+        rerender = seal.rerender_with(lambda raw: pipeline.build(raw, settings.limits).pdf)
+    report = verify.verify(_read(args.pack), trust_roots=roots, rerender=rerender)
+    if args.json:
+        print(json.dumps(report.as_dict(), indent=2))
+    else:
+        for step in report.steps:
+            print(f"{'ok  ' if step.ok else 'FAIL'}  {step.name}: {step.detail}")
+        print("verified" if report.ok else "NOT verified: see the failed steps above")
+    return EXIT_OK if report.ok else EXIT_FAILED_CHECKS
 
 
 def _serve(args: argparse.Namespace, settings: Settings) -> int:

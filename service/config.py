@@ -39,6 +39,10 @@ class Settings(BaseSettings):
     host: str = "127.0.0.1"
     port: int = Field(8000, ge=0, le=65535)
     limits: Limits = Limits()
+    seal_key: Path | None = None
+    """PLUMBLINE_SEAL_KEY: the organisation's signing key (PEM); else a development key is used."""
+    seal_cert: Path | None = None
+    """PLUMBLINE_SEAL_CERT: the certificate of that key (PEM)."""
 
     @model_validator(mode="after")
     def _default_database(self) -> Settings:
