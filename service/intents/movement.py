@@ -182,7 +182,7 @@ def assess(chart: MovementChart, table: Table, env: Env) -> Reading:
     value = judged[last] or 0.0
     why = reasons(value, limits, fired.get(last, []), chart.run_length)
     band = (
-        f"limits {shown(limits.lower, False)}–{shown(limits.upper, False)}; "
+        f"limits {shown(limits.lower, False)} to {shown(limits.upper, False)}; "
         f"moving-range limit {shown(limits.range_limit, False)}"
     )
     previous = judged[last - 1] if last > 0 else None
@@ -191,7 +191,7 @@ def assess(chart: MovementChart, table: Table, env: Env) -> Reading:
     else:
         change = value - previous
         sign = "+" if change > 0 else ""
-        opening = f"Latest change {sign}{shown(change)} ({labels[last - 1]} → {labels[last]})"
+        opening = f"Latest change {sign}{shown(change)} ({labels[last - 1]} to {labels[last]})"
         if abs(change) > limits.range_limit:
             why.append("moving range beyond its limit")
     if why:

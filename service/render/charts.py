@@ -9,6 +9,7 @@ from importlib import import_module
 
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.figure import Figure
+from matplotlib.text import Text
 
 from service.checks.layout import LayoutReport
 from service.errors import RenderFailed
@@ -53,7 +54,15 @@ def figure_for(plan: ChartPlan) -> Figure:
             )
     except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
         raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
+    for text in figure.findobj(Text):
+        # Ligature glyphs (ff, fi) land in a second font subset at code 0, which PDF/A checks
+        # read as .notdef; spelt out, they stay in the first subset.
+        text.set_fontfeatures(NO_LIGATURES)  # (matplotlib 3.11 ignores them in multi-line text)
     return figure
+
+
+#: OpenType features switched off for every text on a chart.
+NO_LIGATURES = ("-liga", "-clig")
 
 
 def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:

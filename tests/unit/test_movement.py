@@ -135,7 +135,7 @@ def test_final_big_jump_is_a_signal() -> None:
     assert headline.signal
     assert headline.index == 23
     assert headline.text.startswith("Latest change +")
-    assert "(Sept 2026 → Oct 2026): signal (rule 1: beyond the upper limit" in headline.text
+    assert "(Sept 2026 to Oct 2026): signal (rule 1: beyond the upper limit" in headline.text
     assert "moving range beyond its limit" in headline.text
     found = result_of(checked, "delta-verdict")
     assert (found.status, found.measured) == (Status.passed, "signal")
@@ -160,7 +160,7 @@ def test_noise_is_routine_variation() -> None:
     limits = xmr(NOISE)
     assert not headline.signal
     assert headline.text.endswith(
-        f"within routine variation (limits {limits.lower:.1f}–{limits.upper:.1f}; "
+        f"within routine variation (limits {limits.lower:.1f} to {limits.upper:.1f}; "
         f"moving-range limit {limits.range_limit:.1f})"
     )
     assert all(not v.signal for v in plan.verdicts)
