@@ -25,7 +25,7 @@ from service.data import periods
 from service.data.frames import Table
 from service.definition.model import RelativeChangeChart
 from service.errors import Problem
-from service.intents import scales
+from service.intents import scales, timeseries
 from service.intents.compare import scale_note
 from service.intents.plan import (
     ChartPlan,
@@ -90,23 +90,9 @@ def units_text(chart: RelativeChangeChart, table: Table) -> str | None:
 def problems(
     chart: RelativeChangeChart, table: Table, path: str, limits: Limits
 ) -> Iterable[Problem]:
-    if len(chart.measures) > limits.max_series:
-        yield Problem.over_limit(
-            f"{path}.measures",
-            "measures",
-            len(chart.measures),
-            setting="max_series",
-            limit=limits.max_series,
-            advice="split the chart",
-        )
-    if table.periods is None or len(table.periods) == 0:
-        yield Problem(
-            "empty_dataset",
-            f"{path}.dataset",
-            f"dataset '{table.name}' has no rows to draw",
-            "add rows",
-            table.name,
-        )
+    found = timeseries.problems(list(chart.measures), table, path, limits, noun="measures")
+    yield from found
+    if not timeseries.drawable(found):
         return
     empty = {m for m in chart.measures if table.frame[m].isna().all()}
     for i, measure in enumerate(chart.measures):

@@ -18,30 +18,16 @@ from service.data import periods
 from service.data.frames import Table
 from service.definition.model import TrendChart
 from service.errors import Problem
-from service.intents import scales
+from service.intents import scales, timeseries
 from service.intents.compare import scale_note
 from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series, heading
 from service.intents.registry import Encoder, Env, register
 
 
 def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
-    if len(chart.measures) > limits.max_series:
-        yield Problem.over_limit(
-            f"{path}.measures",
-            "series",
-            len(chart.measures),
-            setting="max_series",
-            limit=limits.max_series,
-            advice="split the chart",
-        )
-    if table.periods is None or len(table.periods) == 0:
-        yield Problem(
-            "empty_dataset",
-            f"{path}.dataset",
-            f"dataset '{table.name}' has no rows to draw",
-            "add rows",
-            table.name,
-        )
+    found = timeseries.problems(list(chart.measures), table, path, limits)
+    yield from found
+    if not timeseries.drawable(found):
         return
     for i, measure in enumerate(chart.measures):
         if chart.scale == "log" and (table.frame[measure] <= 0).any():
