@@ -1,4 +1,4 @@
-"""The ``plumbline`` command: schema, checks, check, render, verify, serve.
+"""The ``plumbline`` command: schema, checks, check, render, verify, keys, serve.
 
 Exit codes: 0 success; 1 an unwaived check failed (``render`` still writes the draft); 2 the input is
 invalid (every problem is printed with its path) or cannot be read; 3 a fault inside Plumbline.
@@ -10,6 +10,7 @@ import argparse
 import json
 import sys
 import uuid
+from datetime import datetime
 from pathlib import Path
 from typing import Any
 
@@ -85,6 +86,26 @@ def _parser() -> argparse.ArgumentParser:
     )
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.set_defaults(run=_verify)
+
+    p = sub.add_parser("keys", help="manage API keys (people and their roles)")
+    actions = p.add_subparsers(metavar="ACTION")
+    c = actions.add_parser("create", help="make a key; its secret is shown once")
+    c.add_argument("--name", required=True, help="the person or system the key belongs to")
+    c.add_argument(
+        "--role",
+        action="append",
+        required=True,
+        choices=["author", "reviewer", "approver", "auditor", "admin"],
+        help="repeatable",
+    )
+    c.add_argument(
+        "--family", action="append", required=True, help="a report-id prefix, or '*'; repeatable"
+    )
+    c.add_argument("--expires", type=_aware_time, help="ISO 8601 time with a zone")
+    c.set_defaults(run=_keys_create)
+    r = actions.add_parser("revoke", help="revoke a key")
+    r.add_argument("key_id")
+    r.set_defaults(run=_keys_revoke)
 
     p = sub.add_parser("serve", help="start the HTTP service")
     p.add_argument("--host", default=None)
@@ -234,6 +255,39 @@ def _verify(args: argparse.Namespace, settings: Settings) -> int:
             print(f"{'ok  ' if step.ok else 'FAIL'}  {step.name}: {step.detail}")
         print("verified" if report.ok else "NOT verified: see the failed steps above")
     return EXIT_OK if report.ok else EXIT_FAILED_CHECKS
+
+
+def _aware_time(text: str) -> datetime:
+    value = datetime.fromisoformat(text)
+    if value.tzinfo is None:
+        raise argparse.ArgumentTypeError("give a time zone, e.g. 2027-01-31T00:00:00+00:00")
+    return value
+
+
+def _keys_create(args: argparse.Namespace, settings: Settings) -> int:
+    from service.archive import db
+    from service.workflow import keys
+
+    settings.data_dir.mkdir(parents=True, exist_ok=True)
+    key_id, secret = keys.create(
+        db.connect(settings.database_url),
+        name=args.name,
+        roles={keys.Role(v) for v in args.role},
+        families=set(args.family),
+        expires=args.expires,
+    )
+    print(f"key {key_id}")
+    print(f"secret (shown once; store it now): {secret}")
+    return EXIT_OK
+
+
+def _keys_revoke(args: argparse.Namespace, settings: Settings) -> int:
+    from service.archive import db
+    from service.workflow import keys
+
+    done = keys.revoke(db.connect(settings.database_url), key_id=args.key_id)
+    print(f"revoked {args.key_id}" if done else f"{args.key_id} was already revoked")
+    return EXIT_OK
 
 
 def _serve(args: argparse.Namespace, settings: Settings) -> int:

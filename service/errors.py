@@ -7,7 +7,11 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── InvalidDefinition (422, invalid_definition)   every problem found, each with a path
     ├── PayloadTooLarge (413, payload_too_large)       before the body is parsed
     ├── Unreadable (400, unreadable_input)            a file the CLI was given cannot be read
+    ├── Unauthorized (401, unauthorized)               no key, or an unknown, revoked or expired one
+    ├── Forbidden (403, forbidden)                     the key's roles do not allow the action
     ├── NotFound (404, not_found)
+    ├── Conflict (409, conflict)                       an illegal transition, a changed draft, a race
+    ├── InvalidRequest (422, invalid_request)          a request that is not a definition is wrong
     └── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
 
 Foreign exceptions are translated at the stage boundary (``raise RenderFailed(...) from exc``).
@@ -113,6 +117,26 @@ def _payload_too_large(size: int, limit: int) -> PayloadTooLarge:
 class Unreadable(PlumblineError):
     code = "unreadable_input"
     status = 400
+
+
+class Unauthorized(PlumblineError):
+    code = "unauthorized"
+    status = 401
+
+
+class Forbidden(PlumblineError):
+    code = "forbidden"
+    status = 403
+
+
+class Conflict(PlumblineError):
+    code = "conflict"
+    status = 409
+
+
+class InvalidRequest(PlumblineError):
+    code = "invalid_request"
+    status = 422
 
 
 class NotFound(PlumblineError):

@@ -1,0 +1,193 @@
+"""API keys: who may act on packs, in which roles, and on which report families.
+
+A secret is ``<key id>.<43 random URL-safe characters>`` (256 bits from :mod:`secrets`). It is
+returned once by :func:`create` and never stored: the ``keys`` table keeps a per-key random salt and
+the scrypt hash of the secret (n=2**14, r=8, p=1: 16 MiB, tens of milliseconds). scrypt rather than
+PBKDF2 because it is memory-hard, so a stolen table is costly to attack on GPUs even for a weaker
+secret; with 256-bit random secrets the hash is defence in depth. The key id in the secret finds
+the row; the hash is compared with :func:`hmac.compare_digest`, and an unknown key id still pays for
+one hash, so timing does not tell which key ids exist.
+
+Families are report-id prefixes on a word boundary: ``hollin-vale`` grants ``hollin-vale`` and
+``hollin-vale-ops-monthly`` (or ``hollin-vale_…``) but not ``hollin-valley``; ``*`` grants every
+report. Roles are explicit: ``admin`` manages keys and implies no other role (separation of duties
+would mean little if one role could do everything).
+"""
+
+from __future__ import annotations
+
+import hashlib
+import hmac
+import re
+import secrets
+import uuid
+from dataclasses import dataclass
+from datetime import datetime
+from enum import StrEnum
+from typing import Any
+
+from sqlalchemy.orm import Session, sessionmaker
+
+from service.archive import audit
+from service.archive.db import KeyRow, now, utc
+from service.errors import Forbidden, InvalidRequest, NotFound, Unauthorized
+
+KDF = "scrypt-n16384-r8-p1"
+_N, _R, _P = 2**14, 8, 1
+_FAMILY = re.compile(r"^(\*|[a-z0-9][a-z0-9_-]{0,63})$")
+_DUMMY_SALT = bytes(16)
+
+
+class Role(StrEnum):
+    author = "author"
+    reviewer = "reviewer"
+    approver = "approver"
+    auditor = "auditor"
+    """Reads packs and the audit trail; changes nothing."""
+    admin = "admin"
+    """Creates and revokes keys."""
+
+
+@dataclass(frozen=True)
+class Principal:
+    key_id: str
+    name: str
+    roles: frozenset[Role]
+    families: frozenset[str]
+
+    def require(self, *roles: Role) -> None:
+        """Raise :class:`Forbidden` unless the key holds one of ``roles``."""
+        if not self.roles & set(roles):
+            wanted = " or ".join(r.value for r in roles)
+            raise Forbidden(
+                f"the key '{self.key_id}' ({self.name}) does not have the {wanted} role"
+            )
+
+
+def create(
+    sessions: sessionmaker[Any],
+    *,
+    name: str,
+    roles: set[Role],
+    families: set[str],
+    expires: datetime | None,
+    by: Principal | None = None,
+) -> tuple[str, str]:
+    """A new key: returns ``(key_id, secret)``; the secret cannot be recovered later.
+
+    ``by`` is the admin making it, or ``None`` from the command line (the operator's own console).
+    """
+    if by is not None:
+        by.require(Role.admin)
+    _validate(name=name, roles=roles, families=families, expires=expires)
+    key_id = f"key_{uuid.uuid4().hex[:16]}"
+    secret = f"{key_id}.{secrets.token_urlsafe(32)}"
+    salt = secrets.token_bytes(16)
+    with sessions.begin() as session:
+        session.add(
+            KeyRow(
+                id=key_id,
+                name=name.strip(),
+                roles=sorted(r.value for r in roles),
+                families=sorted(families),
+                kdf=KDF,
+                salt=salt.hex(),
+                secret_hash=_hash(secret, salt).hex(),
+                created_at=now(),
+                expires_at=None if expires is None else utc(expires),
+                revoked_at=None,
+            )
+        )
+        detail: dict[str, Any] = {"key": key_id, "name": name.strip()}
+        detail["roles"] = sorted(r.value for r in roles)
+        detail["families"] = sorted(families)
+        detail["expires"] = None if expires is None else utc(expires).isoformat()
+        _audit(session, by, "key.created", detail)
+    return key_id, secret
+
+
+def authenticate(
+    sessions: sessionmaker[Any], secret: str, *, at: datetime | None = None
+) -> Principal:
+    """The principal a secret belongs to; :class:`Unauthorized` if unknown, revoked or expired."""
+    key_id, _, _ = secret.partition(".")
+    with sessions() as session:
+        row = session.get(KeyRow, key_id) if key_id else None
+    if row is None:
+        _hash(secret, _DUMMY_SALT)  # the same work as for a real key
+        raise Unauthorized("the API key is not valid")
+    if not hmac.compare_digest(_hash(secret, bytes.fromhex(row.salt)).hex(), row.secret_hash):
+        raise Unauthorized("the API key is not valid")
+    if row.revoked_at is not None:
+        raise Unauthorized(f"the API key '{row.id}' was revoked")
+    moment = utc(at) if at is not None else now()
+    if row.expires_at is not None and utc(row.expires_at) <= moment:
+        raise Unauthorized(f"the API key '{row.id}' expired at {utc(row.expires_at).isoformat()}")
+    return Principal(
+        key_id=row.id,
+        name=row.name,
+        roles=frozenset(Role(r) for r in row.roles),
+        families=frozenset(row.families),
+    )
+
+
+def revoke(sessions: sessionmaker[Any], *, key_id: str, by: Principal | None = None) -> bool:
+    """Revoke a key from now on; ``False`` if it was revoked already."""
+    if by is not None:
+        by.require(Role.admin)
+    with sessions.begin() as session:
+        row = session.get(KeyRow, key_id)
+        if row is None:
+            raise NotFound(f"there is no key '{key_id}'")
+        if row.revoked_at is not None:
+            return False
+        row.revoked_at = now()
+        _audit(session, by, "key.revoked", {"key": key_id, "name": row.name})
+    return True
+
+
+def can_see(principal: Principal, report_id: str) -> bool:
+    """Whether the key's families include this report id (prefix on a ``-``/``_`` boundary)."""
+    return any(_grants(family, report_id) for family in principal.families)
+
+
+def _grants(family: str, report_id: str) -> bool:
+    if family in ("*", report_id):
+        return True
+    return report_id.startswith(family) and report_id[len(family)] in "-_"
+
+
+def _validate(*, name: str, roles: set[Role], families: set[str], expires: datetime | None) -> None:
+    if not name.strip():
+        raise InvalidRequest("a key needs the name of the person or system that holds it")
+    if not roles or not all(isinstance(r, Role) for r in roles):
+        raise InvalidRequest(f"give one or more roles of: {', '.join(r.value for r in Role)}")
+    bad = sorted(f for f in families if not _FAMILY.match(f))
+    if not families or bad:
+        raise InvalidRequest(
+            f"give one or more report families (a report-id prefix, or '*'); not valid: {bad}"
+        )
+    if expires is not None and expires.tzinfo is None:
+        raise InvalidRequest("the expiry time needs a time zone")
+
+
+def _hash(secret: str, salt: bytes) -> bytes:
+    return hashlib.scrypt(secret.encode(), salt=salt, n=_N, r=_R, p=_P, dklen=32)
+
+
+def _audit(session: Session, by: Principal | None, action: str, detail: dict[str, Any]) -> None:
+    who = (by.key_id, by.name) if by is not None else (None, "command line")
+    audit.append(session, key_id=who[0], name=who[1], action=action, detail=detail)
+
+
+__all__ = [
+    "Forbidden",
+    "InvalidRequest",
+    "Principal",
+    "Role",
+    "Unauthorized",
+    "authenticate",
+    "can_see",
+    "create",
+    "revoke",
+]
