@@ -126,6 +126,35 @@ async def check_definition(request: Request, services: ServicesDep) -> dict[str,
     }
 
 
+@router.post(
+    "/verify",
+    tags=["archive"],
+    responses={413: _PROBLEM},
+    openapi_extra={
+        "requestBody": {
+            "required": True,
+            "content": {"application/pdf": {"schema": {"type": "string", "format": "binary"}}},
+        }
+    },
+)
+async def verify_pack(request: Request, services: ServicesDep) -> dict[str, Any]:
+    """Verify a sealed pack step by step: signature intact, valid, trusted and by whom; nothing
+    appended; the attachments' hashes; re-rendering the attached definition gives the same bytes.
+
+    Trusted: the organisation's certificate when configured, else the development certificate."""
+    from service.seal import keys
+
+    pdf = await request.body()
+    settings = services.settings
+    roots: list[bytes] = []
+    if settings.seal_cert is not None:
+        roots.append(settings.seal_cert.read_bytes())
+    development = keys.development_certificate(settings.data_dir / "keys")
+    if development is not None:
+        roots.append(development)
+    return await services.workers.verify(pdf, roots, settings.limits)
+
+
 @router.get("/reports/{pack_id}", tags=["reports"], responses={404: _PROBLEM})
 def get_report(pack: PackDep) -> dict[str, Any]:
     """A stored pack: its report, status, check summary and links."""

@@ -5,17 +5,30 @@ from __future__ import annotations
 
 import asyncio
 import multiprocessing
+from collections.abc import Callable
 from concurrent.futures import ProcessPoolExecutor
 from concurrent.futures.process import BrokenProcessPool
+from typing import Any, TypeVar
 
 from service import pipeline
 from service.config import Limits
 from service.errors import RenderFailed
 from service.render import style
 
+T = TypeVar("T")
+
 
 def _start_worker() -> None:
     style.install()
+
+
+def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> dict[str, Any]:
+    """Verify a sealed pack in a worker: the re-render draws, so it must not run on the loop."""
+    from service import seal
+    from service.seal import verify
+
+    rerender = seal.rerender_with(lambda raw: pipeline.build(raw, limits).pdf)
+    return verify.verify(pdf, trust_roots=roots, rerender=rerender).as_dict()
 
 
 class Workers:
@@ -31,9 +44,15 @@ class Workers:
         )
 
     async def build(self, raw: bytes, limits: Limits) -> pipeline.Built:
+        return await self._run(pipeline.build, raw, limits)
+
+    async def verify(self, pdf: bytes, roots: list[bytes], limits: Limits) -> dict[str, Any]:
+        return await self._run(verify_pack, pdf, roots, limits)
+
+    async def _run(self, job: Callable[..., T], *args: Any) -> T:
         loop = asyncio.get_running_loop()
         try:
-            return await loop.run_in_executor(self._pool, pipeline.build, raw, limits)
+            return await loop.run_in_executor(self._pool, job, *args)
         except BrokenProcessPool:
             self._pool.shutdown(wait=False, cancel_futures=True)
             self._pool = self._new()
