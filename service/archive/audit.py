@@ -4,8 +4,17 @@ Every change to a pack's review or to a key writes one record with :func:`append
 transaction as the change*, so a change without its record (or a record without its change) cannot
 be committed. Sequence numbers are assigned as ``max + 1`` inside the writer's transaction (not by
 a database sequence, which may skip numbers on a rollback), so :func:`gaps` can prove that no
-record was removed. On SQLite the table carries triggers that abort any UPDATE or DELETE
-(``service.archive.db``); on other databases grant the service INSERT and SELECT only.
+record was removed. The database refuses to rewrite a record: the first migration
+(``service/archive/migrations``) gives the table triggers that abort any UPDATE or DELETE on SQLite,
+and UPDATE, DELETE or TRUNCATE on PostgreSQL; on other databases grant the service INSERT and
+SELECT only.
+
+Two writers must not read the same ``max``. On SQLite the caller's transaction holds the database's
+write lock by the time it appends (its first change took it). On PostgreSQL, under READ COMMITTED,
+two transactions could both read ``max`` and clash on ``seq``, so :func:`append` first takes a
+transaction-level advisory lock: writers queue for it until the holder commits or rolls back, and
+the next one reads a ``max`` that includes the committed record. An advisory lock needs no
+privilege beyond connecting, unlike ``LOCK TABLE``, which the INSERT-and-SELECT grant would refuse.
 """
 
 from __future__ import annotations
@@ -14,10 +23,13 @@ from dataclasses import dataclass
 from datetime import datetime
 from typing import Any
 
-from sqlalchemy import func, select
+from sqlalchemy import func, select, text
 from sqlalchemy.orm import Session, sessionmaker
 
 from service.archive.db import AuditRow, now, utc
+
+LOCK_KEY = 0x504C_4155_4454  # any constant bigint; ASCII "PLAUDT": Plumbline's audit writer lock
+"""The PostgreSQL advisory lock held by the transaction that appends an audit record."""
 
 
 @dataclass(frozen=True)
@@ -43,6 +55,8 @@ def append(
     detail: dict[str, Any] | None = None,
 ) -> int:
     """Add one record to the caller's open transaction; returns its sequence number."""
+    if session.get_bind().dialect.name == "postgresql":
+        session.execute(text("SELECT pg_advisory_xact_lock(:key)"), {"key": LOCK_KEY})
     last = session.scalar(select(func.coalesce(func.max(AuditRow.seq), 0)))
     seq = int(last or 0) + 1
     session.add(
