@@ -31,14 +31,20 @@ def covered() -> frozenset[int]:
     return frozenset.intersection(*sets)
 
 
+BMP_END = 0xFFFF
+"""Characters past the Basic Multilingual Plane are refused even where the typeface has them:
+matplotlib puts them at code 0 of a second font subset, which PDF/A validators read as .notdef."""
+
+
 def missing(text: str) -> list[str]:
-    """Characters of ``text`` the typeface cannot draw (control and space characters aside)."""
+    """Characters of ``text`` the typeface cannot draw (control and space characters aside), or
+    cannot draw into an archival PDF (beyond the Basic Multilingual Plane)."""
     have = covered()
     return list(
         dict.fromkeys(
             c
             for c in text
-            if ord(c) not in have
+            if (ord(c) not in have or ord(c) > BMP_END)
             and not c.isspace()
             and unicodedata.category(c) not in {"Cc", "Cf"}
         )

@@ -5,10 +5,14 @@ from __future__ import annotations
 import io
 import textwrap
 import warnings
+from collections.abc import Callable
 from importlib import import_module
+from typing import Any
 
-from matplotlib.backends.backend_pdf import PdfPages
+from matplotlib.backend_bases import GraphicsContextBase, RendererBase
+from matplotlib.backends.backend_pdf import PdfPages, RendererPdf
 from matplotlib.figure import Figure
+from matplotlib.font_manager import FontProperties
 from matplotlib.text import Text
 
 from service.checks.layout import LayoutReport
@@ -24,10 +28,69 @@ for _name in DRAWER_MODULES:
     import_module(f"service.render.{_name}")
 
 
+#: OpenType features switched off for every text on a chart.
+NO_LIGATURES = ("-liga", "-clig")
+
+
+class _Shaping:
+    """What matplotlib's PDF renderer reads from a text artist to shape a line: its features."""
+
+    def __init__(self, language: Any) -> None:
+        self._language = language
+
+    def get_fontfeatures(self) -> tuple[str, ...]:
+        return NO_LIGATURES
+
+    def get_language(self) -> Any:
+        return self._language
+
+
+class ChartFigure(Figure):
+    """A chart's figure: in a PDF, every line of its text is shaped without ligatures.
+
+    matplotlib 3.11 hands the renderer the text artist, and so its font features, only for
+    single-line text; each line of a multi-line text is drawn with ``mtext=None`` and shaped with
+    the font's default features, ligatures on (matplotlib issue #30282). A ligature glyph stands
+    for several characters, so the PDF writer puts it in a second font subset numbered from code 0,
+    and PDF/A validators read CID 0 as .notdef whatever glyph it maps to (ISO 19005-3, 6.2.11.8;
+    pikepdf's validator follows veraPDF here). So while the figure draws into a PDF, a line that
+    comes without features gets the house's.
+    """
+
+    def draw(self, renderer: RendererBase) -> None:
+        # A MixedModeRenderer hands draw_text on to the PDF renderer; a raster or other renderer
+        # is left alone (some read the artist for placement, which a multi-line text would break).
+        pdf = getattr(renderer.draw_text, "__self__", None)
+        if not isinstance(pdf, RendererPdf):
+            super().draw(renderer)
+            return
+        plain: Callable[..., None] = pdf.draw_text
+
+        def draw_text(  # noqa: PLR0917 - matplotlib's draw_text signature, positions included
+            gc: GraphicsContextBase,
+            x: float,
+            y: float,
+            s: str,
+            prop: FontProperties,
+            angle: float,
+            ismath: bool | str = False,
+            mtext: Text | _Shaping | None = None,
+        ) -> None:
+            if mtext is None or mtext.get_fontfeatures() is None:
+                mtext = _Shaping(None if mtext is None else mtext.get_language())
+            plain(gc, x, y, s, prop, angle, ismath, mtext)
+
+        pdf.draw_text = draw_text  # type: ignore[method-assign]  # this page's renderer only
+        try:
+            super().draw(renderer)
+        finally:
+            del pdf.draw_text
+
+
 def figure_for(plan: ChartPlan) -> Figure:
     """The chart as a matplotlib figure (what ``draw`` saves; tests measure its artists)."""
     style.install()
-    figure = Figure(figsize=size_in(plan), layout="constrained")
+    figure = ChartFigure(figsize=size_in(plan), layout="constrained")
     try:
         DRAWERS[plan.form](figure, plan)
         ax = figure.axes[0]
@@ -56,13 +119,10 @@ def figure_for(plan: ChartPlan) -> Figure:
         raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
     for text in figure.findobj(Text):
         # Ligature glyphs (ff, fi) land in a second font subset at code 0, which PDF/A checks
-        # read as .notdef; spelt out, they stay in the first subset.
-        text.set_fontfeatures(NO_LIGATURES)  # (matplotlib 3.11 ignores them in multi-line text)
+        # read as .notdef; spelt out, they stay in the first subset. matplotlib applies these to
+        # single-line text; ChartFigure covers the lines of multi-line text.
+        text.set_fontfeatures(NO_LIGATURES)
     return figure
-
-
-#: OpenType features switched off for every text on a chart.
-NO_LIGATURES = ("-liga", "-clig")
 
 
 def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
@@ -102,4 +162,4 @@ def draw(plan: ChartPlan) -> bytes:
     return buffer.getvalue()
 
 
-__all__ = ["draw", "draw_pages", "figure_for", "size_in"]
+__all__ = ["NO_LIGATURES", "ChartFigure", "draw", "draw_pages", "figure_for", "size_in"]

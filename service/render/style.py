@@ -37,7 +37,7 @@ RC: dict[str, Any] = {
     "axes.linewidth": 0.6,
     "axes.spines.top": False,
     "axes.spines.right": False,
-    "axes.unicode_minus": False,  # U+2212 lands in a second font subset that PDF/A checks flag
+    "axes.unicode_minus": False,  # ASCII minus: numbers read back as typed
     "xtick.color": MUTED,
     "ytick.color": MUTED,
     "xtick.labelcolor": INK,
@@ -48,6 +48,12 @@ RC: dict[str, Any] = {
     "grid.linewidth": 0.6,
     "lines.linewidth": 1.6,
     "pdf.fonttype": 42,  # embedded TrueType subsets with ToUnicode: text stays extractable
+    # matplotlib 3.11's PDF writer sizes its font subsets by ps.fonttype, not pdf.fonttype: at the
+    # default (3) each subset holds 256 codes, so every character beyond Latin-1 (an en dash, an
+    # arrow) went to a second subset numbered from code 0, which PDF/A reads as .notdef. At 42 a
+    # subset holds 65,536: the whole Basic Multilingual Plane stays in the first subset, each
+    # character at its own code point. (Plumbline writes no PostScript.)
+    "ps.fonttype": 42,
     "pdf.compression": 6,
     "svg.hashsalt": "plumbline",
     "text.parse_math": False,  # untrusted labels are never read as mathtext

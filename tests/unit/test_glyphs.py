@@ -51,3 +51,13 @@ def test_ordinary_text_passes() -> None:
         )
     )
     assert not checked.blocked
+
+
+def test_characters_beyond_the_basic_multilingual_plane_are_refused_even_when_the_font_has_them() -> (
+    None
+):
+    # U+10300 OLD ITALIC LETTER A is in DejaVu Sans (asserted below), yet matplotlib would place
+    # it at code 0 of a second font subset, which PDF/A checks (ISO 19005-3 6.2.11.8) reject.
+    bold_a = "\U00010300"
+    assert ord(bold_a) in glyphs.covered()
+    assert glyphs.missing(f"Score {bold_a}") == [bold_a]

@@ -2,8 +2,11 @@
 
 from __future__ import annotations
 
+import io
 import math
+import re
 
+import pikepdf
 import pytest
 from factories import make_compare_definition, make_definition, make_monthly, run_checks
 from matplotlib.axes import Axes
@@ -101,3 +104,45 @@ def test_user_text_is_never_mathtext() -> None:
     labels = [t.get_text() for t in ax.get_yticklabels()]
     assert "$x^2$" in labels
     assert all(not t.get_parse_math() for t in ax.get_yticklabels())
+
+
+def _fonts(pdf_bytes: bytes) -> dict[str, list[tuple[int, str]]]:
+    """Each embedded Type 0 font's (code, text) pairs, read from its ToUnicode CMap.
+
+    matplotlib writes every entry as ``<first> <last> [<text> ...]`` (a bfrange with an array).
+    """
+    fonts: dict[str, list[tuple[int, str]]] = {}
+    with pikepdf.open(io.BytesIO(pdf_bytes)) as pdf:
+        for obj in pdf.objects:
+            if isinstance(obj, pikepdf.Dictionary) and obj.get("/Subtype") == "/Type0":
+                cmap = obj.ToUnicode.read_bytes().decode("ascii")
+                pairs = []
+                for first, _last, texts in re.findall(
+                    r"<([0-9a-f]+)> <([0-9a-f]+)> \[([^\]]*)\]", cmap
+                ):
+                    for offset, hexed in enumerate(re.findall(r"<([0-9a-f]+)>", texts)):
+                        pairs.append(
+                            (int(first, 16) + offset, bytes.fromhex(hexed).decode("utf-16be"))
+                        )
+                fonts[str(obj.BaseFont)] = pairs
+    return fonts
+
+
+def test_multi_line_text_and_characters_beyond_latin_1_stay_in_one_font_subset() -> None:
+    """A two-line note with "ffi" and "fi" and a label with an en dash and an arrow: one subset per
+    face, no ligature glyph, every character at its own code point, and so no code 0, which PDF/A
+    validators read as .notdef whatever glyph it maps to (ISO 19005-3, 6.2.11.8; the rule as
+    pikepdf 10.18's validator states it, following veraPDF)."""
+    label = "7 Mill Lane \u2013 Station \u2192 Depot"
+    plan = run_checks(make_compare_definition({label: 50.0, "b": 55.0})).charts[0].plan
+    notes = ["Staff in the office counted fifty fine days.", "Differences are small."]
+    plan = plan.model_copy(update={"notes": notes})
+    figure = charts.figure_for(plan)
+    assert "\n" in figure.axes[0].get_title(loc="left")  # the note is one multi-line text
+    fonts = _fonts(charts.draw(plan))
+    faces = [name.split("+", 1)[1] for name in fonts]
+    assert sorted(faces) == ["DejaVuSans", "DejaVuSans-Oblique"]  # one subset each
+    pairs = [pair for font in fonts.values() for pair in font]
+    assert all(len(text) == 1 and code == ord(text) for code, text in pairs), pairs
+    shown = {text for _, text in pairs}
+    assert {"\u2013", "\u2192", "f", "i"} <= shown

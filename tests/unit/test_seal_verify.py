@@ -7,6 +7,7 @@ import io
 import json
 from pathlib import Path
 
+import pdfplumber
 import pikepdf
 import pytest
 from factories import BOARDINGS, MONTHS, make_definition, make_monthly
@@ -170,12 +171,6 @@ def test_demo_pack_seals_and_verifies(key: keys.SigningKey) -> None:
     assert report.ok, report.as_dict()
 
 
-@pytest.mark.xfail(
-    reason="matplotlib 3.11 ignores font features in multi-line text, so the ff/fi ligatures of "
-    "two-line chart notes land in a second font subset at code 0, which pikepdf flags as .notdef "
-    "(ISO 19005-3 6.2.11.8-1); single-line text is drawn without ligatures; a render-stage fix",
-    strict=True,
-)
 def test_demo_pack_passes_pikepdfs_pdfa_check() -> None:
     raw = DEMO.read_bytes()
     verdict = pdfa.check(seal.seal_unsigned(_draft(raw), raw))
@@ -192,13 +187,28 @@ def test_single_line_chart_text_with_ligature_pairs_passes_pikepdfs_pdfa_check()
     assert verdict.ok, verdict.messages
 
 
-@pytest.mark.xfail(
-    reason="matplotlib 3.11 puts characters beyond Latin-1 (en dash, arrows) into a second font "
-    "subset at code 0, which pikepdf flags as .notdef (ISO 19005-3 6.2.11.8-1); a render-stage fix",
-    strict=True,
-)
 def test_a_chart_label_beyond_latin_1_passes_pikepdfs_pdfa_check() -> None:
     definition = json.loads(DEMO.read_text())
     definition["datasets"][2]["rows"][0]["route"] = "7 Mill Lane \u2013 Station"
     raw = json.dumps(definition).encode()
     assert pdfa.check(seal.seal_unsigned(_draft(raw), raw)).ok
+
+
+def test_multi_line_note_with_ligature_pairs_and_label_beyond_latin_1_pass_and_read_back() -> None:
+    """The rating chart's two notes make its title two lines; its unit puts "ffi" and "fi" in the
+    first, and one route's label has an en dash (U+2013) and an arrow (U+2192). pikepdf's PDF/A-3b
+    check must find no .notdef (ISO 19005-3, 6.2.11.8), and pdfplumber must read the text back."""
+    definition = json.loads(DEMO.read_text())
+    rating = next(d for d in definition["datasets"] if d["name"] == "satisfaction")
+    rating["columns"][1]["unit"] = "official fit points"
+    rating["rows"][0]["route"] = "7 Mill Lane \u2013 Station \u2192 Depot"
+    raw = json.dumps(definition).encode()
+    plans = {c.plan.chart_id: c.plan for c in pipeline.check(pipeline.intake(raw, Limits())).charts}
+    assert len(plans["rating-by-route"].notes) == 2  # so the notes are drawn as two lines
+    sealed = seal.seal_unsigned(_draft(raw), raw)
+    verdict = pdfa.check(sealed)
+    assert verdict.ok, verdict.messages
+    with pdfplumber.open(io.BytesIO(sealed)) as pdf:
+        text = "\n".join(page.extract_text() or "" for page in pdf.pages)
+    assert "Scale starts at 3.6 official fit points, not zero" in text
+    assert "7 Mill Lane \u2013 Station \u2192 Depot" in text
