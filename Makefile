@@ -21,6 +21,7 @@ $(VENV)/.installed-test: pyproject.toml | $(BIN)/python
 demo: $(VENV)/.installed
 	@mkdir -p out
 	$(BIN)/plumbline render $(DEMO) -o out/bus-cooperative-monthly.pdf
+	$(BIN)/plumbline walkthrough $(DEMO) -o out/bus-cooperative-monthly-sealed.pdf
 
 lint: $(VENV)/.installed-test
 	$(BIN)/ruff check service tests

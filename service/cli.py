@@ -1,4 +1,4 @@
-"""The ``plumbline`` command: schema, checks, check, render, verify, keys, serve.
+"""The ``plumbline`` command: schema, checks, check, render, walkthrough, verify, keys, serve.
 
 Exit codes: 0 success; 1 an unwaived check failed (``render`` still writes the draft); 2 the input is
 invalid (every problem is printed with its path) or cannot be read; 3 a fault inside Plumbline.
@@ -84,8 +84,21 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument(
         "--no-rerender", action="store_true", help="skip re-rendering the attached definition"
     )
+    p.add_argument(
+        "--no-archive",
+        action="store_true",
+        help="do not compare the file with the archive's record of the sealed pack",
+    )
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.set_defaults(run=_verify)
+
+    p = sub.add_parser(
+        "walkthrough",
+        help="take a definition through review, sign-off and sealing with demonstration keys",
+    )
+    p.add_argument("definition", type=Path)
+    p.add_argument("-o", "--output", type=Path, required=True, help="where to write the sealed PDF")
+    p.set_defaults(run=_walkthrough)
 
     p = sub.add_parser("keys", help="manage API keys (people and their roles)")
     actions = p.add_subparsers(metavar="ACTION")
@@ -237,8 +250,9 @@ def _render(args: argparse.Namespace, settings: Settings) -> int:
 
 
 def _verify(args: argparse.Namespace, settings: Settings) -> int:
-    from service import pipeline, seal
+    from service.archive import db
     from service.seal import keys, verify
+    from service.workflow import sealing
 
     roots = [_read(path) for path in args.trust]
     development = keys.development_certificate(settings.data_dir / "keys")
@@ -246,14 +260,44 @@ def _verify(args: argparse.Namespace, settings: Settings) -> int:
         roots = [development]
     rerender = None
     if not args.no_rerender:
-        rerender = seal.rerender_with(lambda raw: pipeline.build(raw, settings.limits).pdf)
+        rerender = sealing.rerender(settings.limits)
     report = verify.verify(_read(args.pack), trust_roots=roots, rerender=rerender)
+    if not args.no_archive:
+        if db.exists(settings.database_url):
+            sealing.compare_with_archive(report, db.connect(settings.database_url))
+        else:
+            print(f"(no archive at {settings.database_url}: the file is verified on its own)")
     if args.json:
         print(json.dumps(report.as_dict(), indent=2))
     else:
         for step in report.steps:
             print(f"{'ok  ' if step.ok else 'FAIL'}  {step.name}: {step.detail}")
         print("verified" if report.ok else "NOT verified: see the failed steps above")
+    return EXIT_OK if report.ok else EXIT_FAILED_CHECKS
+
+
+def _walkthrough(args: argparse.Namespace, settings: Settings) -> int:
+    from service.archive import db
+    from service.seal import keys, verify
+    from service.workflow import sealing, walkthrough
+
+    definition = _read(args.definition)
+    walked = walkthrough.review_and_seal(definition, settings, say=lambda line: print(f"  {line}"))
+    walkthrough.write(args.output, walked.sealed_pdf)
+    print(f"wrote {args.output} ({len(walked.sealed_pdf):,} bytes, SHA-256 {walked.seal.sha256})")
+    pdfa = walked.seal.pdfa
+    verdict = "passed" if pdfa["ok"] else f"{pdfa['verdict']}: {'; '.join(pdfa['messages'][:3])}"
+    print(f"{pdfa['standard']} check by {pdfa['validator']}: {verdict}")
+    roots = [keys.development_certificate(settings.data_dir / "keys") or b""]
+    if settings.seal_cert is not None:
+        roots = [settings.seal_cert.read_bytes()]
+    report = verify.verify(
+        walked.sealed_pdf, trust_roots=roots, rerender=sealing.rerender(settings.limits)
+    )
+    sealing.compare_with_archive(report, db.connect(settings.database_url))
+    for step in report.steps:
+        print(f"  {'ok  ' if step.ok else 'FAIL'}  {step.name}: {step.detail[:160]}")
+    print("verified" if report.ok else "NOT verified: see the failed steps above")
     return EXIT_OK if report.ok else EXIT_FAILED_CHECKS
 
 

@@ -6,7 +6,7 @@ import os
 from functools import lru_cache
 from pathlib import Path
 
-from pydantic import BaseModel, Field, model_validator
+from pydantic import BaseModel, Field, SecretStr, model_validator
 from pydantic_settings import BaseSettings, SettingsConfigDict
 
 
@@ -43,6 +43,11 @@ class Settings(BaseSettings):
     """PLUMBLINE_SEAL_KEY: the organisation's signing key (PEM); else a development key is used."""
     seal_cert: Path | None = None
     """PLUMBLINE_SEAL_CERT: the certificate of that key (PEM)."""
+    session_secret: SecretStr | None = None
+    """PLUMBLINE_SESSION_SECRET: signs the review pages' session cookies; else a random secret is
+    made once in the data folder (``web-session.key``)."""
+    secure_cookies: bool = False
+    """PLUMBLINE_SECURE_COOKIES: mark session cookies Secure (set it when served over HTTPS)."""
 
     @model_validator(mode="after")
     def _default_database(self) -> Settings:

@@ -10,7 +10,7 @@ from fastapi import FastAPI
 from fastapi.openapi.utils import get_openapi
 
 from service import __version__
-from service.api import errors
+from service.api import errors, reports
 from service.api.deps import Services
 from service.api.limits import BodyLimit
 from service.api.routes import router
@@ -48,6 +48,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
         "review.",
     )
     app.include_router(router)
+    app.include_router(reports.router)
     errors.install(app)
     app.add_middleware(BodyLimit, limit=settings.limits.max_payload_bytes)
 

@@ -6,13 +6,17 @@ from dataclasses import dataclass
 from typing import Annotated, Any
 
 from fastapi import Depends, Path, Request
+from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
 from sqlalchemy.orm import sessionmaker
+from starlette.concurrency import run_in_threadpool
 
 from service.api.workers import Workers
 from service.archive.db import PackRow
 from service.archive.files import Store
 from service.config import Settings
-from service.workflow import drafts
+from service.errors import Unauthorized
+from service.workflow import drafts, keys
+from service.workflow.keys import Principal
 
 
 @dataclass
@@ -34,8 +38,27 @@ ServicesDep = Annotated[Services, Depends(_services)]
 PackId = Annotated[str, Path(pattern=r"^pk_[0-9a-f]{32}$", description="A pack id, e.g. pk_3f…")]
 
 
-def _pack(pack_id: PackId, services: ServicesDep) -> PackRow:
-    return drafts.get(sessions=services.sessions, pack_id=pack_id)
+_bearer = HTTPBearer(
+    auto_error=False,
+    description="An API key made with `plumbline keys create`, as `Authorization: Bearer <key>`.",
+)
+
+
+async def _principal(
+    services: ServicesDep,
+    credentials: Annotated[HTTPAuthorizationCredentials | None, Depends(_bearer)],
+) -> Principal:
+    if credentials is None or credentials.scheme.lower() != "bearer":
+        raise Unauthorized("send an API key as 'Authorization: Bearer <key>'")
+    # scrypt is deliberately slow: hash off the event loop
+    return await run_in_threadpool(keys.authenticate, services.sessions, credentials.credentials)
+
+
+PrincipalDep = Annotated[Principal, Depends(_principal)]
+
+
+def _pack(pack_id: PackId, services: ServicesDep, principal: PrincipalDep) -> PackRow:
+    return drafts.visible(sessions=services.sessions, principal=principal, pack_id=pack_id)
 
 
 PackDep = Annotated[PackRow, Depends(_pack)]

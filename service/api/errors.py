@@ -50,7 +50,10 @@ def install(app: FastAPI) -> None:
             return problem(
                 exc.status, exc.code, f"{exc.message} (incident {incident})", incident=incident
             )
-        return problem(exc.status, exc.code, exc.message)
+        response = problem(exc.status, exc.code, exc.message)
+        if exc.status == 401:
+            response.headers["WWW-Authenticate"] = 'Bearer realm="plumbline"'
+        return response
 
     @app.exception_handler(RequestValidationError)
     async def _shape(request: Request, exc: RequestValidationError) -> JSONResponse:

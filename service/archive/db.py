@@ -7,6 +7,7 @@ referenced by their SHA-256, so a row never claims a file that was not written f
 from __future__ import annotations
 
 from datetime import UTC, datetime
+from pathlib import Path
 from typing import Any
 
 from sqlalchemy import (
@@ -21,7 +22,7 @@ from sqlalchemy import (
     event,
     select,
 )
-from sqlalchemy.engine import Engine
+from sqlalchemy.engine import Engine, make_url
 from sqlalchemy.orm import DeclarativeBase, Mapped, Session, mapped_column, sessionmaker
 
 
@@ -53,17 +54,49 @@ def now() -> datetime:
 
 
 def connect(url: str) -> sessionmaker[Any]:
-    """An engine and session factory; the schema is created if missing."""
+    """An engine and session factory, the database migrated to the newest schema first.
+
+    Safe to call from several processes at once: the migration takes the database's lock, and a
+    database at the newest revision already is left as it is (``service.archive.migrate``).
+    """
+    from service.archive import migrate  # its Alembic env imports this module's models
+
     engine = create_engine(url, future=True)
     if engine.dialect.name == "sqlite":
         event.listen(engine, "connect", _sqlite_pragmas)
-    Base.metadata.create_all(engine)
+    try:
+        migrate.upgrade(engine)
+    except BaseException:
+        engine.dispose()
+        raise
     return sessionmaker(engine, expire_on_commit=False)
 
 
+def exists(url: str) -> bool:
+    """Whether an archive is there to open: a SQLite file that exists, or any server URL."""
+    parsed = make_url(url)
+    if parsed.get_backend_name() != "sqlite":
+        return True
+    return bool(parsed.database) and Path(str(parsed.database)).is_file()
+
+
 def _sqlite_pragmas(connection: Any, _record: Any) -> None:
+    import sqlite3  # the driver's own error, for the retry below
+    import time
+
     cursor = connection.cursor()
-    cursor.execute("PRAGMA journal_mode=WAL")
+    # WAL is a property of the file, set once. Switching to it needs the file to itself and fails
+    # at once ("database is locked"; the busy timeout does not apply) while another connection
+    # holds a transaction, so it is asked for only when missing, and retried for up to 5 s.
+    for attempt in range(100):
+        if cursor.execute("PRAGMA journal_mode").fetchone()[0] == "wal":
+            break
+        try:
+            cursor.execute("PRAGMA journal_mode=WAL")
+        except sqlite3.OperationalError:
+            if attempt == 99:
+                raise
+            time.sleep(0.05)
     cursor.execute("PRAGMA synchronous=FULL")  # a signed-off record must survive power loss
     cursor.execute("PRAGMA foreign_keys=ON")
     cursor.close()
@@ -141,6 +174,40 @@ class WaiverRow(Base):
     at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
 
 
+class SealRow(Base):
+    """The sealed pack of a signed-off draft: the signed PDF/A file in the store, and its verdicts."""
+
+    __tablename__ = "seals"
+
+    pack_id: Mapped[str] = mapped_column(ForeignKey("packs.id"), primary_key=True)
+    sha256: Mapped[str] = mapped_column(String(64), index=True)
+    bytes: Mapped[int] = mapped_column(Integer)
+    signer: Mapped[str] = mapped_column(String(400))
+    development_key: Mapped[bool] = mapped_column(Boolean)
+    pdfa: Mapped[dict[str, Any]] = mapped_column(JSON)
+    """pikepdf's PDF/A verdict on the unsigned file (advisory, not a certification)."""
+    record: Mapped[dict[str, Any]] = mapped_column(JSON)
+    """The sign-off record attached to the pack as ``review.json``."""
+    sealed_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+
+
+class IdempotencyRow(Base):
+    """The first answer to a POST with an ``Idempotency-Key``, replayed to retries of it."""
+
+    __tablename__ = "idempotency"
+
+    key_id: Mapped[str] = mapped_column(String(40), primary_key=True)
+    """The API key that sent the request (an Idempotency-Key is scoped to its sender)."""
+    idempotency_key: Mapped[str] = mapped_column(String(255), primary_key=True)
+    method: Mapped[str] = mapped_column(String(10))
+    path: Mapped[str] = mapped_column(String(400))
+    request_sha256: Mapped[str] = mapped_column(String(64))
+    status_code: Mapped[int] = mapped_column(Integer)
+    body: Mapped[dict[str, Any]] = mapped_column(JSON)
+    location: Mapped[str | None] = mapped_column(String(400), nullable=True)
+    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+
+
 class AuditRow(Base):
     """One append-only audit record; ``seq`` is assigned as max + 1 in the writer's transaction."""
 
@@ -154,18 +221,6 @@ class AuditRow(Base):
     pack_id: Mapped[str | None] = mapped_column(String(40), index=True, nullable=True)
     content_hash: Mapped[str | None] = mapped_column(String(64), nullable=True)
     detail: Mapped[dict[str, Any]] = mapped_column(JSON)
-
-
-@event.listens_for(AuditRow.__table__, "after_create")
-def _append_only(_table: Any, connection: Any, **_kw: Any) -> None:
-    """On SQLite the database itself refuses to rewrite or remove an audit record."""
-    if connection.dialect.name != "sqlite":
-        return
-    for verb in ("UPDATE", "DELETE"):
-        connection.exec_driver_sql(
-            f"CREATE TRIGGER IF NOT EXISTS audit_no_{verb.lower()} BEFORE {verb} ON audit "
-            "BEGIN SELECT RAISE(ABORT, 'the audit trail is append-only'); END"
-        )
 
 
 def utc(moment: datetime) -> datetime:
@@ -185,6 +240,11 @@ def review_of(session: Session, pack_id: str) -> ReviewRow:
 def failed_checks(row: PackRow) -> set[tuple[str, str]]:
     """``(check, chart)`` of every check that failed on the pack."""
     return {(r["check"], r["chart"]) for r in row.results if r["status"] == "failed"}
+
+
+def standing_waived_checks(row: PackRow) -> set[tuple[str, str]]:
+    """``(check, chart)`` of every check waived by a standing waiver that came with the definition."""
+    return {(r["check"], r["chart"]) for r in row.results if r["status"] == "waived"}
 
 
 def waived_checks(session: Session, row: PackRow) -> set[tuple[str, str]]:

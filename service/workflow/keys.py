@@ -118,6 +118,20 @@ def authenticate(
         raise Unauthorized("the API key is not valid")
     if not hmac.compare_digest(_hash(secret, bytes.fromhex(row.salt)).hex(), row.secret_hash):
         raise Unauthorized("the API key is not valid")
+    return _principal(row, at)
+
+
+def principal_for(sessions: sessionmaker[Any], key_id: str) -> Principal:
+    """The principal of a key already authenticated once (a signed-in web session): the key is
+    looked up again on every request, so revoking it or its expiry ends the session."""
+    with sessions() as session:
+        row = session.get(KeyRow, key_id)
+    if row is None:
+        raise Unauthorized("the key of this session no longer exists; sign in again")
+    return _principal(row, None)
+
+
+def _principal(row: KeyRow, at: datetime | None) -> Principal:
     if row.revoked_at is not None:
         raise Unauthorized(f"the API key '{row.id}' was revoked")
     moment = utc(at) if at is not None else now()
@@ -189,5 +203,6 @@ __all__ = [
     "authenticate",
     "can_see",
     "create",
+    "principal_for",
     "revoke",
 ]

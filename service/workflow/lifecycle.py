@@ -11,14 +11,23 @@ read (so two concurrent sign-offs of one draft cannot both succeed), and every l
 refuses raises, which rolls the move back. Each change writes its audit record in that transaction.
 
 Rules: only an author submits; a reviewer who did not author the pack waives a failed, waivable
-check with a reason of at least 20 characters; an approver who did not author the pack (separation
-of duties, NIST SP 800-53 AC-5) signs off the exact PDF hash that was submitted, and only when every
-failed check is waived for that hash. A pack outside the key's families is "not found".
+check with a reason of at least 20 characters, or confirms a standing waiver that came with the
+definition; an approver who did not author the pack (separation of duties, NIST SP 800-53 AC-5)
+signs off the exact PDF hash that was submitted, and only when every failed check is waived and
+every standing waiver confirmed for that hash. A pack outside the key's families is "not found".
+
+Sign-off is two steps so that the slow part (rendering and signing the sealed pack) runs outside
+any transaction: :func:`sign_off_preflight` applies every rule read-only and returns the sign-off
+record; the caller seals the pack and stores its bytes; :func:`sign_off` applies the rules again in
+the transaction that moves the state and records the seal, so a row never claims a file that was
+not written, and a lost race (another sign-off won) leaves at most an unclaimed file.
 """
 
 from __future__ import annotations
 
 import json
+from dataclasses import dataclass
+from datetime import datetime
 from typing import Any, cast
 
 from sqlalchemy import ColumnElement, CursorResult, select, update
@@ -27,10 +36,13 @@ from sqlalchemy.orm import Session, sessionmaker
 from service.archive import audit
 from service.archive.db import (
     PackRow,
+    ReviewRow,
+    SealRow,
     WaiverRow,
     failed_checks,
     now,
     review_of,
+    standing_waived_checks,
     utc,
     waived_checks,
 )
@@ -114,7 +126,8 @@ def waive(
     chart: str,
     reason: str,
 ) -> None:
-    """A reviewer accepts one failed, waivable check on one chart of this exact draft."""
+    """A reviewer accepts one failed, waivable check on one chart of this exact draft, or confirms
+    a standing waiver (one that came with the definition) of a check on it."""
     principal.require(Role.reviewer)
     reason = reason.strip()
     if not MIN_REASON <= len(reason) <= 2000:
@@ -123,8 +136,11 @@ def waive(
         row = _move(session, principal=principal, pack_id=pack_id, action="waive")
         if review_of(session, pack_id).is_author(principal.key_id, principal.name):
             raise Forbidden("nobody waives checks on a pack they authored")
-        if (check, chart) not in failed_checks(row):
-            raise Conflict(f"the check '{check}' did not fail on chart '{chart}' of this pack")
+        if (check, chart) not in failed_checks(row) | standing_waived_checks(row):
+            raise Conflict(
+                f"the check '{check}' did not fail on chart '{chart}' of this pack and has no "
+                "standing waiver to confirm"
+            )
         intent = _intent(store, row, chart)
         spec = CHECKS.get(check)
         if spec is None or intent is None or not spec.waivable_for(intent):
@@ -150,34 +166,126 @@ def waive(
         _record(session, principal, "check.waived", row, detail)
 
 
-def sign_off(
+@dataclass(frozen=True)
+class SignOff:
+    """What the approver signs off, decided before the sealed pack is rendered."""
+
+    pack_id: str
+    report_id: str
+    content_sha256: str
+    definition_sha256: str
+    approver_key_id: str
+    approver: str
+    at: datetime
+    waivers: list[dict[str, str]]
+    """Every review waiver and confirmation of the draft: check, chart, reason, by, at, kind."""
+
+    def record(self) -> dict[str, Any]:
+        """The sign-off record attached to the sealed pack (``review.json``)."""
+        return {
+            "pack": self.pack_id,
+            "report": self.report_id,
+            "reviewed_sha256": self.content_sha256,
+            "definition_sha256": self.definition_sha256,
+            "signed_off_by": self.approver,
+            "signed_off_at": self.at.isoformat(),
+            "waivers": self.waivers,
+        }
+
+
+def sign_off_preflight(
     *, sessions: sessionmaker[Any], principal: Principal, pack_id: str, content_sha256: str
+) -> SignOff:
+    """Every sign-off rule, read-only: raises what :func:`sign_off` would, else the record."""
+    principal.require(Role.approver)
+    with sessions() as session:
+        row = _visible(session, principal, pack_id)
+        if row.status != IN_REVIEW:
+            raise Conflict(refusal(row.status, "sign_off"))
+        if row.pdf_sha256 != content_sha256:
+            raise Conflict(_CHANGED)
+        review = review_of(session, pack_id)
+        _sign_off_rules(session, principal, row, review, content_sha256)
+        waivers = session.scalars(
+            select(WaiverRow)
+            .where(WaiverRow.pack_id == pack_id, WaiverRow.pdf_sha256 == content_sha256)
+            .order_by(WaiverRow.chart, WaiverRow.check)
+        ).all()
+        standing = standing_waived_checks(row)
+        return SignOff(
+            pack_id=row.id,
+            report_id=row.report_id,
+            content_sha256=content_sha256,
+            definition_sha256=row.definition_sha256,
+            approver_key_id=principal.key_id,
+            approver=principal.name,
+            at=now().replace(microsecond=0),
+            waivers=[
+                {
+                    "check": w.check,
+                    "chart": w.chart,
+                    "reason": w.reason,
+                    "by": w.by_name,
+                    "at": utc(w.at).replace(microsecond=0).isoformat(),
+                    "kind": "confirmed" if (w.check, w.chart) in standing else "review",
+                }
+                for w in waivers
+            ],
+        )
+
+
+_CHANGED = "the draft changed since it was reviewed: its PDF is no longer the one named"
+
+
+def sign_off(
+    *,
+    sessions: sessionmaker[Any],
+    principal: Principal,
+    pack_id: str,
+    content_sha256: str,
+    seal: SealRow | None = None,
+    at: datetime | None = None,
 ) -> None:
-    """An approver who is not an author signs off the PDF whose SHA-256 they reviewed."""
+    """An approver who is not an author signs off the PDF whose SHA-256 they reviewed; with
+    ``seal``, the sealed pack (already in the store) is recorded in the same transaction."""
     principal.require(Role.approver)
     with sessions.begin() as session:
-        changed = "the draft changed since it was reviewed: its PDF is no longer the one named"
         row = _move(
             session,
             principal=principal,
             pack_id=pack_id,
             action="sign_off",
             where=(PackRow.pdf_sha256 == content_sha256,),
-            mismatch=changed,
+            mismatch=_CHANGED,
         )
         review = review_of(session, pack_id)
-        if review.is_author(principal.key_id, principal.name):
-            raise Forbidden("an author cannot sign off their own pack (separation of duties)")
-        if review.submitted_sha256 != content_sha256:
-            raise Conflict(changed)
-        open_ = sorted(failed_checks(row) - waived_checks(session, row))
-        if open_:
-            listed = ", ".join(f"{c} on {ch}" for c, ch in open_)
-            raise Conflict(f"failed checks are not waived: {listed}")
+        _sign_off_rules(session, principal, row, review, content_sha256)
         review.signed_off_by, review.signed_off_name = principal.key_id, principal.name
-        review.signed_off_at, review.signed_off_sha256 = now(), content_sha256
-        _record(session, principal, "pack.signed_off", row, _moved("sign_off"))
+        review.signed_off_at, review.signed_off_sha256 = at or now(), content_sha256
+        detail = _moved("sign_off")
+        if seal is not None:
+            session.add(seal)
+            detail |= {"sealed_sha256": seal.sha256, "development_key": seal.development_key}
+        _record(session, principal, "pack.signed_off", row, detail)
         _supersede(session, principal, row)
+
+
+def _sign_off_rules(
+    session: Session, principal: Principal, row: PackRow, review: ReviewRow, content_sha256: str
+) -> None:
+    if review.is_author(principal.key_id, principal.name):
+        raise Forbidden("an author cannot sign off their own pack (separation of duties)")
+    if review.submitted_sha256 != content_sha256:
+        raise Conflict(_CHANGED)
+    waived = waived_checks(session, row)
+    open_ = sorted(failed_checks(row) - waived)
+    if open_:
+        listed = ", ".join(f"{c} on {ch}" for c, ch in open_)
+        raise Conflict(f"failed checks are not waived: {listed}")
+    unconfirmed = sorted(standing_waived_checks(row) - waived)
+    if unconfirmed:
+        listed = ", ".join(f"{c} on {ch}" for c, ch in unconfirmed)
+        raise Conflict(f"standing waivers need a reviewer's confirmation first: {listed}")
 
 
 def history(

@@ -1,0 +1,410 @@
+"""The /v1/reports routes: build drafts, search the archive, read a pack, and move it through review.
+
+Every route needs an API key (``Authorization: Bearer <key>``). A pack of a report family the key
+is not granted answers 404, exactly like a pack that does not exist. Refused actions answer with
+the reason: 401 (no or bad key), 403 (the key lacks the role, or is the pack's author), 404, 409 (an
+illegal transition, a changed draft, an open failed check), 422 (a malformed request).
+POSTs accept an ``Idempotency-Key``.
+"""
+
+from __future__ import annotations
+
+from typing import Annotated, Any
+
+from fastapi import APIRouter, Query, Request, Response
+from pydantic import BaseModel, ConfigDict, Field
+from starlette.concurrency import run_in_threadpool
+
+from service.api import idempotency
+from service.api.deps import PackDep, PackId, PrincipalDep, Services, ServicesDep
+from service.archive import audit
+from service.archive.db import PackRow, SealRow, WaiverRow
+from service.errors import InvalidRequest, NotFound
+from service.workflow import compare, drafts, lifecycle, sealing
+from service.workflow.keys import Principal
+
+router = APIRouter(prefix="/v1/reports", tags=["reports"])
+
+_PROBLEM: dict[str, Any] = {"content": {"application/problem+json": {}}}
+_REFUSALS: dict[int | str, dict[str, Any]] = dict.fromkeys((401, 403, 404, 409, 422), _PROBLEM)
+_DEFINITION_BODY = {
+    "requestBody": {
+        "required": True,
+        "content": {
+            "application/json": {"schema": {"$ref": "#/components/schemas/ReportDefinition"}}
+        },
+    }
+}
+_PDF: dict[int | str, dict[str, Any]] = {200: {"content": {"application/pdf": {}}}, **_REFUSALS}
+
+
+class _Body(BaseModel):
+    model_config = ConfigDict(extra="forbid")
+
+
+class ChangesRequest(_Body):
+    reason: str = Field(min_length=1, max_length=2000, description="Which changes are needed.")
+
+
+class WaiverRequest(_Body):
+    check: str = Field(description="The check's id, e.g. bar-zero-baseline.")
+    chart: str = Field(description="The chart's id in the definition.")
+    reason: str = Field(
+        description=f"Why the exception is acceptable ({lifecycle.MIN_REASON} to 2000 characters)."
+    )
+
+
+class SignOffRequest(_Body):
+    content_sha256: str = Field(
+        pattern=r"^[0-9a-f]{64}$",
+        description="The SHA-256 of the draft PDF the approver reviewed (the pack's pdf.sha256).",
+    )
+
+
+def links(row: PackRow) -> dict[str, str]:
+    base = f"/v1/reports/{row.id}"
+    return {
+        "self": base,
+        "pdf": f"{base}/pdf",
+        "checks": f"{base}/checks",
+        "audit": f"{base}/audit",
+        "sealed": f"{base}/sealed",
+        "compare": f"{base}/compare/{{other_id}}",
+    }
+
+
+def pack_view(services: Services, row: PackRow, *, with_results: bool) -> dict[str, Any]:
+    """A pack as the API shows it: report, status, checks summary, review and seal."""
+    review = drafts.review(sessions=services.sessions, pack_id=row.id)
+    sealed = drafts.seal_of(sessions=services.sessions, pack_id=row.id)
+    view: dict[str, Any] = {
+        "id": row.id,
+        "report": {
+            "id": row.report_id,
+            "title": row.title,
+            "period": row.period,
+            "as_of": row.as_of,
+        },
+        "status": row.status,
+        "blocked": row.blocked,
+        "summary": row.summary,
+        "failed": [f"{r['check']} on {r['chart']}" for r in row.results if r["status"] == "failed"],
+        "unused_waivers": row.unused_waivers,
+        "pdf": {"sha256": row.pdf_sha256, "bytes": row.pdf_bytes},
+        "definition_sha256": row.definition_sha256,
+        "created_at": row.created_at.isoformat(),
+        "review": None
+        if review is None
+        else {
+            "authors": [a["name"] for a in review.authors],
+            "submitted_sha256": review.submitted_sha256,
+            "submitted_at": _iso(review.submitted_at),
+            "signed_off_by": review.signed_off_name,
+            "signed_off_at": _iso(review.signed_off_at),
+            "signed_off_sha256": review.signed_off_sha256,
+            "superseded_by": review.superseded_by,
+        },
+        "sealed": None if sealed is None else seal_view(sealed),
+        "links": links(row),
+    }
+    if with_results:
+        view["checks"] = row.results
+        view["waivers"] = [_waiver(w) for w in _waivers(services, row)]
+    return view
+
+
+def seal_view(sealed: SealRow) -> dict[str, Any]:
+    return {
+        "sha256": sealed.sha256,
+        "bytes": sealed.bytes,
+        "signer": sealed.signer,
+        "development_key": sealed.development_key,
+        "pdfa": sealed.pdfa,
+        "sealed_at": _iso(sealed.sealed_at),
+    }
+
+
+def _iso(moment: Any) -> str | None:
+    return None if moment is None else str(moment.isoformat())
+
+
+def _waivers(services: Services, row: PackRow) -> list[WaiverRow]:
+    from sqlalchemy import select
+
+    with services.sessions() as session:
+        return list(
+            session.scalars(
+                select(WaiverRow).where(WaiverRow.pack_id == row.id).order_by(WaiverRow.id)
+            ).all()
+        )
+
+
+def _waiver(w: WaiverRow) -> dict[str, Any]:
+    return {
+        "check": w.check,
+        "chart": w.chart,
+        "reason": w.reason,
+        "by": w.by_name,
+        "at": w.at.isoformat(),
+        "pdf_sha256": w.pdf_sha256,
+    }
+
+
+async def _view(services: Services, principal: Principal, pack_id: str) -> dict[str, Any]:
+    def load() -> dict[str, Any]:
+        row = drafts.visible(sessions=services.sessions, principal=principal, pack_id=pack_id)
+        return pack_view(services, row, with_results=True)
+
+    return await run_in_threadpool(load)
+
+
+@router.post(
+    "",
+    status_code=201,
+    openapi_extra=_DEFINITION_BODY,
+    responses={413: _PROBLEM, **_REFUSALS},
+)
+async def create_report(
+    request: Request, services: ServicesDep, principal: PrincipalDep
+) -> Response:
+    """Validate a definition, run every check, render the draft pack and store it, with the key
+    that sent it as its author (the key needs the author role and the report's family).
+
+    A failed check that is not waived does not stop the draft: it is stored with ``blocked: true``
+    and each failure is marked on its chart and in the appendix, so a reviewer can see it.
+    """
+    raw = await request.body()
+
+    async def run() -> idempotency.Answer:
+        built = await services.workers.build(raw, services.settings.limits)
+        row = await run_in_threadpool(
+            drafts.create,
+            sessions=services.sessions,
+            store=services.store,
+            built=built,
+            definition=raw,
+            author=principal,
+        )
+        view = await run_in_threadpool(pack_view, services, row, with_results=True)
+        return 201, view, f"/v1/reports/{row.id}"
+
+    return await idempotency.once(request, services.sessions, principal, raw, run)
+
+
+@router.get("", responses=_REFUSALS)
+def list_reports(
+    *,
+    services: ServicesDep,
+    principal: PrincipalDep,
+    report: Annotated[str | None, Query(description="A report id, exactly.")] = None,
+    period: Annotated[str | None, Query(description="Part of the period's label.")] = None,
+    status: Annotated[str | None, Query(description=", ".join(drafts.STATUSES))] = None,
+    signer: Annotated[str | None, Query(description="Part of the approver's name.")] = None,
+    limit: Annotated[int, Query(ge=1, le=drafts.MAX_PAGE)] = 50,
+    offset: Annotated[int, Query(ge=0)] = 0,
+) -> dict[str, Any]:
+    """The packs this key may see, newest first, narrowed by report, period, status and signer."""
+    query = drafts.Query(report, period, status, signer, limit, offset)
+    rows, total = drafts.search(sessions=services.sessions, principal=principal, query=query)
+    return {
+        "total": total,
+        "limit": limit,
+        "offset": offset,
+        "packs": [pack_view(services, r, with_results=False) for r in rows],
+    }
+
+
+@router.get("/{pack_id}", responses=_REFUSALS)
+def get_report(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
+    """A stored pack: its report, status, check summary, review, seal and links."""
+    return pack_view(services, pack, with_results=False)
+
+
+@router.get("/{pack_id}/checks", responses=_REFUSALS)
+def get_checks(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
+    """Every check result of a stored pack, and the waivers given in review."""
+    return {
+        "id": pack.id,
+        "blocked": pack.blocked,
+        "summary": pack.summary,
+        "checks": pack.results,
+        "waivers": [_waiver(w) for w in _waivers(services, pack)],
+    }
+
+
+@router.get("/{pack_id}/audit", responses=_REFUSALS)
+def get_audit(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
+    """The pack's audit trail: every action on it, who, when, and the content hash it concerned."""
+    return {
+        "id": pack.id,
+        "entries": [
+            {
+                "seq": e.seq,
+                "at": e.at.isoformat(),
+                "key_id": e.key_id,
+                "name": e.name,
+                "action": e.action,
+                "content_hash": e.content_hash,
+                "detail": e.detail,
+            }
+            for e in audit.trail(services.sessions, pack.id)
+        ],
+    }
+
+
+@router.get("/{pack_id}/compare/{other_id}", responses=_REFUSALS)
+def compare_packs(
+    pack_id: PackId, other_id: PackId, services: ServicesDep, principal: PrincipalDep
+) -> dict[str, Any]:
+    """Month over month: two signed packs of one report — which checks changed outcome, which
+    waivers are new or dropped, which key figures moved (the older pack is ``earlier``)."""
+    return compare.compare(
+        sessions=services.sessions,
+        store=services.store,
+        principal=principal,
+        pack_id=pack_id,
+        other_id=other_id,
+        limits=services.settings.limits,
+    )
+
+
+def _pdf(data: bytes, digest: str, filename: str) -> Response:
+    return Response(
+        data,
+        media_type="application/pdf",
+        headers={
+            "ETag": f'"{digest}"',
+            "Content-Disposition": f'attachment; filename="{filename}"',
+        },
+    )
+
+
+@router.get("/{pack_id}/pdf", responses=_PDF, response_class=Response)
+def get_pdf(pack: PackDep, services: ServicesDep) -> Response:
+    """The pack's draft PDF, exactly as stored (its SHA-256 is the ETag)."""
+    data = services.store.get(pack.pdf_sha256)
+    return _pdf(data, pack.pdf_sha256, f"{pack.report_id}-{pack.id}-draft.pdf")
+
+
+@router.get("/{pack_id}/sealed", responses=_PDF, response_class=Response)
+def get_sealed(pack: PackDep, services: ServicesDep) -> Response:
+    """The signed-off pack: PDF/A-3b with its sources attached, digitally signed."""
+    sealed = drafts.seal_of(sessions=services.sessions, pack_id=pack.id)
+    if sealed is None:
+        raise NotFound(f"the pack '{pack.id}' has no sealed file: it is {pack.status}")
+    data = services.store.get(sealed.sha256)
+    return _pdf(data, sealed.sha256, f"{pack.report_id}-{pack.id}-sealed.pdf")
+
+
+async def _act(
+    request: Request,
+    services: Services,
+    principal: Principal,
+    pack_id: str,
+    action: Any,
+) -> Response:
+    """Run one lifecycle action once (per Idempotency-Key) and answer with the pack."""
+    raw = await request.body()
+
+    async def run() -> idempotency.Answer:
+        await action()
+        return 200, await _view(services, principal, pack_id), None
+
+    return await idempotency.once(request, services.sessions, principal, raw, run)
+
+
+@router.post("/{pack_id}/submit", responses=_REFUSALS)
+async def submit(
+    pack_id: str, request: Request, services: ServicesDep, principal: PrincipalDep
+) -> Response:
+    """An author sends a draft for review."""
+
+    async def action() -> None:
+        await run_in_threadpool(
+            lifecycle.submit, sessions=services.sessions, principal=principal, pack_id=pack_id
+        )
+
+    return await _act(request, services, principal, pack_id, action)
+
+
+@router.post("/{pack_id}/request-changes", responses=_REFUSALS)
+async def request_changes(
+    pack_id: str,
+    body: ChangesRequest,
+    request: Request,
+    services: ServicesDep,
+    principal: PrincipalDep,
+) -> Response:
+    """A reviewer or approver sends a pack in review back to draft, saying why."""
+
+    async def action() -> None:
+        await run_in_threadpool(
+            lifecycle.request_changes,
+            sessions=services.sessions,
+            principal=principal,
+            pack_id=pack_id,
+            reason=body.reason,
+        )
+
+    return await _act(request, services, principal, pack_id, action)
+
+
+@router.post("/{pack_id}/waivers", responses=_REFUSALS)
+async def waive(
+    pack_id: str,
+    body: WaiverRequest,
+    request: Request,
+    services: ServicesDep,
+    principal: PrincipalDep,
+) -> Response:
+    """A reviewer who is not an author waives one failed, waivable check on one chart of the draft
+    in review (or confirms a standing waiver that came with the definition)."""
+
+    async def action() -> None:
+        await run_in_threadpool(
+            lifecycle.waive,
+            sessions=services.sessions,
+            store=services.store,
+            principal=principal,
+            pack_id=pack_id,
+            check=body.check,
+            chart=body.chart,
+            reason=body.reason,
+        )
+
+    return await _act(request, services, principal, pack_id, action)
+
+
+@router.post("/{pack_id}/sign-off", responses={**_REFUSALS, 500: _PROBLEM})
+async def sign_off(
+    pack_id: str,
+    body: SignOffRequest,
+    request: Request,
+    services: ServicesDep,
+    principal: PrincipalDep,
+) -> Response:
+    """An approver who is not an author signs off the draft whose PDF SHA-256 they reviewed; the
+    sealed pack (PDF/A-3b, definition, datasets and sign-off record attached, digitally signed) is
+    archived in the same step."""
+
+    async def action() -> None:
+        await sign_off_and_seal(services, principal, pack_id, body.content_sha256)
+
+    return await _act(request, services, principal, pack_id, action)
+
+
+async def sign_off_and_seal(
+    services: Services, principal: Principal, pack_id: str, content_sha256: str
+) -> SealRow:
+    """Sign off and seal a pack, sealing in a worker process (used by the API and the web pages)."""
+    if not content_sha256:
+        raise InvalidRequest("name the SHA-256 of the draft PDF that was reviewed")
+    return await run_in_threadpool(
+        sealing.sign_off_and_seal,
+        sessions=services.sessions,
+        store=services.store,
+        principal=principal,
+        pack_id=pack_id,
+        content_sha256=content_sha256,
+        sealer=services.workers.sealer(services.settings),
+    )
