@@ -39,6 +39,8 @@ class Settings(BaseSettings):
     host: str = "127.0.0.1"
     port: int = Field(8000, ge=0, le=65535)
     limits: Limits = Limits()
+    render_timeout_s: float = Field(300.0, gt=0, le=86_400)
+    """PLUMBLINE_RENDER_TIMEOUT_S: a render (or seal, or verify) past this is stopped and fails."""
     seal_key: Path | None = None
     """PLUMBLINE_SEAL_KEY: the organisation's signing key (PEM); else a development key is used."""
     seal_cert: Path | None = None

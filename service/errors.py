@@ -12,6 +12,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── NotFound (404, not_found)
     ├── Conflict (409, conflict)                       an illegal transition, a changed draft, a race
     ├── InvalidRequest (422, invalid_request)          a request that is not a definition is wrong
+    ├── RenderTimeout (422, render_timeout)            a render past its time budget, stopped
     └── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
 
 Foreign exceptions are translated at the stage boundary (``raise RenderFailed(...) from exc``).
@@ -147,3 +148,10 @@ class NotFound(PlumblineError):
 class RenderFailed(PlumblineError):
     code = "render_failed"
     status = 500
+
+
+class RenderTimeout(PlumblineError):
+    """A render that ran past its time budget and was stopped (its worker process killed)."""
+
+    code = "render_timeout"
+    status = 422

@@ -12,6 +12,7 @@ from fastapi.openapi.utils import get_openapi
 from service import __version__
 from service.api import errors, reports
 from service.api.deps import Services
+from service.api.jobs import Jobs
 from service.api.limits import BodyLimit
 from service.api.routes import router
 from service.api.workers import Workers
@@ -27,16 +28,18 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     @asynccontextmanager
     async def lifespan(app: FastAPI) -> AsyncIterator[None]:
         settings.data_dir.mkdir(parents=True, exist_ok=True)
-        workers = Workers(settings.workers)
+        workers = Workers(settings.workers, timeout=settings.render_timeout_s)
+        sessions = db.connect(settings.database_url)
+        store = Store(settings.store_dir)
+        jobs = Jobs(sessions=sessions, store=store, workers=workers, settings=settings)
+        jobs.recover()
         app.state.services = Services(
-            settings=settings,
-            sessions=db.connect(settings.database_url),
-            store=Store(settings.store_dir),
-            workers=workers,
+            settings=settings, sessions=sessions, store=store, workers=workers, jobs=jobs
         )
         try:
             yield
         finally:
+            await jobs.close()
             workers.close()
 
     app = FastAPI(
@@ -49,6 +52,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     )
     app.include_router(router)
     app.include_router(reports.router)
+    app.include_router(reports.jobs_router)
     errors.install(app)
     app.add_middleware(BodyLimit, limit=settings.limits.max_payload_bytes)
 

@@ -10,6 +10,7 @@ from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
+from service.api.jobs import Jobs
 from service.api.workers import Workers
 from service.archive.db import PackRow
 from service.archive.files import Store
@@ -25,6 +26,7 @@ class Services:
     sessions: sessionmaker[Any]
     store: Store
     workers: Workers
+    jobs: Jobs
 
 
 def _services(request: Request) -> Services:

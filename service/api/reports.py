@@ -11,11 +11,11 @@ from __future__ import annotations
 
 from typing import Annotated, Any
 
-from fastapi import APIRouter, Query, Request, Response
+from fastapi import APIRouter, Path, Query, Request, Response
 from pydantic import BaseModel, ConfigDict, Field
 from starlette.concurrency import run_in_threadpool
 
-from service.api import idempotency
+from service.api import idempotency, jobs
 from service.api.deps import PackDep, PackId, PrincipalDep, Services, ServicesDep
 from service.archive import audit
 from service.archive.db import PackRow, SealRow, WaiverRow
@@ -165,15 +165,29 @@ async def _view(services: Services, principal: Principal, pack_id: str) -> dict[
     responses={413: _PROBLEM, **_REFUSALS},
 )
 async def create_report(
-    request: Request, services: ServicesDep, principal: PrincipalDep
+    request: Request,
+    services: ServicesDep,
+    principal: PrincipalDep,
+    wait: Annotated[
+        bool, Query(description="false: answer 202 with a job at once and build in the background")
+    ] = True,
 ) -> Response:
     """Validate a definition, run every check, render the draft pack and store it, with the key
     that sent it as its author (the key needs the author role and the report's family).
 
     A failed check that is not waived does not stop the draft: it is stored with ``blocked: true``
     and each failure is marked on its chart and in the appendix, so a reviewer can see it.
+    With ``wait=false`` the answer is ``202`` with a job (``GET /v1/jobs/{id}``) that ends *done*
+    with the draft or *failed* with the problem.
     """
     raw = await request.body()
+    if not wait:
+
+        async def queue() -> idempotency.Answer:
+            job = await services.jobs.start(principal, raw)
+            return 202, jobs.view(job), f"/v1/jobs/{job.id}"
+
+        return await idempotency.once(request, services.sessions, principal, raw, queue)
 
     async def run() -> idempotency.Answer:
         built = await services.workers.build(raw, services.settings.limits)
@@ -408,3 +422,17 @@ async def sign_off_and_seal(
         content_sha256=content_sha256,
         sealer=services.workers.sealer(services.settings),
     )
+
+
+jobs_router = APIRouter(prefix="/v1/jobs", tags=["reports"])
+
+
+@jobs_router.get("/{job_id}", responses=_REFUSALS)
+def get_job(
+    job_id: Annotated[str, Path(pattern=r"^jb_[0-9a-f]{32}$")],
+    services: ServicesDep,
+    principal: PrincipalDep,
+) -> dict[str, Any]:
+    """A background build: queued, running (stage, charts done of total), done (with the draft's
+    id) or failed (with the problem). Only the key that posted it sees it."""
+    return jobs.view(services.jobs.get(principal, job_id))

@@ -1,19 +1,20 @@
 """Worker processes for rendering: matplotlib is not thread-safe and rendering is CPU-bound, so a
-pack is built in a separate process and the event loop only awaits it."""
+pack is built in a separate process (``service.api.pool``) and the event loop only awaits it. Every
+job has the configured time budget; past it the worker is killed and the job fails with that reason.
+"""
 
 from __future__ import annotations
 
 import asyncio
-import multiprocessing
 from collections.abc import Callable
-from concurrent.futures import ProcessPoolExecutor
-from concurrent.futures.process import BrokenProcessPool
 from functools import partial
 from typing import Any, TypeVar
 
+from starlette.concurrency import run_in_threadpool
+
 from service import pipeline
+from service.api.pool import Pool, Progress
 from service.config import Limits, Settings
-from service.errors import RenderFailed
 from service.render import style
 from service.seal.verify import VerifyReport
 from service.workflow import sealing
@@ -25,6 +26,16 @@ def _start_worker() -> None:
     style.install()
 
 
+def build_pack(raw: bytes, limits: Limits, *, progress: Progress | None = None) -> pipeline.Built:
+    """``pipeline.build`` in a worker, saying when it starts and ends."""
+    if progress is not None:
+        progress("building", 0, 1)
+    built = pipeline.build(raw, limits)
+    if progress is not None:
+        progress("built", 1, 1)
+    return built
+
+
 def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
     """Verify a sealed pack in a worker: the re-render draws, so it must not run on the loop."""
     from service.seal import verify
@@ -33,19 +44,24 @@ def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
 
 
 class Workers:
-    def __init__(self, size: int) -> None:
+    def __init__(self, size: int, *, timeout: float = 300.0) -> None:
         self.size = size
-        self._pool = self._new()
+        self._pool = Pool(size, initializer=_start_worker, timeout=timeout)
+        self._slots: asyncio.Semaphore | None = None
 
-    def _new(self) -> ProcessPoolExecutor:
-        return ProcessPoolExecutor(
-            max_workers=self.size,
-            mp_context=multiprocessing.get_context("spawn"),  # no fork of a threaded server
-            initializer=_start_worker,
-        )
+    async def _run(self, job: Callable[..., T], *args: Any, **kwargs: Any) -> T:
+        """Wait for a free worker on the event loop, not in a thread: jobs queued behind busy
+        workers must not take the threads that answer every other request."""
+        if self._slots is None:
+            self._slots = asyncio.Semaphore(self.size)
+        async with self._slots:
+            result: T = await run_in_threadpool(partial(self._pool.run, job, *args, **kwargs))
+        return result
 
-    async def build(self, raw: bytes, limits: Limits) -> pipeline.Built:
-        return await self._run(pipeline.build, raw, limits)
+    async def build(
+        self, raw: bytes, limits: Limits, progress: Progress | None = None
+    ) -> pipeline.Built:
+        return await self._run(build_pack, raw, limits, progress=progress)
 
     def sealer(self, settings: Settings) -> sealing.Sealer:
         """Render, seal and sign a signed-off pack in a worker, with the configured (or
@@ -59,28 +75,13 @@ class Workers:
         )
 
         def seal(definition: bytes, record: dict[str, Any]) -> sealing.SealedPack:
-            try:
-                return self._pool.submit(job, definition, record).result()
-            except BrokenProcessPool:
-                self._restart()
-                raise RenderFailed("the render worker stopped unexpectedly; try again") from None
+            sealed: sealing.SealedPack = self._pool.run(job, definition, record)
+            return sealed
 
         return seal
 
     async def verify(self, pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
         return await self._run(verify_pack, pdf, roots, limits)
 
-    async def _run(self, job: Callable[..., T], *args: Any) -> T:
-        loop = asyncio.get_running_loop()
-        try:
-            return await loop.run_in_executor(self._pool, job, *args)
-        except BrokenProcessPool:
-            self._restart()
-            raise RenderFailed("the render worker stopped unexpectedly; try again") from None
-
-    def _restart(self) -> None:
-        self._pool.shutdown(wait=False, cancel_futures=True)
-        self._pool = self._new()
-
     def close(self) -> None:
-        self._pool.shutdown(wait=True, cancel_futures=True)
+        self._pool.close()

@@ -208,6 +208,26 @@ class IdempotencyRow(Base):
     created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
 
 
+class JobRow(Base):
+    """A pack built in the background: its progress, and the draft or the error it ended with."""
+
+    __tablename__ = "jobs"
+
+    id: Mapped[str] = mapped_column(String(40), primary_key=True)
+    key_id: Mapped[str] = mapped_column(String(40), index=True)
+    """The API key that posted the definition: only it sees the job."""
+    status: Mapped[str] = mapped_column(String(20), index=True)
+    """queued, running, done or failed."""
+    stage: Mapped[str] = mapped_column(String(40))
+    done: Mapped[int] = mapped_column(Integer)
+    total: Mapped[int] = mapped_column(Integer)
+    definition_sha256: Mapped[str] = mapped_column(String(64))
+    pack_id: Mapped[str | None] = mapped_column(String(40), nullable=True)
+    error: Mapped[dict[str, Any] | None] = mapped_column(JSON, nullable=True)
+    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+    updated_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+
+
 class AuditRow(Base):
     """One append-only audit record; ``seq`` is assigned as max + 1 in the writer's transaction."""
 

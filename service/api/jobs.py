@@ -1,0 +1,152 @@
+"""Background builds: ``POST /v1/reports?wait=false`` answers 202 with a job at once; the job builds
+the draft in a worker process and ends *done* (with the draft's id) or *failed* (with the problem).
+
+The job's state lives in the ``jobs`` table, so any process of the service can answer
+``GET /v1/jobs/{id}``; progress is written there as the worker reports it (at most twice a second).
+A job left *queued* or *running* by a process that stopped is marked failed when the service
+starts again, saying so: nothing claims to be running that is not.
+"""
+
+from __future__ import annotations
+
+import asyncio
+import time
+import uuid
+from typing import Any
+
+from sqlalchemy import update
+from sqlalchemy.orm import sessionmaker
+from starlette.concurrency import run_in_threadpool
+
+from service.api.workers import Workers
+from service.archive.db import JobRow, now
+from service.archive.files import Store
+from service.config import Settings
+from service.errors import InvalidDefinition, NotFound, PlumblineError
+from service.workflow import drafts
+from service.workflow.keys import Principal, Role
+
+QUEUED, RUNNING, DONE, FAILED = "queued", "running", "done", "failed"
+_THROTTLE_S = 0.5
+
+
+def view(row: JobRow) -> dict[str, Any]:
+    out: dict[str, Any] = {
+        "id": row.id,
+        "status": row.status,
+        "progress": {"stage": row.stage, "done": row.done, "total": row.total},
+        "created_at": row.created_at.isoformat(),
+        "updated_at": row.updated_at.isoformat(),
+        "links": {"self": f"/v1/jobs/{row.id}"},
+    }
+    if row.pack_id is not None:
+        out["pack"] = row.pack_id
+        out["links"]["pack"] = f"/v1/reports/{row.pack_id}"
+    if row.error is not None:
+        out["error"] = row.error
+    return out
+
+
+class Jobs:
+    def __init__(
+        self, *, sessions: sessionmaker[Any], store: Store, workers: Workers, settings: Settings
+    ) -> None:
+        self.sessions, self.store, self.workers, self.settings = sessions, store, workers, settings
+        self._tasks: set[asyncio.Task[None]] = set()
+
+    def recover(self) -> int:
+        """Fail the jobs a stopped process left unfinished; returns how many."""
+        with self.sessions.begin() as session:
+            result = session.execute(
+                update(JobRow)
+                .where(JobRow.status.in_((QUEUED, RUNNING)))
+                .values(
+                    status=FAILED,
+                    updated_at=now(),
+                    error={
+                        "code": "interrupted",
+                        "detail": "the service stopped while the job ran; post the definition again",
+                    },
+                )
+            )
+        return int(getattr(result, "rowcount", 0) or 0)
+
+    async def start(self, principal: Principal, raw: bytes) -> JobRow:
+        """Record a queued job and start it; answers before any work is done."""
+        principal.require(Role.author)
+        digest = await run_in_threadpool(self.store.put, raw)
+        moment = now()
+        row = JobRow(
+            id=f"jb_{uuid.uuid4().hex}",
+            key_id=principal.key_id,
+            status=QUEUED,
+            stage="queued",
+            done=0,
+            total=0,
+            definition_sha256=digest,
+            pack_id=None,
+            error=None,
+            created_at=moment,
+            updated_at=moment,
+        )
+        await run_in_threadpool(self._add, row)
+        task = asyncio.create_task(self._run(row.id, principal, raw))
+        self._tasks.add(task)
+        task.add_done_callback(self._tasks.discard)
+        return row
+
+    def _add(self, row: JobRow) -> None:
+        with self.sessions.begin() as session:
+            session.add(row)
+
+    def get(self, principal: Principal, job_id: str) -> JobRow:
+        with self.sessions() as session:
+            row: JobRow | None = session.get(JobRow, job_id)
+        if row is None or row.key_id != principal.key_id:
+            raise NotFound(f"there is no job '{job_id}'")
+        return row
+
+    def _set(self, job_id: str, **values: Any) -> None:
+        with self.sessions.begin() as session:
+            session.execute(
+                update(JobRow).where(JobRow.id == job_id).values(updated_at=now(), **values)
+            )
+
+    async def _run(self, job_id: str, principal: Principal, raw: bytes) -> None:
+        last = [0.0]
+
+        def progress(stage: str, done: int, total: int) -> None:  # called in a worker thread
+            moment = time.monotonic()
+            if moment - last[0] >= _THROTTLE_S or done == total:
+                last[0] = moment
+                self._set(job_id, status=RUNNING, stage=stage, done=done, total=total)
+
+        try:
+            await run_in_threadpool(self._set, job_id, status=RUNNING, stage="waiting")
+            built = await self.workers.build(raw, self.settings.limits, progress=progress)
+            row = await run_in_threadpool(
+                lambda: drafts.create(
+                    sessions=self.sessions,
+                    store=self.store,
+                    built=built,
+                    definition=raw,
+                    author=principal,
+                )
+            )
+            await run_in_threadpool(self._set, job_id, status=DONE, stage="done", pack_id=row.id)
+        except PlumblineError as exc:
+            error: dict[str, Any] = {"code": exc.code, "status": exc.status, "detail": exc.message}
+            if isinstance(exc, InvalidDefinition):
+                error["errors"] = [p.as_dict() for p in exc.problems]
+            await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=error)
+        except Exception as exc:  # noqa: BLE001 - a job must end, and say how
+            error = {"code": "internal_error", "detail": f"{type(exc).__name__}: {exc}"}
+            await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=error)
+
+    async def close(self) -> None:
+        """Let running jobs finish (shutdown is graceful: nothing half-done is left claimed)."""
+        if self._tasks:
+            await asyncio.gather(*self._tasks, return_exceptions=True)
+
+
+__all__ = ["DONE", "FAILED", "QUEUED", "RUNNING", "Jobs", "view"]

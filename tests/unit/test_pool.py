@@ -1,0 +1,103 @@
+"""The render worker pool: a job past its time budget is stopped by killing its worker, which is
+replaced; a worker that dies fails only its own job; progress reaches the caller; errors travel."""
+
+from __future__ import annotations
+
+import os
+import threading
+import time
+from collections.abc import Callable, Iterator
+from typing import Any
+
+import pytest
+
+from service.api.pool import Pool
+from service.errors import InvalidRequest, RenderFailed, RenderTimeout
+
+
+def counts_to(n: int, *, progress: Callable[[str, int, int], None]) -> int:
+    for i in range(1, n + 1):
+        progress("counting", i, n)
+    return n
+
+
+def pid() -> int:
+    return os.getpid()
+
+
+def dies() -> None:
+    os._exit(7)
+
+
+def refuses() -> None:
+    raise InvalidRequest("this job refuses on purpose")
+
+
+def breaks() -> None:
+    raise ZeroDivisionError("a fault inside the job")
+
+
+@pytest.fixture
+def pool() -> Iterator[Pool]:
+    workers = Pool(1, timeout=30)
+    yield workers
+    workers.close()
+
+
+def test_a_job_past_its_budget_is_stopped_and_its_worker_replaced(pool: Pool) -> None:
+    before = pool.run(pid)
+    started = time.monotonic()
+    with pytest.raises(RenderTimeout, match="time budget of 0.5 s"):
+        pool.run(time.sleep, 30, timeout=0.5)
+    assert time.monotonic() - started < 10  # stopped, not waited for
+    after = pool.run(pid)
+    assert after != before  # a new process took the killed one's place
+    assert pool.run(counts_to, 2, progress=lambda *_: None) == 2
+
+
+def test_a_worker_that_dies_fails_only_its_own_job(pool: Pool) -> None:
+    with pytest.raises(RenderFailed, match="stopped unexpectedly"):
+        pool.run(dies)
+    assert pool.run(pid) > 0
+
+
+def test_progress_reaches_the_caller_in_order(pool: Pool) -> None:
+    seen: list[tuple[Any, ...]] = []
+    assert pool.run(counts_to, 3, progress=lambda *args: seen.append(args)) == 3
+    assert seen == [("counting", 1, 3), ("counting", 2, 3), ("counting", 3, 3)]
+
+
+def test_product_errors_travel_and_foreign_ones_become_render_failures(pool: Pool) -> None:
+    with pytest.raises(InvalidRequest, match="refuses on purpose"):
+        pool.run(refuses)
+    with pytest.raises(RenderFailed, match="ZeroDivisionError: a fault inside the job"):
+        pool.run(breaks)
+    first = pool.run(pid)
+    assert pool.run(pid) == first  # an error is not a crash: the worker is kept
+
+
+def test_jobs_beyond_the_pool_size_wait_for_a_free_worker() -> None:
+    workers = Pool(2, timeout=30)
+    try:
+        results: list[int] = []
+        threads = [
+            threading.Thread(target=lambda: results.append(workers.run(pid))) for _ in range(6)
+        ]
+        for thread in threads:
+            thread.start()
+        for thread in threads:
+            thread.join(timeout=60)
+        assert len(results) == 6
+        assert len(set(results)) <= 2  # never more processes than the pool's size
+    finally:
+        workers.close()
+
+
+def test_a_closed_pool_refuses_new_jobs_and_leaves_no_process() -> None:
+    workers = Pool(1, timeout=30)
+    worker_pid = workers.run(pid)
+    workers.close()
+    with pytest.raises(RenderFailed, match="shutting down"):
+        workers.run(pid)
+    with pytest.raises(ProcessLookupError):
+        os.kill(worker_pid, 0)
