@@ -47,7 +47,7 @@ def pool() -> Iterator[Pool]:
 def test_a_job_past_its_budget_is_stopped_and_its_worker_replaced(pool: Pool) -> None:
     before = pool.run(pid)
     started = time.monotonic()
-    with pytest.raises(RenderTimeout, match="time budget of 0.5 s"):
+    with pytest.raises(RenderTimeout, match=r"time budget of 0\.5 s"):
         pool.run(time.sleep, 30, timeout=0.5)
     assert time.monotonic() - started < 10  # stopped, not waited for
     after = pool.run(pid)
