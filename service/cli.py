@@ -14,6 +14,8 @@ from datetime import datetime
 from pathlib import Path
 from typing import Any
 
+from pydantic import ValidationError
+
 from service import __version__
 from service.config import Settings, get_settings
 from service.errors import InvalidDefinition, PayloadTooLarge, PlumblineError, Unreadable
@@ -24,11 +26,13 @@ EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID, EXIT_INTERNAL = 0, 1, 2, 3
 def main(argv: list[str] | None = None) -> int:
     parser = _parser()
     args = parser.parse_args(argv)
-    if not hasattr(args, "run"):
-        parser.print_help()
+    settings = _settings() if hasattr(args, "run") else None
+    if settings is None:
+        if not hasattr(args, "run"):
+            parser.print_help()
         return EXIT_INVALID
     try:
-        return int(args.run(args, get_settings()))
+        return int(args.run(args, settings))
     except InvalidDefinition as exc:
         return _invalid(exc, json_out=getattr(args, "json", False))
     except PayloadTooLarge as exc:
@@ -46,6 +50,20 @@ def main(argv: list[str] | None = None) -> int:
             file=sys.stderr,
         )
         return EXIT_INTERNAL
+
+
+def _settings() -> Settings | None:
+    """The configuration, or ``None`` after saying plainly what in it is wrong."""
+    try:
+        return get_settings()
+    except ValidationError as exc:
+        problems = "; ".join(
+            (f"PLUMBLINE_{'__'.join(str(p) for p in e['loc']).upper()}: " if e["loc"] else "")
+            + str(e["msg"]).removeprefix("Value error, ")
+            for e in exc.errors()
+        )
+        print(f"configuration error: {problems}", file=sys.stderr)
+        return None
 
 
 def _parser() -> argparse.ArgumentParser:

@@ -52,6 +52,15 @@ class Settings(BaseSettings):
     """PLUMBLINE_SECURE_COOKIES: mark session cookies Secure (set it when served over HTTPS)."""
 
     @model_validator(mode="after")
+    def _strong_session_secret(self) -> Settings:
+        if self.session_secret is not None and len(self.session_secret.get_secret_value()) < 32:
+            raise ValueError(
+                "PLUMBLINE_SESSION_SECRET must be at least 32 characters; leave it unset to have "
+                "a random one made in the data folder"
+            )
+        return self
+
+    @model_validator(mode="after")
     def _default_database(self) -> Settings:
         if not self.database_url:
             self.database_url = f"sqlite:///{self.data_dir / 'plumbline.db'}"

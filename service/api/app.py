@@ -9,7 +9,7 @@ from typing import Any
 from fastapi import FastAPI
 from fastapi.openapi.utils import get_openapi
 
-from service import __version__
+from service import __version__, web
 from service.api import errors, reports
 from service.api.deps import Services
 from service.api.jobs import Jobs
@@ -54,6 +54,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     app.include_router(reports.router)
     app.include_router(reports.jobs_router)
     errors.install(app)
+    web.install(app)
     app.add_middleware(BodyLimit, limit=settings.limits.max_payload_bytes)
 
     def openapi() -> dict[str, Any]:

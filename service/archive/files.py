@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import hashlib
 import os
 import tempfile
@@ -23,6 +24,27 @@ def write_atomic(path: Path, data: bytes) -> None:
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+    folder = os.open(path.parent, os.O_RDONLY)
+    try:
+        os.fsync(folder)
+    finally:
+        os.close(folder)
+
+
+def write_once(path: Path, data: bytes) -> None:
+    """Create a secret file readable by the owner only, or keep the one that is there: when two
+    processes start at once, the first writer wins and both then read the same bytes."""
+    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.")
+    try:
+        os.fchmod(fd, 0o600)
+        with os.fdopen(fd, "wb") as out:
+            out.write(data)
+            out.flush()
+            os.fsync(out.fileno())
+        with contextlib.suppress(FileExistsError):  # another process made it first: use theirs
+            os.link(tmp, path)
+    finally:
+        os.unlink(tmp)
     folder = os.open(path.parent, os.O_RDONLY)
     try:
         os.fsync(folder)

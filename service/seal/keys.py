@@ -10,10 +10,7 @@ pyHanko requires of a signing certificate by default.
 
 from __future__ import annotations
 
-import contextlib
 import datetime as dt
-import os
-import tempfile
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -22,6 +19,8 @@ from cryptography import x509
 from cryptography.hazmat.primitives import hashes, serialization
 from cryptography.hazmat.primitives.asymmetric import rsa
 from cryptography.x509.oid import NameOID
+
+from service.archive.files import write_once
 
 DEVELOPMENT_ORGANISATION = "Plumbline development key (not an organisational seal)"
 DEVELOPMENT_FILE = "development-seal.pem"
@@ -101,7 +100,7 @@ def development(folder: Path, *, now: dt.datetime | None = None) -> SigningKey:
     path = folder / DEVELOPMENT_FILE
     if not path.exists():
         folder.mkdir(parents=True, exist_ok=True)
-        _write_once(path, _make_development(now or dt.datetime.now(dt.UTC)))
+        write_once(path, _make_development(now or dt.datetime.now(dt.UTC)))
     blob = path.read_bytes()
     marker = b"-----BEGIN CERTIFICATE-----"
     at = blob.find(marker)
@@ -158,21 +157,6 @@ def _make_development(now: dt.datetime) -> bytes:
         serialization.NoEncryption(),
     )
     return key_pem + cert.public_bytes(serialization.Encoding.PEM)
-
-
-def _write_once(path: Path, blob: bytes) -> None:
-    """Write key and certificate as one file, readable by the owner only; the first writer wins."""
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=".seal-")
-    try:
-        os.fchmod(fd, 0o600)
-        with os.fdopen(fd, "wb") as out:
-            out.write(blob)
-            out.flush()
-            os.fsync(out.fileno())
-        with contextlib.suppress(FileExistsError):  # another process made it first: use theirs
-            os.link(tmp, path)
-    finally:
-        os.unlink(tmp)
 
 
 def resolve(*, key_path: Path | None, cert_path: Path | None, development_dir: Path) -> SigningKey:

@@ -19,6 +19,7 @@ from factories import make_definition
 from pypdf import PdfReader
 
 from service import pipeline, seal
+from service.archive import files
 from service.config import Limits
 from service.seal import keys, pdfa
 
@@ -232,6 +233,6 @@ def test_unusable_keys_are_refused(tmp_path: Path) -> None:
 
 def test_a_second_writer_keeps_the_first_key(tmp_path: Path) -> None:
     first = keys.development(tmp_path)
-    keys._write_once(tmp_path / keys.DEVELOPMENT_FILE, b"not a key")
+    files.write_once(tmp_path / keys.DEVELOPMENT_FILE, b"not a key")
     assert keys.development(tmp_path) == first
-    assert not [n for n in os.listdir(tmp_path) if n.startswith(".seal-")]
+    assert not [n for n in os.listdir(tmp_path) if n.startswith(".")]  # no temp file left
