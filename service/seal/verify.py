@@ -147,7 +147,12 @@ def _signature(
     report.signer = subject
     report.development_key = organisation == DEVELOPMENT_ORGANISATION
     prefix = "a development key, not an organisational seal: " if report.development_key else ""
-    report.add("signed by", True, f"{prefix}{subject}")
+    if sound:
+        report.add("signed by", True, f"{prefix}{subject}")
+    else:
+        report.add(
+            "signed by", False, f"claims {prefix}{subject}, but the signature does not vouch"
+        )
     whole = str(status.coverage) == "SignatureCoverageLevel.ENTIRE_FILE"
     report.add(
         "signature covers the whole file",

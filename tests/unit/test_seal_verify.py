@@ -98,6 +98,9 @@ def test_a_flipped_byte_in_the_middle_breaks_the_signature(
     assert not report.ok
     assert not report.step("signature intact").ok
     assert "changed since signing" in report.step("signature intact").detail
+    signer = report.step("signed by")  # the name in a broken signature is only a claim
+    assert not signer.ok
+    assert signer.detail.startswith("claims a development key")
 
 
 def test_a_flipped_byte_in_the_attachment_fails_the_rerender(
