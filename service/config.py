@@ -39,6 +39,9 @@ class Settings(BaseSettings):
     host: str = "127.0.0.1"
     port: int = Field(8000, ge=0, le=65535)
     limits: Limits = Limits()
+    max_queued_jobs: int = Field(200, ge=1, le=100_000)
+    """PLUMBLINE_MAX_QUEUED_JOBS: background builds waiting or running in one process; past it a
+    new one is refused with 429 and Retry-After."""
     render_timeout_s: float = Field(300.0, gt=0, le=86_400)
     """PLUMBLINE_RENDER_TIMEOUT_S: a render (or seal, or verify) past this is stopped and fails."""
     seal_key: Path | None = None

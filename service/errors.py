@@ -12,6 +12,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── NotFound (404, not_found)
     ├── Conflict (409, conflict)                       an illegal transition, a changed draft, a race
     ├── InvalidRequest (422, invalid_request)          a request that is not a definition is wrong
+    ├── TooBusy (429, too_busy)                        the background queue is full (Retry-After)
     ├── RenderTimeout (422, render_timeout)            a render past its time budget, stopped
     └── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
 
@@ -155,3 +156,21 @@ class RenderTimeout(PlumblineError):
 
     code = "render_timeout"
     status = 422
+
+
+class TooBusy(PlumblineError):
+    """More background builds are waiting than the service accepts: try again later."""
+
+    code = "too_busy"
+    status = 429
+
+    def __init__(self, message: str, *, retry_after: int) -> None:
+        super().__init__(message)
+        self.retry_after = retry_after
+
+    def __reduce__(self) -> tuple[Any, ...]:
+        return (_too_busy, (self.message, self.retry_after))
+
+
+def _too_busy(message: str, retry_after: int) -> TooBusy:
+    return TooBusy(message, retry_after=retry_after)

@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import hashlib
+from collections import OrderedDict
+from dataclasses import dataclass, field
 from typing import Annotated, Any
 
 from fastapi import Depends, Path, Request
@@ -27,6 +29,8 @@ class Services:
     store: Store
     workers: Workers
     jobs: Jobs
+    known_keys: OrderedDict[bytes, str] = field(default_factory=OrderedDict)
+    """SHA-256 of a secret already checked with scrypt → its key id (most recent last)."""
 
 
 def _services(request: Request) -> Services:
@@ -40,6 +44,8 @@ ServicesDep = Annotated[Services, Depends(_services)]
 PackId = Annotated[str, Path(pattern=r"^pk_[0-9a-f]{32}$", description="A pack id, e.g. pk_3f…")]
 
 
+KNOWN_KEYS = 4096
+
 _bearer = HTTPBearer(
     auto_error=False,
     description="An API key made with `plumbline keys create`, as `Authorization: Bearer <key>`.",
@@ -52,8 +58,20 @@ async def _principal(
 ) -> Principal:
     if credentials is None or credentials.scheme.lower() != "bearer":
         raise Unauthorized("send an API key as 'Authorization: Bearer <key>'")
-    # scrypt is deliberately slow: hash off the event loop
-    return await run_in_threadpool(keys.authenticate, services.sessions, credentials.credentials)
+    secret = credentials.credentials
+    # scrypt is deliberately slow (tens of milliseconds): a secret that passed it once is known by
+    # its SHA-256 (a 256-bit random secret cannot be guessed from it), and its key is still looked
+    # up on every request, so a revoked or expired key is refused at once.
+    digest = hashlib.sha256(secret.encode()).digest()
+    known = services.known_keys.get(digest)
+    if known is not None:
+        services.known_keys.move_to_end(digest)
+        return await run_in_threadpool(keys.principal_for, services.sessions, known)
+    principal = await run_in_threadpool(keys.authenticate, services.sessions, secret)
+    services.known_keys[digest] = principal.key_id
+    while len(services.known_keys) > KNOWN_KEYS:
+        services.known_keys.popitem(last=False)
+    return principal
 
 
 PrincipalDep = Annotated[Principal, Depends(_principal)]

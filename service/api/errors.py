@@ -16,7 +16,7 @@ from fastapi.exceptions import RequestValidationError
 from fastapi.responses import JSONResponse
 
 from service.definition import paths
-from service.errors import InvalidDefinition, PlumblineError, Problem
+from service.errors import InvalidDefinition, PlumblineError, Problem, TooBusy
 
 log = logging.getLogger("plumbline.api")
 
@@ -53,6 +53,8 @@ def install(app: FastAPI) -> None:
         response = problem(exc.status, exc.code, exc.message)
         if exc.status == 401:
             response.headers["WWW-Authenticate"] = 'Bearer realm="plumbline"'
+        if isinstance(exc, TooBusy):
+            response.headers["Retry-After"] = str(exc.retry_after)
         return response
 
     @app.exception_handler(RequestValidationError)

@@ -2,7 +2,7 @@
 the draft in a worker process and ends *done* (with the draft's id) or *failed* (with the problem).
 
 The job's state lives in the ``jobs`` table, so any process of the service can answer
-``GET /v1/jobs/{id}``; progress is written there as the worker reports it (at most twice a second).
+``GET /v1/jobs/{id}``; progress of a running job is kept in the memory of the process that runs it.
 A job left *queued* or *running* by a process that stopped is marked failed when the service
 starts again, saying so: nothing claims to be running that is not.
 """
@@ -10,7 +10,7 @@ starts again, saying so: nothing claims to be running that is not.
 from __future__ import annotations
 
 import asyncio
-import time
+import hashlib
 import uuid
 from typing import Any
 
@@ -22,12 +22,11 @@ from service.api.workers import Workers
 from service.archive.db import JobRow, now
 from service.archive.files import Store
 from service.config import Settings
-from service.errors import InvalidDefinition, NotFound, PlumblineError
+from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy
 from service.workflow import drafts
 from service.workflow.keys import Principal, Role
 
 QUEUED, RUNNING, DONE, FAILED = "queued", "running", "done", "failed"
-_THROTTLE_S = 0.5
 
 
 def view(row: JobRow) -> dict[str, Any]:
@@ -53,6 +52,10 @@ class Jobs:
     ) -> None:
         self.sessions, self.store, self.workers, self.settings = sessions, store, workers, settings
         self._tasks: set[asyncio.Task[None]] = set()
+        self._starting = 0
+        self._live: dict[str, tuple[str, int, int]] = {}
+        """Progress of this process's running jobs, kept in memory: one database write per job
+        start and end, not per progress message, keeps the archive's write lock free for others."""
 
     def recover(self) -> int:
         """Fail the jobs a stopped process left unfinished; returns how many."""
@@ -74,7 +77,21 @@ class Jobs:
     async def start(self, principal: Principal, raw: bytes) -> JobRow:
         """Record a queued job and start it; answers before any work is done."""
         principal.require(Role.author)
-        digest = await run_in_threadpool(self.store.put, raw)
+        active = len(self._tasks) + self._starting
+        if active >= self.settings.max_queued_jobs:
+            raise TooBusy(
+                f"{active} background builds are waiting or running, the most this service "
+                "takes (PLUMBLINE_MAX_QUEUED_JOBS); retry after the time given",
+                retry_after=max(1, active // max(1, self.workers.size)),
+            )
+        self._starting += 1  # counted before the first await, so concurrent starts see it
+        try:
+            return await self._queue(principal, raw)
+        finally:
+            self._starting -= 1
+
+    async def _queue(self, principal: Principal, raw: bytes) -> JobRow:
+        digest = hashlib.sha256(raw).hexdigest()  # stored with the draft; the job holds the bytes
         moment = now()
         row = JobRow(
             id=f"jb_{uuid.uuid4().hex}",
@@ -104,6 +121,9 @@ class Jobs:
             row: JobRow | None = session.get(JobRow, job_id)
         if row is None or row.key_id != principal.key_id:
             raise NotFound(f"there is no job '{job_id}'")
+        live = self._live.get(job_id)
+        if live is not None and row.status == RUNNING:
+            row.stage, row.done, row.total = live
         return row
 
     def _set(self, job_id: str, **values: Any) -> None:
@@ -113,16 +133,12 @@ class Jobs:
             )
 
     async def _run(self, job_id: str, principal: Principal, raw: bytes) -> None:
-        last = [0.0]
-
         def progress(stage: str, done: int, total: int) -> None:  # called in a worker thread
-            moment = time.monotonic()
-            if moment - last[0] >= _THROTTLE_S or done == total:
-                last[0] = moment
+            if job_id not in self._live:  # the one write: the job has a worker now
                 self._set(job_id, status=RUNNING, stage=stage, done=done, total=total)
+            self._live[job_id] = (stage, done, total)
 
         try:
-            await run_in_threadpool(self._set, job_id, status=RUNNING, stage="waiting")
             built = await self.workers.build(raw, self.settings.limits, progress=progress)
             row = await run_in_threadpool(
                 lambda: drafts.create(
@@ -142,6 +158,8 @@ class Jobs:
         except Exception as exc:  # noqa: BLE001 - a job must end, and say how
             error = {"code": "internal_error", "detail": f"{type(exc).__name__}: {exc}"}
             await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=error)
+        finally:
+            self._live.pop(job_id, None)
 
     async def close(self) -> None:
         """Let running jobs finish (shutdown is graceful: nothing half-done is left claimed)."""

@@ -6,6 +6,7 @@ job has the configured time budget; past it the worker is killed and the job fai
 from __future__ import annotations
 
 import asyncio
+import os
 from collections.abc import Callable
 from functools import partial
 from typing import Any, TypeVar
@@ -22,7 +23,13 @@ from service.workflow import sealing
 T = TypeVar("T")
 
 
+WORKER_NICENESS = 5
+"""Render workers run at a lower CPU priority than the process answering requests, so accepting
+a job or answering a status query stays quick while every core is drawing."""
+
+
 def _start_worker() -> None:
+    os.nice(WORKER_NICENESS)
     style.install()
 
 
