@@ -1,4 +1,5 @@
-"""The ``plumbline`` command: schema, checks, check, render, walkthrough, verify, keys, serve.
+"""The ``plumbline`` command: schema, checks, check, render, walkthrough, verify, keys, serve,
+worker.
 
 Exit codes: 0 success; 1 an unwaived check failed (``render`` still writes the draft); 2 the input is
 invalid (every problem is printed with its path) or cannot be read; 3 a fault inside Plumbline.
@@ -117,6 +118,10 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("definition", type=Path)
     p.add_argument("-o", "--output", type=Path, required=True, help="where to write the sealed PDF")
     p.set_defaults(run=_walkthrough)
+
+    p = sub.add_parser("worker", help="run a build worker for the queue (PLUMBLINE_QUEUE_URL)")
+    p.add_argument("celery_args", nargs=argparse.REMAINDER, help="further Celery worker options")
+    p.set_defaults(run=_worker)
 
     p = sub.add_parser("keys", help="manage API keys (people and their roles)")
     actions = p.add_subparsers(metavar="ACTION")
@@ -317,6 +322,16 @@ def _walkthrough(args: argparse.Namespace, settings: Settings) -> int:
         print(f"  {'ok  ' if step.ok else 'FAIL'}  {step.name}: {step.detail[:160]}")
     print("verified" if report.ok else "NOT verified: see the failed steps above")
     return EXIT_OK if report.ok else EXIT_FAILED_CHECKS
+
+
+def _worker(args: argparse.Namespace, settings: Settings) -> int:
+    from service.distributed.queue import run_worker
+
+    if not settings.queue_url:
+        print("error: set PLUMBLINE_QUEUE_URL (e.g. redis://127.0.0.1:6379/0)", file=sys.stderr)
+        return EXIT_INVALID
+    run_worker(settings, args.celery_args)
+    return EXIT_OK
 
 
 def _aware_time(text: str) -> datetime:

@@ -42,6 +42,19 @@ class Settings(BaseSettings):
     max_queued_jobs: int = Field(200, ge=1, le=100_000)
     """PLUMBLINE_MAX_QUEUED_JOBS: background builds waiting or running in one process; past it a
     new one is refused with 429 and Retry-After."""
+    store_url: str = ""
+    """PLUMBLINE_STORE_URL: where PDFs and definitions live — unset: files under the data folder;
+    ``s3://bucket/prefix``: an S3-compatible object store; ``file:///path``: files there."""
+    s3_endpoint_url: str | None = None
+    """PLUMBLINE_S3_ENDPOINT_URL: the endpoint of an S3-compatible service that is not AWS."""
+    queue_url: str = ""
+    """PLUMBLINE_QUEUE_URL: ``redis://host:port/db`` to build on Celery workers
+    (``plumbline worker``); unset: in the service's own worker processes."""
+    queue_visibility_timeout_s: float | None = Field(None, gt=0)
+    """PLUMBLINE_QUEUE_VISIBILITY_TIMEOUT_S: when an unacknowledged build is delivered again;
+    default: the render time budget + 120 s."""
+    queue_restore_interval_s: float = Field(10.0, gt=0)
+    """PLUMBLINE_QUEUE_RESTORE_INTERVAL_S: how often workers look for builds to deliver again."""
     render_timeout_s: float = Field(300.0, gt=0, le=86_400)
     """PLUMBLINE_RENDER_TIMEOUT_S: a render (or seal, or verify) past this is stopped and fails."""
     seal_key: Path | None = None

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from collections.abc import AsyncIterator
 from contextlib import asynccontextmanager
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from fastapi import FastAPI
 from fastapi.openapi.utils import get_openapi
@@ -17,9 +17,12 @@ from service.api.limits import BodyLimit
 from service.api.routes import router
 from service.api.workers import Workers
 from service.archive import db
-from service.archive.files import Store
+from service.archive.objects import open_store
 from service.config import Settings, get_settings
 from service.definition.model import ReportDefinition
+
+if TYPE_CHECKING:
+    from service.distributed.jobs import CeleryJobs
 
 
 def create_app(settings: Settings | None = None) -> FastAPI:
@@ -30,8 +33,14 @@ def create_app(settings: Settings | None = None) -> FastAPI:
         settings.data_dir.mkdir(parents=True, exist_ok=True)
         workers = Workers(settings.workers, timeout=settings.render_timeout_s)
         sessions = db.connect(settings.database_url)
-        store = Store(settings.store_dir)
-        jobs = Jobs(sessions=sessions, store=store, workers=workers, settings=settings)
+        store = open_store(settings)
+        jobs: Jobs | CeleryJobs
+        if settings.queue_url:
+            from service.distributed.jobs import CeleryJobs  # Celery loads only when configured
+
+            jobs = CeleryJobs(sessions=sessions, store=store, settings=settings)
+        else:
+            jobs = Jobs(sessions=sessions, store=store, workers=workers, settings=settings)
         jobs.recover()
         app.state.services = Services(
             settings=settings, sessions=sessions, store=store, workers=workers, jobs=jobs

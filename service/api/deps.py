@@ -5,7 +5,7 @@ from __future__ import annotations
 import hashlib
 from collections import OrderedDict
 from dataclasses import dataclass, field
-from typing import Annotated, Any
+from typing import TYPE_CHECKING, Annotated, Any
 
 from fastapi import Depends, Path, Request
 from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
@@ -15,20 +15,23 @@ from starlette.concurrency import run_in_threadpool
 from service.api.jobs import Jobs
 from service.api.workers import Workers
 from service.archive.db import PackRow
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.config import Settings
 from service.errors import Unauthorized
 from service.workflow import drafts, keys
 from service.workflow.keys import Principal
+
+if TYPE_CHECKING:
+    from service.distributed.jobs import CeleryJobs  # Celery loads only when configured
 
 
 @dataclass
 class Services:
     settings: Settings
     sessions: sessionmaker[Any]
-    store: Store
+    store: BlobStore
     workers: Workers
-    jobs: Jobs
+    jobs: Jobs | CeleryJobs
     known_keys: OrderedDict[bytes, str] = field(default_factory=OrderedDict)
     """SHA-256 of a secret already checked with scrypt → its key id (most recent last)."""
 

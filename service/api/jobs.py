@@ -20,7 +20,7 @@ from starlette.concurrency import run_in_threadpool
 
 from service.api.workers import Workers
 from service.archive.db import JobRow, now
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.config import Settings
 from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy
 from service.workflow import drafts
@@ -48,7 +48,7 @@ def view(row: JobRow) -> dict[str, Any]:
 
 class Jobs:
     def __init__(
-        self, *, sessions: sessionmaker[Any], store: Store, workers: Workers, settings: Settings
+        self, *, sessions: sessionmaker[Any], store: BlobStore, workers: Workers, settings: Settings
     ) -> None:
         self.sessions, self.store, self.workers, self.settings = sessions, store, workers, settings
         self._tasks: set[asyncio.Task[None]] = set()

@@ -7,6 +7,7 @@ import hashlib
 import os
 import tempfile
 from pathlib import Path
+from typing import Protocol
 
 from service.errors import NotFound
 
@@ -50,6 +51,15 @@ def write_once(path: Path, data: bytes) -> None:
         os.fsync(folder)
     finally:
         os.close(folder)
+
+
+class BlobStore(Protocol):
+    """What the workflow needs of a store: bytes in by content, bytes out by SHA-256. ``Store``
+    (local files) and ``objects.ObjectStore`` (an S3-compatible service) both are one."""
+
+    def put(self, data: bytes) -> str: ...
+
+    def get(self, digest: str) -> bytes: ...
 
 
 class Store:

@@ -17,7 +17,7 @@ from sqlalchemy.orm import sessionmaker
 
 from service.archive import audit
 from service.archive.db import PackRow, ReviewRow, SealRow, WaiverRow, utc
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.checks import CHECKS
 from service.workflow import drafts, lifecycle
 from service.workflow.keys import Principal, Role
@@ -94,7 +94,7 @@ class PackPage:
     facts: dict[str, str] = field(default_factory=dict)
 
 
-def charts_of(store: Store, row: PackRow) -> dict[str, tuple[str, str]]:
+def charts_of(store: BlobStore, row: PackRow) -> dict[str, tuple[str, str]]:
     """chart id → (intent, title), read from the stored definition."""
     definition = json.loads(store.get(row.definition_sha256))
     found: dict[str, tuple[str, str]] = {}
@@ -114,7 +114,7 @@ def waivers_of(sessions: sessionmaker[Any], pack_id: str) -> list[WaiverRow]:
 
 
 def pack_page(
-    *, sessions: sessionmaker[Any], store: Store, principal: Principal, pack_id: str
+    *, sessions: sessionmaker[Any], store: BlobStore, principal: Principal, pack_id: str
 ) -> PackPage:
     """The pack as a key may see it (another family's pack raises NotFound)."""
     row = drafts.visible(sessions=sessions, principal=principal, pack_id=pack_id)

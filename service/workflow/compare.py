@@ -29,7 +29,7 @@ from sqlalchemy.orm import Session, sessionmaker
 
 from service import pipeline
 from service.archive.db import PackRow, ReviewRow, WaiverRow, utc
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.config import Limits
 from service.definition.model import DistributionChart
 from service.errors import Conflict, InvalidDefinition, InvalidRequest, NotFound
@@ -367,7 +367,7 @@ def _size_of_move(entry: dict[str, Any]) -> tuple[float, float, str, str]:
 def compare(
     *,
     sessions: sessionmaker[Any],
-    store: Store,
+    store: BlobStore,
     principal: Principal,
     pack_id: str,
     other_id: str,
@@ -423,7 +423,7 @@ def _figures_of(pack_id: str, definition: bytes, limits: Limits) -> tuple[Figure
     return tuple(f for found in figures.values() for f in found)
 
 
-def _signed_pack(session: Session, store: Store, row: PackRow) -> tuple[SignedPack, bytes]:
+def _signed_pack(session: Session, store: BlobStore, row: PackRow) -> tuple[SignedPack, bytes]:
     """The pack as the archive recorded it (figures still to read), and its definition's bytes."""
     definition = store.get(row.definition_sha256)
     review = session.get(ReviewRow, row.id)

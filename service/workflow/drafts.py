@@ -12,7 +12,7 @@ from sqlalchemy.orm import sessionmaker
 
 from service.archive import audit
 from service.archive.db import PackRow, ReviewRow, SealRow, now
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.errors import Forbidden, InvalidRequest, NotFound
 from service.pipeline import Built
 from service.workflow.keys import Principal, Role, can_see
@@ -25,7 +25,7 @@ MAX_PAGE = 200
 def create(
     *,
     sessions: sessionmaker[Any],
-    store: Store,
+    store: BlobStore,
     built: Built,
     definition: bytes,
     author: Principal | None = None,

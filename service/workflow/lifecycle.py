@@ -46,7 +46,7 @@ from service.archive.db import (
     utc,
     waived_checks,
 )
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.checks.registry import CHECKS
 from service.errors import Conflict, Forbidden, InvalidRequest, NotFound
 from service.workflow.keys import Principal, Role, can_see
@@ -119,7 +119,7 @@ def request_changes(
 def waive(
     *,
     sessions: sessionmaker[Any],
-    store: Store,
+    store: BlobStore,
     principal: Principal,
     pack_id: str,
     check: str,
@@ -349,7 +349,7 @@ def _visible(session: Session, principal: Principal, pack_id: str) -> PackRow:
     return row
 
 
-def _intent(store: Store, row: PackRow, chart: str) -> str | None:
+def _intent(store: BlobStore, row: PackRow, chart: str) -> str | None:
     definition = json.loads(store.get(row.definition_sha256))
     for section in definition.get("sections", []):
         for item in section.get("charts", []):

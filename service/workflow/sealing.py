@@ -33,7 +33,7 @@ from sqlalchemy.orm import sessionmaker
 
 from service import pipeline, seal
 from service.archive.db import PackRow, SealRow
-from service.archive.files import Store
+from service.archive.files import BlobStore
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import ReportDefinition, Waiver
@@ -218,7 +218,7 @@ Sealer = Callable[[bytes, dict[str, Any]], SealedPack]
 def sign_off_and_seal(
     *,
     sessions: sessionmaker[Any],
-    store: Store,
+    store: BlobStore,
     principal: Principal,
     pack_id: str,
     content_sha256: str,

@@ -1,0 +1,273 @@
+"""Real services for the distributed builds: a throwaway redis-server, moto's S3 server, the
+archive on a throwaway PostgreSQL server (the fixture of ``tests/archive/conftest.py``), and Celery
+worker processes started and killed by the tests.
+
+Without redis-server (Debian's ``redis-server`` package) the tests are skipped with a loud reason,
+unless ``PLUMBLINE_REQUIRE_DISTRIBUTED=1`` (CI sets it), which turns that into a failure.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import importlib.util
+import logging
+import os
+import shutil
+import signal
+import socket
+import subprocess
+import sys
+import tempfile
+import time
+import uuid
+from collections.abc import Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import pytest
+from sqlalchemy import create_engine, text
+
+from service.archive import db
+from service.config import Settings
+from service.workflow import keys
+from service.workflow.keys import Principal, Role
+
+ROOT = Path(__file__).parents[2]
+BUCKET = "plumbline-packs"
+RENDER_BUDGET_S = 8.0
+VISIBILITY_TIMEOUT_S = 10.0
+"""Short, so a build whose worker was killed is delivered again within the test: above the render
+budget, as the service requires."""
+RESTORE_INTERVAL_S = 1.0
+
+# The archive tests' PostgreSQL fixture, loaded from its file (it is not a package).
+_spec = importlib.util.spec_from_file_location(
+    "plumbline_archive_conftest", ROOT / "tests" / "archive" / "conftest.py"
+)
+assert _spec is not None
+assert _spec.loader is not None
+_archive = importlib.util.module_from_spec(_spec)
+sys.modules[_spec.name] = _archive  # its dataclass looks its module up there
+_spec.loader.exec_module(_archive)
+postgres_server = _archive.postgres_server
+
+
+def _free_port() -> int:
+    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as probe:
+        probe.bind(("127.0.0.1", 0))
+        port: int = probe.getsockname()[1]
+        return port
+
+
+def _unavailable(reason: str) -> None:
+    if os.environ.get("PLUMBLINE_REQUIRE_DISTRIBUTED") == "1":
+        pytest.fail(f"PLUMBLINE_REQUIRE_DISTRIBUTED=1 but {reason}", pytrace=False)
+    pytest.skip(
+        f"!!! distributed build tests NOT RUN: {reason}; install Debian's redis-server package "
+        "(apt-get install redis-server) to run them"
+    )
+
+
+@pytest.fixture(scope="session")
+def redis_url() -> Iterator[str]:
+    """A redis-server of its own on a free loopback port, nothing kept on disk."""
+    binary = shutil.which("redis-server")
+    if binary is None:
+        _unavailable("there is no redis-server on PATH")
+    assert binary is not None
+    import redis
+
+    folder = Path(tempfile.mkdtemp(prefix="plumbline-redis-"))
+    port = _free_port()
+    process = subprocess.Popen(
+        [
+            *(binary, "--port", str(port), "--bind", "127.0.0.1"),
+            *("--save", "", "--appendonly", "no"),
+            *("--dir", str(folder), "--logfile", str(folder / "redis.log")),
+        ],
+        stdout=subprocess.DEVNULL,
+        stderr=subprocess.STDOUT,
+    )
+    client = redis.Redis(host="127.0.0.1", port=port)
+    try:
+        deadline = time.monotonic() + 20
+        while True:
+            try:
+                client.ping()
+                break
+            except redis.ConnectionError:
+                if process.poll() is not None or time.monotonic() > deadline:
+                    log = (folder / "redis.log").read_text(errors="replace")
+                    pytest.fail(f"redis-server did not start:\n{log}")
+                time.sleep(0.05)
+        yield f"redis://127.0.0.1:{port}/0"
+    finally:
+        client.close()
+        process.terminate()
+        process.wait(timeout=10)
+        shutil.rmtree(folder, ignore_errors=True)
+
+
+AWS_ENV = {
+    "AWS_ACCESS_KEY_ID": "plumbline-test",
+    "AWS_SECRET_ACCESS_KEY": "plumbline-test-secret",
+    "AWS_DEFAULT_REGION": "us-east-1",
+}
+
+
+@pytest.fixture(scope="session")
+def s3_endpoint() -> Iterator[str]:
+    """moto's S3 server on a free loopback port (its state lives in this test process)."""
+    from moto.server import ThreadedMotoServer
+
+    logging.getLogger("werkzeug").setLevel(logging.WARNING)  # one line per request otherwise
+    server = ThreadedMotoServer(ip_address="127.0.0.1", port=_free_port(), verbose=False)
+    server.start()
+    host, port = server.get_host_and_port()
+    try:
+        yield f"http://{host}:{port}"
+    finally:
+        server.stop()
+
+
+@pytest.fixture
+def bucket() -> str:
+    return BUCKET
+
+
+@pytest.fixture
+def s3(s3_endpoint: str, monkeypatch: pytest.MonkeyPatch) -> Any:
+    """An S3 client of the test server with the bucket made, and the AWS environment set."""
+    import boto3
+
+    for name, value in AWS_ENV.items():
+        monkeypatch.setenv(name, value)
+    client = boto3.client("s3", endpoint_url=s3_endpoint, region_name="us-east-1")
+    client.create_bucket(Bucket=BUCKET)  # the same bucket again is fine in us-east-1
+    return client
+
+
+@pytest.fixture
+def postgres_url(postgres_server: Any) -> Iterator[str]:
+    """A new, empty database on the throwaway PostgreSQL server."""
+    name = f"t_{uuid.uuid4().hex[:16]}"
+    admin = create_engine(postgres_server.url(), isolation_level="AUTOCOMMIT")
+    try:
+        with admin.connect() as connection:
+            connection.execute(text(f'CREATE DATABASE "{name}"'))
+        yield postgres_server.url(name)
+        with admin.connect() as connection:
+            connection.execute(text(f'DROP DATABASE "{name}" WITH (FORCE)'))
+    finally:
+        admin.dispose()
+
+
+@dataclass
+class Stack:
+    """One test's deployment: the environment every process of it reads, the service side's
+    settings and archive, and the workers it started."""
+
+    env: dict[str, str]
+    settings: Settings
+    sessions: Any
+    logs: Path
+    workers: list[subprocess.Popen[bytes]] = field(default_factory=list)
+
+    def author(self, name: str = "Ann Author") -> Principal:
+        key_id, _ = keys.create(
+            self.sessions, name=name, roles={Role.author}, families={"*"}, expires=None
+        )
+        return keys.principal_for(self.sessions, key_id)
+
+    def start_worker(self, name: str) -> subprocess.Popen[bytes]:
+        """A Celery worker process (one build at a time), in its own process group, waited for
+        until it says it is ready."""
+        log = self.logs / f"{name}.log"
+        command = [sys.executable, "-m", "celery", "-A", "service.distributed.app", "worker"]
+        command += ["--pool=solo", "--loglevel=INFO", "-n", f"{name}@%h"]
+        command += ["--without-gossip", "--without-mingle", "--without-heartbeat"]
+        with log.open("wb") as out:
+            process = subprocess.Popen(
+                command,
+                cwd=ROOT,
+                env=self.env,
+                stdout=out,
+                stderr=subprocess.STDOUT,
+                start_new_session=True,
+            )
+        self.workers.append(process)
+        deadline = time.monotonic() + 60
+        while b" ready." not in log.read_bytes():
+            if process.poll() is not None or time.monotonic() > deadline:
+                self.stop(process)
+                pytest.fail(f"worker {name} did not start:\n{log.read_text(errors='replace')}")
+            time.sleep(0.1)
+        return process
+
+    def kill(self, process: subprocess.Popen[bytes]) -> None:
+        """SIGKILL the worker and its render process at once, as when its machine is lost."""
+        os.killpg(process.pid, signal.SIGKILL)
+        process.wait(timeout=10)
+
+    def stop(self, process: subprocess.Popen[bytes]) -> None:
+        if process.poll() is None:
+            os.killpg(process.pid, signal.SIGTERM)
+            try:
+                process.wait(timeout=20)
+            except subprocess.TimeoutExpired:
+                os.killpg(process.pid, signal.SIGKILL)
+                process.wait(timeout=10)
+        # the render process it left, if any, goes with its group
+        with contextlib.suppress(ProcessLookupError):
+            os.killpg(process.pid, signal.SIGKILL)
+
+    def log_of(self, name: str) -> str:
+        return (self.logs / f"{name}.log").read_text(errors="replace")
+
+
+@pytest.fixture
+def stack(
+    redis_url: str,
+    s3: Any,
+    s3_endpoint: str,
+    postgres_url: str,
+    *,
+    tmp_path: Path,
+    monkeypatch: pytest.MonkeyPatch,
+) -> Iterator[Stack]:
+    import redis
+
+    flush = redis.Redis.from_url(redis_url)
+    flush.flushall()  # no message of an earlier test reaches this one's workers
+    flush.close()
+    prefix = f"t-{uuid.uuid4().hex[:12]}"
+    env = {
+        **{k: v for k, v in os.environ.items() if not k.startswith("PLUMBLINE_")},
+        **AWS_ENV,
+        "PLUMBLINE_DATA_DIR": str(tmp_path / "var"),
+        "PLUMBLINE_DATABASE_URL": postgres_url,
+        "PLUMBLINE_QUEUE_URL": redis_url,
+        "PLUMBLINE_STORE_URL": f"s3://{BUCKET}/{prefix}",
+        "PLUMBLINE_S3_ENDPOINT_URL": s3_endpoint,
+        "PLUMBLINE_RENDER_TIMEOUT_S": str(RENDER_BUDGET_S),
+        "PLUMBLINE_QUEUE_VISIBILITY_TIMEOUT_S": str(VISIBILITY_TIMEOUT_S),
+        "PLUMBLINE_QUEUE_RESTORE_INTERVAL_S": str(RESTORE_INTERVAL_S),
+        "MPLCONFIGDIR": str(tmp_path / "mpl"),
+    }
+    for name, value in env.items():
+        if name.startswith("PLUMBLINE_"):
+            monkeypatch.setenv(name, value)
+    settings = Settings(
+        data_dir=tmp_path / "var", database_url=postgres_url, render_timeout_s=RENDER_BUDGET_S
+    )
+    sessions = db.connect(postgres_url)
+    logs = tmp_path / "logs"
+    logs.mkdir()
+    built = Stack(env=env, settings=settings, sessions=sessions, logs=logs)
+    try:
+        yield built
+    finally:
+        for process in built.workers:
+            built.stop(process)
+        db.engine_of(sessions).dispose()
