@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test lint unit serve schema docs clean
+.PHONY: demo test lint unit serve schema docs load clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -38,6 +38,9 @@ serve: $(VENV)/.installed
 
 schema: $(VENV)/.installed
 	$(BIN)/plumbline schema
+
+load: $(VENV)/.installed
+	$(BIN)/python -m service.bench.load --clients 50 --seconds 60 --out out/bench
 
 docs: $(VENV)/.installed
 	@mkdir -p docs

@@ -35,7 +35,7 @@ def expected_gaps(ctx: Context) -> tuple[list[str], dict[int, list[str]]]:
     for measure in measures_of(ctx.chart):
         for i in map(int, frame.index.get_indexer(frame.index[frame[measure].isna()])):
             gaps.setdefault(i, []).append(measure)
-    labels = [periods.label(p, table.frequency, ctx.locale) for p in full]
+    labels = periods.labels(full, table.frequency, ctx.locale)
     return labels, dict(sorted(gaps.items()))
 
 
@@ -45,12 +45,12 @@ def _violations(plan: ChartPlan, labels: list[str], gaps: dict[int, list[str]]) 
     found: list[str] = []
     marked = {g.index: set(g.series) for g in plan.gaps}
     for series in all_series(plan):
-        for i, names in gaps.items():
-            if series.name not in names:
-                continue
-            if series.at(i) is not None:
+        missing = [i for i, names in gaps.items() if series.name in names]
+        drawn, joined = series.drawn_at(missing), series.spanned(missing)
+        for i, value, across in zip(missing, drawn, joined, strict=True):
+            if value:
                 found.append(f"{series.name} has a value drawn at {labels[i]}")
-            if series.spans(i):
+            if across:
                 found.append(f"{series.name} is joined across {labels[i]}")
             if series.name not in marked.get(i, set()):
                 found.append(f"{labels[i]} is not marked 'no data' for {series.name}")

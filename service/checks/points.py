@@ -72,17 +72,22 @@ def m4_indexes(
 
 def present_count(series: Series) -> int:
     """The points a series draws (present values)."""
-    return sum(v is not None for v in series.values)
+    return len(series.values) - series.values.count(None)
 
 
 def reduce_series(series: Series, width_px: int, x_range: tuple[float, float]) -> Series:
     """The series with only the points M4 keeps, segment by segment; gaps stay gaps."""
-    xs = np.asarray(series.positions(), dtype=np.int64)
+    xs = (
+        np.arange(len(series.values), dtype=np.int64)
+        if series.xs is None
+        else np.asarray(series.xs, dtype=np.int64)
+    )
     values: list[float | None] = []
     kept_xs: list[int] = []
     segments: list[tuple[int, int]] = []
     for first, last in series.segments:
-        ys = np.asarray([float(v or 0.0) for v in series.values[first : last + 1]])
+        ys = np.asarray(series.values[first : last + 1], dtype=float)  # None becomes NaN
+        ys[np.isnan(ys)] = 0.0  # as the drawing does: a segment has no gaps inside
         seg_x = xs[first : last + 1]
         keep = m4_indexes(seg_x, ys, width_px, x_range)
         segments.append((len(values), len(values) + len(keep) - 1))

@@ -29,7 +29,7 @@ def expected_labels(ctx: Context) -> list[str]:
     table = ctx.table
     assert table.periods is not None and table.frequency is not None
     full = periods.expected(table.periods.min(), table.periods.max())
-    return [periods.label(p, table.frequency, ctx.locale) for p in full]
+    return periods.labels(full, table.frequency, ctx.locale)
 
 
 def _disorder(plan: ChartPlan) -> list[str]:
@@ -37,7 +37,11 @@ def _disorder(plan: ChartPlan) -> list[str]:
     n = len(plan.periods)
     found = []
     for series in all_series(plan):
-        xs = series.positions()
+        if series.xs is None:  # value i is at period i: in order, and inside when the axis is
+            if len(series.values) > n:
+                found.append(series.name)
+            continue
+        xs = series.xs
         ordered = all(a < b for a, b in itertools.pairwise(xs))
         if len(xs) != len(series.values) or not ordered or (xs and (xs[0] < 0 or xs[-1] >= n)):
             found.append(series.name)
@@ -49,7 +53,8 @@ def _proportional(plan: ChartPlan, ctx: Context) -> Finding:
     shown = f"{len(plan.periods)} of {len(labels)} periods"
     problems = []
     if plan.periods != labels:
-        dropped = [p for p in labels if p not in set(plan.periods)]
+        drawn = set(plan.periods)
+        dropped = [p for p in labels if p not in drawn]
         listed = f" (missing: {', '.join(dropped[:6])})" if dropped else ""
         problems.append(
             f"the time axis does not place every expected period at its own index{listed}"

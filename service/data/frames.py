@@ -142,7 +142,7 @@ def _raw_frame(dataset: Dataset, path: str) -> tuple[pd.DataFrame | None, list[P
     assert dataset.csv is not None
     try:
         frame = pd.read_csv(
-            io.StringIO(dataset.csv),
+            _csv_source(dataset.csv),
             dtype=str,
             keep_default_na=False,
             na_values=[""],
@@ -187,7 +187,20 @@ def _raw_frame(dataset: Dataset, path: str) -> tuple[pd.DataFrame | None, list[P
             )
     if problems:
         return None, problems, locate_line
-    return frame.astype(object), problems, locate_line
+    return frame, problems, locate_line  # string columns: converted without a copy as objects
+
+
+def _csv_source(text: str) -> io.BytesIO | io.StringIO:
+    """The CSV text as a buffer pandas reads (never a path or URL).
+
+    UTF-8 bytes: pandas' reader tokenises UTF-8 anyway, and a ``StringIO`` would first copy the
+    text into four bytes per character (80 MB for a 20 MB CSV). Text that cannot be encoded (a lone
+    surrogate from JSON) is read as text, as before, so its cell is reported where it is.
+    """
+    try:
+        return io.BytesIO(text.encode())
+    except UnicodeEncodeError:
+        return io.StringIO(text)
 
 
 def _convert(
@@ -195,18 +208,25 @@ def _convert(
 ) -> tuple[pd.Series, pd.Series]:
     """Typed values, and a mask of the cells that were given but did not parse."""
     given = values.notna()
+    read = isinstance(values.dtype, pd.StringDtype)  # from CSV text: every cell is a str or missing
     if kind is ColumnType.text:
+        if read:
+            return values.astype(object), pd.Series(False, index=values.index)
         converted = values.where(given, None).map(lambda v: v if v is None else str(v))
         return converted.astype(object), pd.Series(False, index=values.index)
     if kind in (ColumnType.number, ColumnType.integer):
-        is_bool = values.map(lambda v: isinstance(v, bool))
-        numbers = pd.to_numeric(values.where(~is_bool, None), errors="coerce").astype(float)
+        if read:
+            is_bool = pd.Series(False, index=values.index)
+            numbers = pd.to_numeric(values, errors="coerce").astype(float)
+        else:
+            is_bool = values.map(lambda v: isinstance(v, bool))
+            numbers = pd.to_numeric(values.where(~is_bool, None), errors="coerce").astype(float)
         huge = numbers.abs() >= MAX_MAGNITUDE
         bad = given & (numbers.isna() | ~np.isfinite(numbers.fillna(0.0)) | is_bool | huge)
         if kind is ColumnType.integer:
             bad |= given & numbers.notna() & (numbers != np.floor(numbers.fillna(0.0)))
         return numbers.where(~bad), bad
-    text = values.where(given, None).map(lambda v: v if v is None else str(v))
+    text = values if read else values.where(given, None).map(lambda v: v if v is None else str(v))
     if kind is ColumnType.date:
         parsed = pd.to_datetime(text, format="%Y-%m-%d", errors="coerce")
     else:
@@ -227,11 +247,18 @@ def _on_senders_clock(text: pd.Series, zone: tzinfo | None) -> pd.Series:
     out = pd.Series(pd.NaT, index=text.index, dtype="datetime64[ns]")
     if aware.any():
         stamped = pd.to_datetime(text[aware], format="ISO8601", errors="coerce", utc=True)
-        out[aware] = stamped.dt.tz_convert(zone or UTC).dt.tz_localize(None)
+        out[aware] = _on_ns_clock(stamped.dt.tz_convert(zone or UTC).dt.tz_localize(None))
     plain = ~aware & text.notna()
     if plain.any():
-        out[plain] = pd.to_datetime(text[plain], format="ISO8601", errors="coerce")
+        out[plain] = _on_ns_clock(pd.to_datetime(text[plain], format="ISO8601", errors="coerce"))
     return out
+
+
+def _on_ns_clock(parsed: pd.Series) -> pd.Series:
+    """Times that fit pandas' nanosecond clock (1677-09-21 to 2262-04-11); others do not parse.
+
+    ISO 8601 also reads a bare number such as ``12`` as a year, which that clock cannot hold."""
+    return parsed.where(parsed.between(pd.Timestamp.min, pd.Timestamp.max))
 
 
 _EXPECTED = {
@@ -315,14 +342,15 @@ def _with_periods(
             )
         )
     order = np.argsort(found.asi8, kind="stable")
-    frame = table.frame.iloc[order].reset_index(drop=True)
+    in_order = bool((order == np.arange(len(order))).all())  # the usual case: no copy to make
+    frame = table.frame if in_order else table.frame.iloc[order].reset_index(drop=True)
     return Table(
         name=table.name,
         frame=frame,
         units=table.units,
         time_column=dataset.time_column,
         frequency=dataset.frequency,
-        periods=pd.PeriodIndex(found[order]),
+        periods=pd.PeriodIndex(found if in_order else found[order]),
         types=table.types,
         source=table.source,
         estimates=table.estimates,

@@ -9,11 +9,13 @@ data live in :mod:`service.data.frames`; waiver references in :mod:`service.chec
 from __future__ import annotations
 
 import difflib
+import io
 import json
 from collections import Counter
 from collections.abc import Iterable
 from typing import Any
 
+import pandas as pd
 from pydantic import ValidationError
 
 from service.config import Limits
@@ -223,12 +225,15 @@ def _count_limits(document: dict[str, Any], limits: Limits) -> Iterable[Problem]
                     f"datasets[{i}].rows", "too many rows", len(rows), limits.max_rows, "max_rows"
                 )
             csv_text = dataset.get("csv")
-            if isinstance(csv_text, str):
+            if isinstance(csv_text, str) and csv_rows(csv_text, limits.max_rows) > limits.max_rows:
                 lines = csv_text.count("\n") + (0 if csv_text.endswith("\n") else 1) - 1
-                if lines > limits.max_rows:
-                    yield over(
-                        f"datasets[{i}].csv", "too many rows", lines, limits.max_rows, "max_rows"
-                    )
+                yield over(
+                    f"datasets[{i}].csv",
+                    "too many rows",
+                    max(lines, limits.max_rows + 1),
+                    limits.max_rows,
+                    "max_rows",
+                )
             columns = dataset.get("columns")
             if isinstance(columns, list) and len(columns) > limits.max_columns:
                 yield over(
@@ -251,6 +256,53 @@ def _count_limits(document: dict[str, Any], limits: Limits) -> Iterable[Problem]
         )
         if charts > limits.max_charts:
             yield over("sections", "too many charts", charts, limits.max_charts, "max_charts")
+
+
+def csv_rows(text: str, limit: int) -> int:
+    """The data rows of a CSV text, as far as the limit needs them: ``limit + 1`` when there are
+    more than ``limit``, else a count no greater than ``limit``.
+
+    Every row ends at a line break or at the end, so when the breaks are few enough the rows are
+    too, and nothing is read (the breaks are returned). Otherwise the reader the data stage uses
+    reads at most ``limit + 1`` rows (quoted line breaks and blank lines are not rows), so a CSV
+    far past the limit is refused after reading just past it, never parsed whole. A CSV the reader
+    cannot read counts 0 here: the data stage reports why, at the place it stops.
+    """
+    breaks = text.count("\n") + text.count("\r")
+    if breaks <= limit:
+        return breaks
+    try:
+        frame = pd.read_csv(
+            _Chunks(text),
+            dtype=str,
+            keep_default_na=False,
+            na_values=[""],
+            on_bad_lines="error",
+            skipinitialspace=True,
+            nrows=limit + 1,
+        )
+    except (pd.errors.ParserError, pd.errors.EmptyDataError, ValueError):
+        return 0
+    return len(frame)
+
+
+class _Chunks(io.TextIOBase):
+    """A text read in slices, so counting rows copies no more of it than the reader asks for (an
+    ``io.StringIO`` would first copy all of it, four bytes per character)."""
+
+    def __init__(self, text: str) -> None:
+        super().__init__()
+        self._text = text
+        self._at = 0
+
+    def readable(self) -> bool:
+        return True
+
+    def read(self, size: int | None = -1, /) -> str:
+        end = len(self._text) if size is None or size < 0 else self._at + size
+        piece = self._text[self._at : end]
+        self._at += len(piece)
+        return piece
 
 
 def _text_limits(definition: ReportDefinition, limits: Limits) -> Iterable[Problem]:

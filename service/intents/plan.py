@@ -20,8 +20,10 @@ One plan type serves every form; each form uses the fields it needs and leaves t
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from typing import Any, Literal
 
+import numpy as np
 from pydantic import BaseModel, ConfigDict
 
 from service.definition.model import ChartBase
@@ -88,13 +90,44 @@ class Series(Frozen):
 
     def at(self, period: int) -> float | None:
         """The value drawn at period index ``period`` (None: nothing drawn there)."""
-        xs = self.positions()
+        if self.xs is None:  # value i is at period i: no list of a million positions to search
+            return self.values[period] if 0 <= period < len(self.values) else None
+        xs = self.xs
         return self.values[xs.index(period)] if period in xs else None
 
     def spans(self, period: int) -> bool:
         """Whether a drawn line segment reaches or crosses period index ``period``."""
-        xs = self.positions()
+        if self.xs is None:
+            return any(a <= period <= b for a, b in self.segments)
+        xs = self.xs
         return any(xs[a] <= period <= xs[b] for a, b in self.segments)
+
+    def drawn_at(self, periods: Sequence[int]) -> list[bool]:
+        """For each period index, whether a value is drawn there (as :meth:`at`, all at once)."""
+        if self.xs is None:
+            n = len(self.values)
+            return [0 <= p < n and self.values[p] is not None for p in periods]
+        first: dict[int, float | None] = {}
+        for x, v in zip(self.xs, self.values, strict=False):
+            first.setdefault(x, v)
+        return [first.get(p) is not None for p in periods]
+
+    def spanned(self, periods: Sequence[int]) -> list[bool]:
+        """For each period index, whether a segment reaches or crosses it (as :meth:`spans`).
+
+        A segment covers p when its start is at or before p and its end at or after it: so p is
+        covered when the furthest end among the segments starting at or before p reaches p."""
+        if not self.segments or not periods:
+            return [False] * len(periods)
+        ends = np.asarray(self.segments, dtype=np.int64).reshape(-1, 2)
+        if self.xs is not None:
+            ends = np.asarray(self.xs, dtype=np.int64)[ends]
+        order = np.argsort(ends[:, 0], kind="stable")
+        starts, reach = ends[order, 0], np.maximum.accumulate(ends[order, 1])
+        wanted = np.asarray(periods, dtype=np.int64)
+        k = np.searchsorted(starts, wanted, side="right") - 1
+        covered = (k >= 0) & (reach[np.maximum(k, 0)] >= wanted)
+        return [bool(c) for c in covered]
 
 
 class Gap(Frozen):

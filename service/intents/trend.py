@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-import pandas as pd
+import numpy as np
 
 from service import formatting
 from service.config import Limits
@@ -20,7 +20,7 @@ from service.definition.model import TrendChart
 from service.errors import Problem
 from service.intents import scales, timeseries
 from service.intents.compare import scale_note
-from service.intents.plan import ChartPlan, Gap, PartialMark, Scale, Series, heading
+from service.intents.plan import ChartPlan, PartialMark, Scale, Series, heading
 from service.intents.registry import Encoder, Env, register
 
 
@@ -80,17 +80,7 @@ LOG_NOTE = "Logarithmic scale: equal distances show equal ratios, not equal diff
 
 def runs(values: list[float | None]) -> list[tuple[int, int]]:
     """Maximal runs of consecutive present values, as (first, last) indexes."""
-    out: list[tuple[int, int]] = []
-    start: int | None = None
-    for i, value in enumerate(values):
-        if value is not None and start is None:
-            start = i
-        if value is None and start is not None:
-            out.append((start, i - 1))
-            start = None
-    if start is not None:
-        out.append((start, len(values) - 1))
-    return out
+    return timeseries.runs_of(np.fromiter((v is not None for v in values), bool, len(values)))
 
 
 def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
@@ -100,22 +90,20 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     frame = table.frame.set_index(table.periods).reindex(full)
     unit = next((table.units[m] for m in chart.measures if m in table.units), "")
     series: list[Series] = []
+    drawn_at: list[timeseries.Mask] = []
     for measure in chart.measures:
-        values = [None if pd.isna(v) else float(v) for v in frame[measure]]
+        values, drawn = timeseries.on_axis(frame[measure])
+        drawn_at.append(drawn)
         series.append(
             Series(
                 name=measure,
                 unit=unit,
                 values=values,
-                segments=runs(values),
+                segments=timeseries.runs_of(drawn),
                 estimate=measure in table.estimates,
             )
         )
-    gaps = [
-        Gap(index=i, series=[s.name for s in series if s.values[i] is None])
-        for i in range(len(full))
-        if any(s.values[i] is None for s in series)
-    ]
+    gaps = timeseries.gaps_of([s.name for s in series], drawn_at)
     partial = None
     done = periods.completeness(full[-1], as_of)
     if done is not None:
@@ -128,8 +116,13 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     estimated = sorted(s.name for s in series if s.estimate)
     if estimated:
         notes.append(estimates_note(estimated))
-    present = [v for s in series for v in s.values if v is not None]
     log = chart.scale == "log"
+    measured = [frame[m].to_numpy(dtype=float, na_value=np.nan) for m in chart.measures]
+    if partial is not None:  # a projection has one value, at the partial period
+        measured.append(
+            np.asarray([s.values[partial.index] for s in series[len(measured) :]], dtype=float)
+        )
+    present = timeseries.extremes(np.concatenate(measured), positive=log)
     lo, hi = scales.fit_log(present) if log else scales.fit(present, include_zero=chart.from_zero)
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log)
@@ -141,7 +134,7 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
         **heading(chart, locale, table.source),
         form="lines",
         value_axis=scale,
-        periods=[periods.label(p, table.frequency, locale) for p in full],
+        periods=periods.labels(full, table.frequency, locale),
         series=series,
         gaps=gaps,
         partial=partial,
