@@ -46,6 +46,24 @@ def view(row: JobRow) -> dict[str, Any]:
     return out
 
 
+def queued(principal: Principal, definition_sha256: str) -> JobRow:
+    """A new job of ``principal``'s, queued, for the definition with this SHA-256."""
+    moment = now()
+    return JobRow(
+        id=f"jb_{uuid.uuid4().hex}",
+        key_id=principal.key_id,
+        status=QUEUED,
+        stage="queued",
+        done=0,
+        total=0,
+        definition_sha256=definition_sha256,
+        pack_id=None,
+        error=None,
+        created_at=moment,
+        updated_at=moment,
+    )
+
+
 class Jobs:
     def __init__(
         self, *, sessions: sessionmaker[Any], store: BlobStore, workers: Workers, settings: Settings
@@ -92,20 +110,7 @@ class Jobs:
 
     async def _queue(self, principal: Principal, raw: bytes) -> JobRow:
         digest = hashlib.sha256(raw).hexdigest()  # stored with the draft; the job holds the bytes
-        moment = now()
-        row = JobRow(
-            id=f"jb_{uuid.uuid4().hex}",
-            key_id=principal.key_id,
-            status=QUEUED,
-            stage="queued",
-            done=0,
-            total=0,
-            definition_sha256=digest,
-            pack_id=None,
-            error=None,
-            created_at=moment,
-            updated_at=moment,
-        )
+        row = queued(principal, digest)
         await run_in_threadpool(self._add, row)
         task = asyncio.create_task(self._run(row.id, principal, raw))
         self._tasks.add(task)

@@ -11,7 +11,6 @@ message for a job that is still on its way costs only a look at its row.
 
 from __future__ import annotations
 
-import uuid
 from datetime import timedelta
 from typing import Any
 
@@ -19,7 +18,7 @@ from sqlalchemy import select, update
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
-from service.api.jobs import FAILED, QUEUED, RUNNING
+from service.api.jobs import FAILED, QUEUED, RUNNING, queued
 from service.archive.db import JobRow, now, utc
 from service.archive.objects import BlobStore
 from service.config import Settings
@@ -63,20 +62,7 @@ class CeleryJobs:
         """Record a queued job and send it to the workers; answers before any work is done."""
         principal.require(Role.author)
         digest = await run_in_threadpool(self.store.put, raw)
-        moment = now()
-        row = JobRow(
-            id=f"jb_{uuid.uuid4().hex}",
-            key_id=principal.key_id,
-            status=QUEUED,
-            stage="queued",
-            done=0,
-            total=0,
-            definition_sha256=digest,
-            pack_id=None,
-            error=None,
-            created_at=moment,
-            updated_at=moment,
-        )
+        row = queued(principal, digest)
         await run_in_threadpool(self._add_and_send, row)
         return row
 
