@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import hashlib
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
 from service import formatting, glyphs, intents
@@ -22,6 +22,9 @@ from service.data.frames import Table
 from service.definition import validate
 from service.definition.model import ReportDefinition, Role, local_wall_time
 from service.errors import InvalidDefinition, Problem
+
+if TYPE_CHECKING:
+    from service.render.options import RenderOptions
 
 
 @dataclass(frozen=True)
@@ -212,16 +215,27 @@ class Built:
 
 
 def render(
-    checked: Checked, *, status_line: str = "DRAFT — not signed off"
+    checked: Checked,
+    *,
+    status_line: str = "DRAFT — not signed off",
+    options: RenderOptions | None = None,
 ) -> tuple[bytes, Checked]:
-    """The pack's PDF, and the report with the checks measured while drawing (label layout)."""
+    """The pack's PDF, and the report with the checks measured while drawing (label layout).
+
+    ``options`` say how many processes draw and where drawn charts are cached; the bytes are the
+    same whatever they say. The default draws serially in this process, with no cache.
+    """
     from service.assemble import compose  # the drawing stack loads only when drawing
 
-    return compose.compose_checked(checked, status_line=status_line)
+    return compose.compose_checked(checked, status_line=status_line, options=options)
 
 
-def build(raw: bytes, limits: Limits) -> Built:
-    pdf, checked = render(check(intake(raw, limits)))
+def build(raw: bytes, limits: Limits, *, options: RenderOptions | None = None) -> Built:
+    if options is not None and options.workers > 1:
+        from service.render import pool  # the drawing stack loads only when drawing
+
+        pool.warm(options.workers - 1)  # the helpers start while this process reads and checks
+    pdf, checked = render(check(intake(raw, limits)), options=options)
     definition = checked.definition
     return Built(
         pdf=pdf,
@@ -240,4 +254,13 @@ def build(raw: bytes, limits: Limits) -> Built:
     )
 
 
-__all__ = ["Built", "Checked", "CheckedChart", "Intake", "build", "check", "intake"]
+__all__ = [
+    "Built",
+    "Checked",
+    "CheckedChart",
+    "Intake",
+    "build",
+    "check",
+    "intake",
+    "render",
+]
