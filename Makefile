@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test lint unit serve schema docs load clean
+.PHONY: demo test lint unit serve schema docs bench load clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -38,6 +38,9 @@ serve: $(VENV)/.installed
 
 schema: $(VENV)/.installed
 	$(BIN)/plumbline schema
+
+bench: $(VENV)/.installed
+	$(BIN)/python -m service.bench --out out/bench
 
 load: $(VENV)/.installed
 	$(BIN)/python -m service.bench.load --clients 50 --seconds 60 --out out/bench

@@ -13,7 +13,7 @@ import sys
 import uuid
 from datetime import datetime
 from pathlib import Path
-from typing import Any
+from typing import Any, TextIO
 
 from pydantic import ValidationError
 
@@ -89,6 +89,21 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("definition", type=Path)
     p.add_argument("-o", "--output", type=Path, required=True, help="where to write the PDF")
     p.add_argument("--json", action="store_true", help="machine-readable output")
+    p.add_argument(
+        "--workers",
+        type=int,
+        default=None,
+        help="processes that draw charts (default PLUMBLINE_RENDER_WORKERS, else every core)",
+    )
+    p.add_argument(
+        "--no-cache", action="store_true", help="draw every chart afresh, ignoring the chart cache"
+    )
+    p.add_argument(
+        "--progress",
+        action=argparse.BooleanOptionalAction,
+        default=None,
+        help="show a progress bar on standard error (default: when it is a terminal)",
+    )
     p.set_defaults(run=_render)
 
     p = sub.add_parser("verify", help="verify a sealed pack: signature, attachments, re-render")
@@ -247,7 +262,18 @@ def _render(args: argparse.Namespace, settings: Settings) -> int:
     from service import pipeline
     from service.archive import files
 
-    built = pipeline.build(_read(args.definition), settings.limits)
+    if args.workers is not None:
+        settings = settings.model_copy(update={"render_workers": args.workers})
+    options = settings.render_options(cache=not args.no_cache)
+    shown = sys.stderr.isatty() if args.progress is None else args.progress
+    bar = ProgressBar(sys.stderr) if shown else None
+    try:
+        built = pipeline.build(
+            _read(args.definition), settings.limits, options=options, progress=bar
+        )
+    finally:
+        if bar is not None:
+            bar.close()
     files.write_atomic(args.output, built.pdf)
     if args.json:
         print(
@@ -272,6 +298,32 @@ def _render(args: argparse.Namespace, settings: Settings) -> int:
     return EXIT_FAILED_CHECKS if built.blocked else EXIT_OK
 
 
+class ProgressBar:
+    """A one-line bar of charts drawn, redrawn in place (``\\r``) as a build goes."""
+
+    WIDTH = 30
+
+    def __init__(self, stream: TextIO) -> None:
+        self.stream = stream
+        self.shown = ""
+
+    def __call__(self, stage: str, done: int, total: int) -> None:
+        if total:
+            filled = self.WIDTH * done // total
+            line = f"[{'#' * filled}{'.' * (self.WIDTH - filled)}] {done}/{total} charts, {stage}"
+        else:
+            line = f"{stage}…"
+        if line != self.shown:
+            self.stream.write("\r" + line.ljust(len(self.shown)))
+            self.stream.flush()
+            self.shown = line
+
+    def close(self) -> None:
+        if self.shown:
+            self.stream.write("\n")
+            self.stream.flush()
+
+
 def _verify(args: argparse.Namespace, settings: Settings) -> int:
     from service.archive import db
     from service.seal import keys, verify
@@ -283,7 +335,7 @@ def _verify(args: argparse.Namespace, settings: Settings) -> int:
         roots = [development]
     rerender = None
     if not args.no_rerender:
-        rerender = sealing.rerender(settings.limits)
+        rerender = sealing.rerender(settings.limits, settings.render_options().workers)
     report = verify.verify(_read(args.pack), trust_roots=roots, rerender=rerender)
     if not args.no_archive:
         if db.exists(settings.database_url):
@@ -315,7 +367,9 @@ def _walkthrough(args: argparse.Namespace, settings: Settings) -> int:
     if settings.seal_cert is not None:
         roots = [settings.seal_cert.read_bytes()]
     report = verify.verify(
-        walked.sealed_pdf, trust_roots=roots, rerender=sealing.rerender(settings.limits)
+        walked.sealed_pdf,
+        trust_roots=roots,
+        rerender=sealing.rerender(settings.limits, settings.render_options().workers),
     )
     sealing.compare_with_archive(report, db.connect(settings.database_url))
     for step in report.steps:

@@ -5,9 +5,13 @@ from __future__ import annotations
 import os
 from functools import lru_cache
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from pydantic import BaseModel, Field, SecretStr, model_validator
 from pydantic_settings import BaseSettings, SettingsConfigDict
+
+if TYPE_CHECKING:
+    from service.render.options import RenderOptions
 
 
 class Limits(BaseModel):
@@ -55,6 +59,9 @@ class Settings(BaseSettings):
     default: the render time budget + 120 s."""
     queue_restore_interval_s: float = Field(10.0, gt=0)
     """PLUMBLINE_QUEUE_RESTORE_INTERVAL_S: how often workers look for builds to deliver again."""
+    fan_out_charts: bool = True
+    """PLUMBLINE_FAN_OUT_CHARTS: with a queue, a build offers its chart groups to idle workers and
+    draws the rest itself; off: each build draws all its charts on its own worker."""
     render_timeout_s: float = Field(300.0, gt=0, le=86_400)
     """PLUMBLINE_RENDER_TIMEOUT_S: a render (or seal, or verify) past this is stopped and fails."""
     seal_key: Path | None = None
@@ -66,6 +73,17 @@ class Settings(BaseSettings):
     made once in the data folder (``web-session.key``)."""
     secure_cookies: bool = False
     """PLUMBLINE_SECURE_COOKIES: mark session cookies Secure (set it when served over HTTPS)."""
+    render_workers: int | None = Field(None, ge=1, le=64)
+    """PLUMBLINE_RENDER_WORKERS: processes that draw one pack's charts. Unset: every core for the
+    command line, 1 inside the service (its ``workers`` already build packs side by side). The
+    bytes never depend on it."""
+    chart_cache: bool = True
+    """PLUMBLINE_CHART_CACHE: keep drawn chart groups, keyed by the SHA-256 of everything they
+    draw, so a pack whose charts did not change is not drawn again (verification never uses it)."""
+    chart_cache_dir: Path | None = None
+    """PLUMBLINE_CHART_CACHE_DIR: where; default ``chart-cache`` in the data folder."""
+    chart_cache_max_bytes: int = Field(256 * 1024 * 1024, ge=1)
+    """PLUMBLINE_CHART_CACHE_MAX_BYTES: the cache is pruned, least recently used first, to this."""
 
     @model_validator(mode="after")
     def _strong_session_secret(self) -> Settings:
@@ -85,6 +103,19 @@ class Settings(BaseSettings):
     @property
     def store_dir(self) -> Path:
         return self.data_dir / "files"
+
+    def render_options(self, *, service: bool = False, cache: bool = True) -> RenderOptions:
+        """How to draw charts: ``service`` for inside the service's workers, ``cache`` off to
+        draw everything afresh (as verification must)."""
+        from service.render.options import RenderOptions
+
+        workers = self.render_workers or (1 if service else max(1, os.cpu_count() or 1))
+        folder = self.chart_cache_dir or self.data_dir / "chart-cache"
+        return RenderOptions(
+            workers=workers,
+            cache_dir=folder if cache and self.chart_cache else None,
+            cache_max_bytes=self.chart_cache_max_bytes,
+        )
 
 
 @lru_cache(maxsize=1)

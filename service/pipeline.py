@@ -8,8 +8,9 @@ work handed to a worker process, so it takes and returns plain, picklable values
 from __future__ import annotations
 
 import hashlib
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
 from service import formatting, glyphs, intents
@@ -22,6 +23,9 @@ from service.data.frames import Table
 from service.definition import validate
 from service.definition.model import ReportDefinition, Role, local_wall_time
 from service.errors import InvalidDefinition, Problem
+
+if TYPE_CHECKING:
+    from service.render.options import RenderOptions
 
 
 @dataclass(frozen=True)
@@ -211,17 +215,55 @@ class Built:
     unused_waivers: list[str]
 
 
+Progress = Callable[[str, int, int], None]
+"""Told (stage, charts drawn, charts in the pack) as a build goes: reading, checking, drawing
+(once per finished group of charts), assembling."""
+
+
 def render(
-    checked: Checked, *, status_line: str = "DRAFT — not signed off"
+    checked: Checked,
+    *,
+    status_line: str = "DRAFT — not signed off",
+    options: RenderOptions | None = None,
+    progress: Progress | None = None,
 ) -> tuple[bytes, Checked]:
-    """The pack's PDF, and the report with the checks measured while drawing (label layout)."""
+    """The pack's PDF, and the report with the checks measured while drawing (label layout).
+
+    ``options`` say how many processes draw and where drawn charts are cached; the bytes are the
+    same whatever they say. The default draws serially in this process, with no cache.
+    """
     from service.assemble import compose  # the drawing stack loads only when drawing
 
-    return compose.compose_checked(checked, status_line=status_line)
+    total = len(checked.charts)
+
+    def drawn(done: int, of: int) -> None:
+        if progress is not None:
+            progress("drawing" if done < of else "assembling", done, of)
+
+    if progress is not None:
+        progress("drawing", 0, total)
+    return compose.compose_checked(
+        checked, status_line=status_line, options=options, progress=drawn
+    )
 
 
-def build(raw: bytes, limits: Limits) -> Built:
-    pdf, checked = render(check(intake(raw, limits)))
+def build(
+    raw: bytes,
+    limits: Limits,
+    *,
+    options: RenderOptions | None = None,
+    progress: Progress | None = None,
+) -> Built:
+    if options is not None and options.workers > 1:
+        from service.render import pool  # the drawing stack loads only when drawing
+
+        pool.warm(options.workers - 1)  # the helpers start while this process reads and checks
+    if progress is not None:
+        progress("reading", 0, 0)
+    taken = intake(raw, limits)
+    if progress is not None:
+        progress("checking", 0, sum(1 for _ in taken.definition.charts()))
+    pdf, checked = render(check(taken), options=options, progress=progress)
     definition = checked.definition
     return Built(
         pdf=pdf,
@@ -240,4 +282,14 @@ def build(raw: bytes, limits: Limits) -> Built:
     )
 
 
-__all__ = ["Built", "Checked", "CheckedChart", "Intake", "build", "check", "intake"]
+__all__ = [
+    "Built",
+    "Checked",
+    "CheckedChart",
+    "Intake",
+    "Progress",
+    "build",
+    "check",
+    "intake",
+    "render",
+]

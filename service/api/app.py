@@ -31,7 +31,11 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     @asynccontextmanager
     async def lifespan(app: FastAPI) -> AsyncIterator[None]:
         settings.data_dir.mkdir(parents=True, exist_ok=True)
-        workers = Workers(settings.workers, timeout=settings.render_timeout_s)
+        workers = Workers(
+            settings.workers,
+            timeout=settings.render_timeout_s,
+            render=settings.render_options(service=True),
+        )
         sessions = db.connect(settings.database_url)
         store = open_store(settings)
         jobs: Jobs | CeleryJobs

@@ -17,6 +17,7 @@ from service import pipeline
 from service.api.pool import Pool, Progress
 from service.config import Limits, Settings
 from service.render import style
+from service.render.options import RenderOptions
 from service.seal.verify import VerifyReport
 from service.workflow import sealing
 
@@ -33,14 +34,15 @@ def _start_worker() -> None:
     style.install()
 
 
-def build_pack(raw: bytes, limits: Limits, *, progress: Progress | None = None) -> pipeline.Built:
-    """``pipeline.build`` in a worker, saying when it starts and ends."""
-    if progress is not None:
-        progress("building", 0, 1)
-    built = pipeline.build(raw, limits)
-    if progress is not None:
-        progress("built", 1, 1)
-    return built
+def build_pack(
+    raw: bytes,
+    limits: Limits,
+    *,
+    options: RenderOptions | None = None,
+    progress: Progress | None = None,
+) -> pipeline.Built:
+    """``pipeline.build`` in a worker, saying how many charts are drawn as it goes."""
+    return pipeline.build(raw, limits, options=options, progress=progress)
 
 
 def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
@@ -51,8 +53,12 @@ def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
 
 
 class Workers:
-    def __init__(self, size: int, *, timeout: float = 300.0) -> None:
+    def __init__(
+        self, size: int, *, timeout: float = 300.0, render: RenderOptions | None = None
+    ) -> None:
         self.size = size
+        self.render = render or RenderOptions()
+        """How each worker draws a pack's charts (its own helper processes, the chart cache)."""
         self._pool = Pool(size, initializer=_start_worker, timeout=timeout)
         self._slots: asyncio.Semaphore | None = None
 
@@ -68,7 +74,7 @@ class Workers:
     async def build(
         self, raw: bytes, limits: Limits, progress: Progress | None = None
     ) -> pipeline.Built:
-        return await self._run(build_pack, raw, limits, progress=progress)
+        return await self._run(build_pack, raw, limits, options=self.render, progress=progress)
 
     def sealer(self, settings: Settings) -> sealing.Sealer:
         """Render, seal and sign a signed-off pack in a worker, with the configured (or
@@ -79,6 +85,7 @@ class Workers:
             cert_path=settings.seal_cert,
             development_dir=settings.data_dir / "keys",
             limits=settings.limits,
+            options=self.render,
         )
 
         def seal(definition: bytes, record: dict[str, Any]) -> sealing.SealedPack:

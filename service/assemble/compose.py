@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import io
 import math
 from collections.abc import Mapping
@@ -20,16 +21,24 @@ from service.data import periods
 from service.data.frames import Table
 from service.definition.model import ColumnType, local_wall_time
 from service.definition.model import Table as TableSpec
-from service.render import charts as chart_render
+from service.render import groups
+from service.render.options import RenderOptions
 
 
-def compose(checked: Checked, *, status_line: str) -> bytes:
-    return compose_checked(checked, status_line=status_line)[0]
+def compose(checked: Checked, *, status_line: str, options: RenderOptions | None = None) -> bytes:
+    return compose_checked(checked, status_line=status_line, options=options)[0]
 
 
-def compose_checked(checked: Checked, *, status_line: str) -> tuple[bytes, Checked]:
+def compose_checked(
+    checked: Checked,
+    *,
+    status_line: str,
+    options: RenderOptions | None = None,
+    progress: groups.Counter | None = None,
+) -> tuple[bytes, Checked]:
     """The pack, and the report with the checks measured while drawing added to it."""
-    pages, reports = chart_render.draw_pages([c.plan for c in checked.charts])
+    drawn = groups.draw_all([c.plan for c in checked.charts], options, progress)
+    reports = drawn.reports
     definition = checked.definition
     today = local_wall_time(definition.report.as_of).date()
     charts = [
@@ -42,13 +51,14 @@ def compose_checked(checked: Checked, *, status_line: str) -> tuple[bytes, Check
     ]
     checked = replace(checked, charts=charts, unused_waivers=unused)
     sizes: dict[str, tuple[float, float]] = {}
-    if checked.charts:
-        with pikepdf.open(io.BytesIO(pages)) as drawn:
-            sizes = {c.plan.chart_id: _size(drawn.pages[i]) for i, c in enumerate(checked.charts)}
+    with contextlib.ExitStack() as stack:
+        files = [stack.enter_context(pikepdf.open(io.BytesIO(f))) for f in drawn.files]
+        for c, (file, page) in zip(checked.charts, drawn.pages, strict=True):
+            sizes[c.plan.chart_id] = _size(files[file].pages[page])
     content = content_for(checked, sizes, status_line=status_line)
     document, slots = pack.build(content)
-    order = {c.plan.chart_id: i for i, c in enumerate(checked.charts)}
-    return place.place(document, slots, pages, order), checked
+    order = {c.plan.chart_id: at for c, at in zip(checked.charts, drawn.pages, strict=True)}
+    return place.place(document, slots, drawn.files, order), checked
 
 
 def _size(page: pikepdf.Page) -> tuple[float, float]:

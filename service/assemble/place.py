@@ -6,8 +6,9 @@ pikepdf's ``add_overlay`` names resources at random; here each chart gets a name
 
 from __future__ import annotations
 
+import contextlib
 import io
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 
 import pikepdf
 
@@ -15,16 +16,25 @@ from service.assemble.pack import Slot
 from service.errors import RenderFailed
 
 
-def place(document: bytes, slots: list[Slot], charts: bytes, page_of: Mapping[str, int]) -> bytes:
-    """Put page ``page_of[slot.chart_id]`` of ``charts`` into each slot of ``document``."""
+def place(
+    document: bytes,
+    slots: list[Slot],
+    charts: Sequence[bytes],
+    page_of: Mapping[str, tuple[int, int]],
+) -> bytes:
+    """Put each slot's chart into ``document``: ``page_of[slot.chart_id]`` is (file, page) in
+    ``charts``, the drawn chart files."""
     if not slots:  # a pack of tables and narrative only
         return _tidy(document)
     try:
-        with pikepdf.open(io.BytesIO(document)) as pdf, pikepdf.open(io.BytesIO(charts)) as source:
-            # ``source`` stays open until the destination is saved
+        with contextlib.ExitStack() as stack:
+            pdf = stack.enter_context(pikepdf.open(io.BytesIO(document)))
+            # the sources stay open until the destination is saved
+            sources = [stack.enter_context(pikepdf.open(io.BytesIO(c))) for c in charts]
             for number, slot in enumerate(slots):
                 page = pdf.pages[slot.page]
-                chart_page = source.pages[page_of[slot.chart_id]]
+                file, at = page_of[slot.chart_id]
+                chart_page = sources[file].pages[at]
                 form = pdf.copy_foreign(chart_page.as_form_xobject())
                 name = page.add_resource(
                     form, pikepdf.Name.XObject, name=pikepdf.Name(f"/PlChart{number}")

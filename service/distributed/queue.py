@@ -1,4 +1,5 @@
-"""The Celery application: the broker, delivery rules, and the one task (``plumbline.build``).
+"""The Celery application: the broker, delivery rules, and the tasks (``plumbline.build``, and
+``plumbline.draw``, a group of another build's charts: ``fanout``).
 
 Delivery rules, each for a reason (ENGINEERING.md, "Web service limits"): a build is acknowledged
 only after it ran (``task_acks_late``), and given back when its worker process is lost
@@ -15,6 +16,7 @@ from collections.abc import Sequence
 from typing import Any
 
 from service.config import Settings
+from service.distributed import fanout
 from service.distributed.options import QueueOptions
 
 TASK = "plumbline.build"
@@ -24,6 +26,7 @@ QUEUE = "plumbline.builds"
 def make_app(settings: Settings) -> Any:
     """A configured Celery application with the build task registered."""
     from celery import Celery  # type: ignore[import-untyped]  # only a queued deployment needs it
+    from kombu import Queue  # type: ignore[attr-defined]
 
     from service.distributed import tasks
 
@@ -42,6 +45,8 @@ def make_app(settings: Settings) -> Any:
         broker_connection_retry_on_startup=True,
         worker_cancel_long_running_tasks_on_connection_loss=True,
         task_default_queue=QUEUE,
+        # every worker takes both: draws first, they are what a running build waits for
+        task_queues=[Queue(fanout.DRAW_QUEUE), Queue(QUEUE)],  # type: ignore[no-untyped-call]
         task_serializer="json",
         accept_content=["json"],
         task_ignore_result=True,
@@ -51,7 +56,12 @@ def make_app(settings: Settings) -> Any:
     def build(job_id: str) -> str:
         return tasks.build(tasks.context(settings), job_id)
 
+    def draw(key: str, plans: list[dict[str, Any]]) -> str:
+        return tasks.draw(tasks.context(settings), key, plans)
+
     app.task(name=TASK, acks_late=True, reject_on_worker_lost=True)(build)
+    # A lost draw is not given back: its claim expires and the builder draws the group itself.
+    app.task(name=fanout.DRAW_TASK, acks_late=False)(draw)
     _connect_signals(settings)
     return app
 

@@ -17,7 +17,7 @@ from __future__ import annotations
 import logging
 import threading
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any, cast
 
 from sqlalchemy import event, update
@@ -31,9 +31,11 @@ from service.archive.db import JobRow, PackRow, now
 from service.archive.files import Store
 from service.archive.objects import BlobStore, open_store
 from service.config import Limits, Settings
+from service.distributed.fanout import SharedGroups, draw_offered
 from service.distributed.render import warm
 from service.errors import InvalidDefinition, PlumblineError
 from service.pipeline import Built
+from service.render.options import RenderOptions
 from service.workflow import drafts
 from service.workflow.keys import Principal, principal_for
 
@@ -51,6 +53,8 @@ class Context:
     store: BlobStore
     pool: Pool
     limits: Limits
+    render: RenderOptions
+    queue_url: str
 
     def close(self) -> None:
         self.pool.close()
@@ -73,6 +77,11 @@ def context(settings: Settings) -> Context:
                 store=open_store(settings),
                 pool=Pool(1, initializer=warm, timeout=settings.render_timeout_s),
                 limits=settings.limits,
+                render=replace(
+                    settings.render_options(service=True),
+                    share=SharedGroups(settings.queue_url) if settings.fan_out_charts else None,
+                ),
+                queue_url=settings.queue_url,
             )
         return _context
 
@@ -100,7 +109,9 @@ def build(ctx: Context, job_id: str) -> str:
         _set(ctx, job_id, status=RUNNING, stage="started")
         author = principal_for(ctx.sessions, row.key_id)
         raw = ctx.store.get(row.definition_sha256)
-        built: Built = ctx.pool.run(build_pack, raw, ctx.limits, progress=_progress(ctx, job_id))
+        built: Built = ctx.pool.run(
+            build_pack, raw, ctx.limits, options=ctx.render, progress=_progress(ctx, job_id)
+        )
         if not store_draft(ctx, job_id=job_id, built=built, definition=raw, author=author):
             log.info("job %s was finished by another delivery; this draft is dropped", job_id)
             return "finished-already"
@@ -170,16 +181,27 @@ def _set(ctx: Context, job_id: str, **values: Any) -> None:
         )
 
 
+def draw(ctx: Context, key: str, plans: list[dict[str, Any]]) -> str:
+    """Draw one offered group of another build's charts in this worker's render process."""
+    from service.render import pool  # the job's function; the drawing happens in the process
+
+    def run(group: list[Any]) -> Any:
+        return ctx.pool.run(pool.draw_group, group)
+
+    return draw_offered(ctx.queue_url, key, plans, run)
+
+
 def _progress(ctx: Context, job_id: str) -> Any:
-    last = [0.0]
+    """Progress written to the job's row: each new stage, then at most every ``_THROTTLE_S``."""
+    last: list[Any] = [0.0, ""]
 
     def progress(stage: str, done: int, total: int) -> None:
         moment = time.monotonic()
-        if moment - last[0] >= _THROTTLE_S or done == total:
-            last[0] = moment
+        if stage != last[1] or moment - last[0] >= _THROTTLE_S or done == total:
+            last[0], last[1] = moment, stage
             _set(ctx, job_id, status=RUNNING, stage=stage, done=done, total=total)
 
     return progress
 
 
-__all__ = ["Context", "build", "close", "context", "store_draft"]
+__all__ = ["Context", "build", "close", "context", "draw", "store_draft"]

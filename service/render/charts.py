@@ -139,8 +139,9 @@ def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
             for plan in plans:
                 figure = figure_for(plan)
                 reports.append(layout.mend(figure))
-                # mend() ran the layout on the final labels: keep it rather than run it again
-                figure.set_layout_engine("none")
+                # mend() laid the figure out: keep that layout. With no engine at all (not even
+                # "none", a placeholder engine), savefig draws once instead of twice.
+                figure.set_layout_engine(None)
                 with warnings.catch_warnings():  # a collapsed layout is in the report already
                     warnings.filterwarnings("ignore", "constrained_layout not applied")
                     pages.savefig(figure)

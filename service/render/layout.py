@@ -55,14 +55,20 @@ def _area(box: Bbox | None) -> float:
     return 0.0 if box is None else max(0.0, box.width) * max(0.0, box.height)
 
 
-def measure(figure: Figure) -> tuple[int, int]:
-    """(overlapping tick-label pairs, text artists cut off at the figure's edge)."""
-    canvas = FigureCanvasAgg(figure)
+def lay_out(figure: Figure) -> bool:
+    """Run the figure's layout once, drawing nothing; False when the layout collapsed (the
+    figure is too small for its text, so it leaves no room for the plot)."""
+    FigureCanvasAgg(figure)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         figure.draw_without_rendering()
-    collapsed = any("constrained_layout not applied" in str(w.message) for w in caught)
-    renderer = canvas.get_renderer()  # type: ignore[no-untyped-call]
+    return not any("constrained_layout not applied" in str(w.message) for w in caught)
+
+
+def measure(figure: Figure, *, collapsed: bool = False) -> tuple[int, int]:
+    """(overlapping tick-label pairs, text artists cut off at the figure's edge) of a figure
+    laid out by ``lay_out``: text is measured where that layout put it, nothing is drawn."""
+    renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
     edge = figure.bbox.padded(EDGE_TOLERANCE_PX)
     overlaps, clipped = 0, int(collapsed)  # a collapsed layout leaves no room for the plot
     ticks: list[Text] = []
@@ -104,10 +110,15 @@ def _shrink(ax: Axes) -> bool:
 
 
 def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
-    """Measure, and try to mend overlaps and cut-off text; report before and after."""
+    """Lay out once, measure, and try to mend overlaps and cut-off text; report before and after.
+
+    A mend hides or shrinks labels where the layout put them and measures them again without
+    laying out again: the layout keeps the room it made for the labels as they were, so what is
+    measured is what the page shows (and each mend costs no further draw of the figure)."""
+    collapsed = not lay_out(figure)
     report = LayoutReport()
     report.overlaps_before, report.clipped_before = report.overlaps, report.clipped = measure(
-        figure
+        figure, collapsed=collapsed
     )
     for _ in range(attempts):
         if report.clean:
@@ -122,5 +133,5 @@ def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
                 acted = True
         if not acted:
             break
-        report.overlaps, report.clipped = measure(figure)
+        report.overlaps, report.clipped = measure(figure, collapsed=collapsed)
     return report

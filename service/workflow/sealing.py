@@ -37,6 +37,7 @@ from service.archive.files import BlobStore
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import ReportDefinition, Waiver
+from service.render.options import RenderOptions
 from service.seal import keys
 from service.seal.verify import VerifyReport
 from service.workflow import lifecycle
@@ -126,19 +127,24 @@ def _cell(value: Any) -> str:
     return str(value)
 
 
-def render(files: Mapping[str, bytes], limits: Limits) -> seal.Drafted:
+def render(
+    files: Mapping[str, bytes], limits: Limits, options: RenderOptions | None = None
+) -> seal.Drafted:
     """The pack from its sources: a draft from ``definition.json`` alone, or the signed-off pack
-    when ``review.json`` is given. Returns the PDF, the further sources and the data files."""
+    when ``review.json`` is given. Returns the PDF, the further sources and the data files.
+    ``options`` (how many processes draw, which chart cache) never change the bytes."""
     raw = files[seal.DEFINITION]
     taken = pipeline.intake(raw, limits)
     review = files.get(REVIEW)
     if review is None:
-        pdf, _ = pipeline.render(pipeline.check(taken))
+        pdf, _ = pipeline.render(pipeline.check(taken), options=options)
         return pdf, {}, data_files(taken.definition, taken.tables)
     record = json.loads(review)
     definition = with_review_waivers(taken.definition, record)
     pdf, _ = pipeline.render(
-        pipeline.check(replace(taken, definition=definition)), status_line=status_line(record)
+        pipeline.check(replace(taken, definition=definition)),
+        status_line=status_line(record),
+        options=options,
     )
     return pdf, {REVIEW: review}, data_files(taken.definition, taken.tables)
 
@@ -151,12 +157,13 @@ def seal_pack(
     cert_path: Path | None,
     development_dir: Path,
     limits: Limits,
+    options: RenderOptions | None = None,
 ) -> SealedPack:
     """Render, seal as PDF/A-3b, check and sign one signed-off pack (run it in a worker)."""
     key = keys.resolve(key_path=key_path, cert_path=cert_path, development_dir=development_dir)
     full = {**record, "seal": {"signer": key.subject, "development_key": key.is_development}}
     review = record_bytes(full)
-    pdf, sources, data = render({seal.DEFINITION: definition, REVIEW: review}, limits)
+    pdf, sources, data = render({seal.DEFINITION: definition, REVIEW: review}, limits, options)
     sealed = seal.seal(pdf, definition, key, sources, data)
     return SealedPack(
         signed=sealed.signed,
@@ -167,9 +174,11 @@ def seal_pack(
     )
 
 
-def rerender(limits: Limits) -> seal.Rerender:
-    """The ``rerender`` step of verification for drafts and signed-off packs alike."""
-    return seal.rerender_from(lambda files: render(files, limits))
+def rerender(limits: Limits, workers: int = 1) -> seal.Rerender:
+    """The ``rerender`` step of verification for drafts and signed-off packs alike: every chart
+    drawn afresh (never from a cache), in ``workers`` processes."""
+    options = RenderOptions(workers=workers)
+    return seal.rerender_from(lambda files: render(files, limits, options))
 
 
 __all__ = [

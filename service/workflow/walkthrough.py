@@ -51,7 +51,8 @@ def review_and_seal(
     store = Store(settings.store_dir)
     report_id = str(pipeline.intake(definition, settings.limits).definition.report.id)
     people = {role: _key(sessions, name, role, report_id) for role, name in PEOPLE.items()}
-    built = pipeline.build(definition, settings.limits)
+    options = settings.render_options()
+    built = pipeline.build(definition, settings.limits, options=options)
     row = drafts.create(
         sessions=sessions,
         store=store,
@@ -81,6 +82,7 @@ def review_and_seal(
         cert_path=settings.seal_cert,
         development_dir=settings.data_dir / "keys",
         limits=settings.limits,
+        options=options,
     )
     sealed = sealing.sign_off_and_seal(
         sessions=sessions,
