@@ -21,6 +21,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     rows = list(range(len(plan.categories)))[::-1]
     axis = plan.value_axis
     span = axis.hi - axis.lo
+    bars: list[tuple[float, float]] = []  # (row, value): drawn in one call, in this order
     for y, category in zip(rows, plan.categories, strict=True):
         if category.target is not None:
             ax.plot(
@@ -35,14 +36,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
             common.no_data(ax, base, y, "expected, no data" if category.expected_missing else None)
             continue
         _interval(ax, category.lo, category.hi, y)
-        ax.barh(
-            y,
-            category.value - base,
-            left=base,
-            height=0.62,
-            color=common.colour(plan, 0),
-            linewidth=0,
-        )
+        bars.append((y, category.value - base))
         inside = category.value - base
         ha = "left" if inside >= 0 else "right"
         pad = span * 0.008 * (1 if inside >= 0 else -1)
@@ -60,6 +54,15 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
             color=style.INK,
             fontsize=7.5,
             parse_math=False,
+        )
+    if bars:
+        ax.barh(
+            [y for y, _ in bars],
+            [width for _, width in bars],
+            left=base,
+            height=0.62,
+            color=common.colour(plan, 0),
+            linewidth=0,
         )
     for ref in plan.references:
         ax.axvline(ref.value, color=style.INK, linewidth=0.9, linestyle=(0, (4, 2)), zorder=4)
