@@ -51,6 +51,26 @@ def missing(text: str) -> list[str]:
     )
 
 
+CHART_TEXT = "datasets["
+"""Paths of text that matplotlib draws on charts: column names, units and category values."""
+_LAYOUT = frozenset("\n\r\t")
+"""Control characters the page layout treats as white space; matplotlib draws only the line break
+(a tab or carriage return on a chart is a glyph the typeface lacks, printed as nothing)."""
+
+
+def controls(text: str, *, chart: bool) -> list[str]:
+    """Control characters of ``text`` that cannot be printed: every one but white space the layout
+    understands, and on chart text also tabs and carriage returns."""
+    allowed = frozenset("\n") if chart else _LAYOUT
+    return list(
+        dict.fromkeys(c for c in text if unicodedata.category(c) == "Cc" and c not in allowed)
+    )
+
+
+def _name(c: str) -> str:
+    return {"\t": "a tab", "\r": "a carriage return"}.get(c, "a control character")
+
+
 def right_to_left(text: str) -> bool:
     return any(unicodedata.bidirectional(c) in {"R", "AL"} for c in text)
 
@@ -65,6 +85,17 @@ def problems_in(items: Iterable[tuple[str, str]]) -> Iterable[tuple[str, str, st
                 path,
                 "right_to_left_text",
                 "right-to-left text cannot yet be laid out correctly in a pack",
+                text,
+            )
+            continue
+        on_chart = path.startswith(CHART_TEXT) and not path.endswith((".source", ".description"))
+        unprintable = controls(text, chart=on_chart)
+        if unprintable:
+            shown = ", ".join(f"{_name(c)} (U+{ord(c):04X})" for c in unprintable[:5])
+            yield (
+                path,
+                "glyph_missing",
+                f"the text holds {shown}, which cannot be printed; remove it or use a space",
                 text,
             )
             continue

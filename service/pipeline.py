@@ -97,6 +97,8 @@ def _texts(definition: ReportDefinition, tables: dict[str, Table]) -> list[tuple
             (f"{path}.{f}", getattr(chart, f))
             for f in ("title", "subtitle", "note", "source", "description")
         ]
+    for w, waiver in enumerate(definition.waivers):
+        out += [(f"waivers[{w}].reason", waiver.reason), (f"waivers[{w}].by", waiver.by)]
     for d, dataset in enumerate(definition.datasets):
         out.append((f"datasets[{d}].source", dataset.source))
         for c, column in enumerate(dataset.columns):

@@ -34,6 +34,12 @@ class Visit:
     """The cookie must be (re)set on the answer."""
     ended: str = ""
     """Why the session this visitor came with ended (key revoked or expired)."""
+    https: bool = False
+    """The request came over TLS: the cookie is then Secure even when not configured so."""
+
+    @property
+    def secure(self) -> bool:
+        return self.https or self.services.settings.secure_cookies
 
     @property
     def csrf(self) -> str:
@@ -53,7 +59,7 @@ class Visit:
                 path=cookies.PATH,
                 httponly=True,
                 samesite="lax",
-                secure=self.services.settings.secure_cookies,
+                secure=self.secure,
             )
         return response
 
@@ -69,7 +75,7 @@ class Visit:
             path=cookies.PATH,
             httponly=True,
             samesite="lax",
-            secure=self.services.settings.secure_cookies,
+            secure=self.secure,
         )
         return response
 
@@ -93,11 +99,12 @@ async def visit(request: Request) -> Visit:
     services = request.app.state.services
     assert isinstance(services, Services)
     secret = await run_in_threadpool(_secret, request, services)
+    https = request.url.scheme == "https"
     found = cookies.decode(request.cookies.get(cookies.COOKIE), secret)
     if found is None:
-        return Visit(services, secret, cookies.Session.anonymous(), None, fresh=True)
+        return Visit(services, secret, cookies.Session.anonymous(), None, fresh=True, https=https)
     if found.key_id is None:
-        return Visit(services, secret, found, None, fresh=False)
+        return Visit(services, secret, found, None, fresh=False, https=https)
     try:
         principal = await run_in_threadpool(keys.principal_for, services.sessions, found.key_id)
     except Unauthorized:
@@ -108,8 +115,9 @@ async def visit(request: Request) -> Visit:
             None,
             fresh=True,
             ended="Your session ended: the key it used was revoked or has expired.",
+            https=https,
         )
-    return Visit(services, secret, found, principal, fresh=False)
+    return Visit(services, secret, found, principal, fresh=False, https=https)
 
 
 def signed_in(request: Request, current: Visit) -> Principal:
