@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test lint unit serve schema docs bench load clean
+.PHONY: demo test lint unit serve schema docs bench load soak clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -44,6 +44,9 @@ bench: $(VENV)/.installed
 
 load: $(VENV)/.installed
 	$(BIN)/python -m service.bench.load --clients 50 --seconds 60 --out out/bench
+
+soak: $(VENV)/.installed
+	$(BIN)/python -m service.bench.load --soak --duration 600 --rate 2 --out out/bench
 
 docs: $(VENV)/.installed
 	@mkdir -p docs

@@ -422,17 +422,9 @@ def _keys_revoke(args: argparse.Namespace, settings: Settings) -> int:
 
 
 def _serve(args: argparse.Namespace, settings: Settings) -> int:
-    import uvicorn
+    from service.api.app import serve
 
-    from service.api.app import create_app
-
-    uvicorn.run(
-        create_app(settings),
-        host=args.host or settings.host,
-        port=settings.port if args.port is None else args.port,
-        log_level="info",
-    )
-    return EXIT_OK
+    return serve(settings, host=args.host, port=args.port)
 
 
 if __name__ == "__main__":

@@ -84,6 +84,16 @@ class Settings(BaseSettings):
     """PLUMBLINE_CHART_CACHE_DIR: where; default ``chart-cache`` in the data folder."""
     chart_cache_max_bytes: int = Field(256 * 1024 * 1024, ge=1)
     """PLUMBLINE_CHART_CACHE_MAX_BYTES: the cache is pruned, least recently used first, to this."""
+    worker_memory_mb: int = Field(4096, ge=0, le=1_048_576)
+    """PLUMBLINE_WORKER_MEMORY_MB: the address space each render worker may use (RLIMIT_AS); a
+    job past it fails with ``render_memory`` and its worker is replaced. 0: no limit."""
+    log_format: str = Field("json", pattern=r"^(json|text)$")
+    """PLUMBLINE_LOG_FORMAT: ``json`` (one object a line on standard error) or ``text``."""
+    log_level: str = Field("info", pattern=r"^(?i:debug|info|warning|error|critical)$")
+    """PLUMBLINE_LOG_LEVEL: the least severe level logged (debug, info, warning, error)."""
+    shutdown_grace_s: float = Field(30.0, ge=0, le=3600)
+    """PLUMBLINE_SHUTDOWN_GRACE_S: on SIGTERM, how long running background builds may take to
+    finish; the ones still running then are failed, saying to post them again."""
 
     @model_validator(mode="after")
     def _strong_session_secret(self) -> Settings:

@@ -14,7 +14,13 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── InvalidRequest (422, invalid_request)          a request that is not a definition is wrong
     ├── TooBusy (429, too_busy)                        the background queue is full (Retry-After)
     ├── RenderTimeout (422, render_timeout)            a render past its time budget, stopped
-    └── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
+    ├── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
+    │
+    │   defined beside what raises them:
+    ├── api.pool.RenderMemory (422, render_memory)                   past PLUMBLINE_WORKER_MEMORY_MB
+    ├── archive.db.DatabaseUnavailable (503, database_unavailable)   connection lost, or busy
+    ├── archive.files.StorageFull (507, insufficient_storage)        the store's disk is full
+    └── archive.objects.StoreUnavailable (503, store_unavailable)    the object store cannot be reached
 
 Foreign exceptions are translated at the stage boundary (``raise RenderFailed(...) from exc``).
 """
@@ -103,7 +109,7 @@ class PayloadTooLarge(PlumblineError):
         super().__init__(
             f"the request body is larger than the limit of {limit} bytes "
             f"(read {size} bytes before stopping); send less data, or raise "
-            "PLUMBLINE_MAX_PAYLOAD_BYTES"
+            "PLUMBLINE_LIMITS__MAX_PAYLOAD_BYTES"
         )
         self.size = size
         self.limit = limit

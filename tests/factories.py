@@ -7,8 +7,10 @@ replace top-level keys. ``make_definition`` assembles a whole definition around 
 from __future__ import annotations
 
 import json
+from collections.abc import Callable
 from typing import Any
 
+import httpx
 import pytest
 
 from service import intents, pipeline
@@ -222,3 +224,7 @@ def find(problems: list[Problem], code: str) -> Problem:
     found = [p for p in problems if p.code == code]
     assert len(found) == 1, codes(problems)
     return found[0]
+
+
+Clients = Callable[[str], httpx.Client]
+"""The API tests' ``people`` fixture: an HTTP client holding the key of the person named."""

@@ -8,6 +8,8 @@ from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Annotated, Any
 
 from fastapi import Depends, Path, Request
+from fastapi.dependencies.models import Dependant
+from fastapi.routing import APIRoute
 from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
@@ -17,7 +19,7 @@ from service.api.workers import Workers
 from service.archive.db import PackRow
 from service.archive.files import BlobStore
 from service.config import Settings
-from service.errors import Unauthorized
+from service.errors import InvalidRequest, Unauthorized
 from service.workflow import drafts, keys
 from service.workflow.keys import Principal
 
@@ -85,3 +87,31 @@ def _pack(pack_id: PackId, services: ServicesDep, principal: PrincipalDep) -> Pa
 
 
 PackDep = Annotated[PackRow, Depends(_pack)]
+
+
+def single_query_values(request: Request) -> None:
+    """A route's query parameters are the ones it declares, each given once: an unknown one (a
+    typo such as ``?stauts=``) or a repeated one is refused rather than silently ignored or read
+    as one of its values."""
+    route = request.scope.get("route")
+    declared = _query_names(route.dependant) if isinstance(route, APIRoute) else None
+    given = request.query_params
+    unknown = sorted(k for k in given if declared is not None and k not in declared)
+    if unknown:
+        takes = ", ".join(sorted(declared or ())) or "none"
+        raise InvalidRequest(
+            f"unknown query parameter(s) {', '.join(unknown)}: this route takes {takes}"
+        )
+    repeated = sorted({k for k in given if len(given.getlist(k)) > 1})
+    if repeated:
+        raise InvalidRequest(
+            f"the query parameter(s) {', '.join(repeated)} were given more than once: give each once"
+        )
+
+
+def _query_names(dependant: Dependant) -> set[str]:
+    """The query parameters a route takes: its own and its dependencies'."""
+    names = {param.alias for param in dependant.query_params}
+    for inner in dependant.dependencies:
+        names |= _query_names(inner)
+    return names

@@ -14,6 +14,7 @@ from typing import Any
 from fastapi import FastAPI, Request
 from fastapi.exceptions import RequestValidationError
 from fastapi.responses import JSONResponse
+from starlette.exceptions import HTTPException
 
 from service.definition import paths
 from service.errors import InvalidDefinition, PlumblineError, Problem, TooBusy
@@ -33,6 +34,19 @@ def problem(status: int, code: str, detail: str, **extra: Any) -> JSONResponse:
         **extra,
     }
     return JSONResponse(body, status_code=status, media_type=PROBLEM)
+
+
+_HTTP: dict[int, tuple[str, str]] = {
+    400: (
+        "unreadable_body",
+        "the request body cannot be read: send a UTF-8 encoded JSON object "
+        "(Content-Type: application/json)",
+    ),
+    404: ("not_found", "there is nothing at this address; see /docs for the API's routes"),
+    405: ("method_not_allowed", "this address does not take that method; see the Allow header"),
+}
+"""Statuses FastAPI and Starlette answer themselves (an unreadable body, an unknown route), given
+the same problem shape as every other error instead of their bare ``{"detail": ...}``."""
 
 
 def install(app: FastAPI) -> None:
@@ -64,6 +78,14 @@ def install(app: FastAPI) -> None:
             for e in exc.errors()
         ]
         return problem(422, "invalid_request", "the request is not valid", errors=problems)
+
+    @app.exception_handler(HTTPException)
+    async def _http(request: Request, exc: HTTPException) -> JSONResponse:
+        code, detail = _HTTP.get(exc.status_code, ("http_error", str(exc.detail)))
+        response = problem(exc.status_code, code, detail)
+        for name, value in (exc.headers or {}).items():
+            response.headers[name] = value
+        return response
 
     @app.exception_handler(Exception)
     async def _last_resort(request: Request, exc: Exception) -> JSONResponse:

@@ -5,6 +5,14 @@ The job's state lives in the ``jobs`` table, so any process of the service can a
 ``GET /v1/jobs/{id}``; progress of a running job is kept in the memory of the process that runs it.
 A job left *queued* or *running* by a process that stopped is marked failed when the service
 starts again, saying so: nothing claims to be running that is not.
+
+Shutdown (SIGTERM): new jobs are refused (429 with Retry-After), jobs still waiting for a worker
+are failed at once, and running ones get ``PLUMBLINE_SHUTDOWN_GRACE_S`` to finish; the ones still
+running then are failed with ``shutdown`` ("the service stopped; post again"). They are failed,
+not handed back as queued, because the job holds the definition's bytes only in memory; an author
+who posts again with the same ``Idempotency-Key`` gets the failed job, so a new key is needed.
+Every end of a job is one conditional UPDATE (only from queued or running), so a job that finished
+as the grace ran out stays done.
 """
 
 from __future__ import annotations
@@ -27,6 +35,12 @@ from service.workflow import drafts
 from service.workflow.keys import Principal, Role
 
 QUEUED, RUNNING, DONE, FAILED = "queued", "running", "done", "failed"
+UNFINISHED = (QUEUED, RUNNING)
+
+STOPPED = {
+    "code": "shutdown",
+    "detail": "the service stopped before the job finished; post the definition again",
+}
 
 
 def view(row: JobRow) -> dict[str, Any]:
@@ -69,7 +83,11 @@ class Jobs:
         self, *, sessions: sessionmaker[Any], store: BlobStore, workers: Workers, settings: Settings
     ) -> None:
         self.sessions, self.store, self.workers, self.settings = sessions, store, workers, settings
-        self._tasks: set[asyncio.Task[None]] = set()
+        self._tasks: dict[str, asyncio.Task[None]] = {}
+        self._waiting: set[str] = set()
+        """Jobs of this process not yet given a worker."""
+        self._gate: asyncio.Semaphore | None = None
+        self._stopping = False
         self._starting = 0
         self._live: dict[str, tuple[str, int, int]] = {}
         """Progress of this process's running jobs, kept in memory: one database write per job
@@ -95,6 +113,12 @@ class Jobs:
     async def start(self, principal: Principal, raw: bytes) -> JobRow:
         """Record a queued job and start it; answers before any work is done."""
         principal.require(Role.author)
+        if self._stopping:
+            raise TooBusy(
+                "the service is stopping and takes no new builds; post again in a moment "
+                "(to the service once it is back)",
+                retry_after=max(1, round(self.settings.shutdown_grace_s)),
+            )
         active = len(self._tasks) + self._starting
         if active >= self.settings.max_queued_jobs:
             raise TooBusy(
@@ -112,9 +136,10 @@ class Jobs:
         digest = hashlib.sha256(raw).hexdigest()  # stored with the draft; the job holds the bytes
         row = queued(principal, digest)
         await run_in_threadpool(self._add, row)
+        self._waiting.add(row.id)
         task = asyncio.create_task(self._run(row.id, principal, raw))
-        self._tasks.add(task)
-        task.add_done_callback(self._tasks.discard)
+        self._tasks[row.id] = task
+        task.add_done_callback(lambda _: self._tasks.pop(row.id, None))
         return row
 
     def _add(self, row: JobRow) -> None:
@@ -132,9 +157,12 @@ class Jobs:
         return row
 
     def _set(self, job_id: str, **values: Any) -> None:
+        """Move an unfinished job on; a job already done or failed is left as it is."""
         with self.sessions.begin() as session:
             session.execute(
-                update(JobRow).where(JobRow.id == job_id).values(updated_at=now(), **values)
+                update(JobRow)
+                .where(JobRow.id == job_id, JobRow.status.in_(UNFINISHED))
+                .values(updated_at=now(), **values)
             )
 
     async def _run(self, job_id: str, principal: Principal, raw: bytes) -> None:
@@ -143,8 +171,12 @@ class Jobs:
                 self._set(job_id, status=RUNNING, stage=stage, done=done, total=total)
             self._live[job_id] = (stage, done, total)
 
+        if self._gate is None:
+            self._gate = asyncio.Semaphore(self.workers.size)
         try:
-            built = await self.workers.build(raw, self.settings.limits, progress=progress)
+            async with self._gate:  # wait here, where shutdown can fail a job not yet started
+                self._waiting.discard(job_id)
+                built = await self.workers.build(raw, self.settings.limits, progress=progress)
             row = await run_in_threadpool(
                 lambda: drafts.create(
                     sessions=self.sessions,
@@ -164,12 +196,29 @@ class Jobs:
             error = {"code": "internal_error", "detail": f"{type(exc).__name__}: {exc}"}
             await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=error)
         finally:
+            self._waiting.discard(job_id)
             self._live.pop(job_id, None)
 
     async def close(self) -> None:
-        """Let running jobs finish (shutdown is graceful: nothing half-done is left claimed)."""
-        if self._tasks:
-            await asyncio.gather(*self._tasks, return_exceptions=True)
+        """Stop taking jobs, fail the ones not yet started, give running ones the grace period,
+        then fail what is left (nothing half-done is left claimed). Call before the workers
+        are closed."""
+        self._stopping = True
+        waiting = [self._tasks[i] for i in self._waiting if i in self._tasks]
+        await self._stop(waiting)
+        running = list(self._tasks.values())
+        if running:
+            await asyncio.wait(running, timeout=self.settings.shutdown_grace_s)
+        await self._stop([task for task in running if not task.done()])
+
+    async def _stop(self, tasks: list[asyncio.Task[None]]) -> None:
+        ids = [job_id for job_id, task in list(self._tasks.items()) if task in tasks]
+        for task in tasks:
+            task.cancel()
+        if tasks:
+            await asyncio.gather(*tasks, return_exceptions=True)
+        for job_id in ids:
+            await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=STOPPED)
 
 
-__all__ = ["DONE", "FAILED", "QUEUED", "RUNNING", "Jobs", "view"]
+__all__ = ["DONE", "FAILED", "QUEUED", "RUNNING", "STOPPED", "Jobs", "view"]

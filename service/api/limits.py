@@ -13,6 +13,9 @@ from starlette.types import ASGIApp, Message, Receive, Scope, Send
 
 from service.errors import PayloadTooLarge
 
+SETTING = "PLUMBLINE_LIMITS__MAX_PAYLOAD_BYTES"
+"""The setting that raises the limit (``Limits.max_payload_bytes``), named in the answer."""
+
 
 class BodyLimit:
     def __init__(self, app: ASGIApp, *, limit: int) -> None:
@@ -59,7 +62,8 @@ class _TooLarge(Exception):
 
 async def _refuse(send: Send, size: int, limit: int) -> None:
     error = PayloadTooLarge(size=size, limit=limit)
-    body = json.dumps(_problem(error.status, error.code, error.message)).encode()
+    problem = _problem(error.status, error.code, error.message, limit=limit, setting=SETTING)
+    body = json.dumps(problem).encode()
     await send(
         {
             "type": "http.response.start",

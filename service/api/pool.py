@@ -8,13 +8,24 @@ messages while it runs. A worker that dies or overruns fails only its own job.
 
 Jobs are plain picklable callables; a job that wants to report progress takes a ``progress``
 keyword argument, a callable ``(stage, done, total)``.
+
+Each worker may be given a memory limit (``RLIMIT_AS`` on its whole address space, set once its
+initializer has run, and inherited by any process it starts). A job that reaches it fails with
+:class:`RenderMemory` and its worker is replaced (its heap may be left fragmented or half-built):
+when Python raises ``MemoryError`` (or a library that could not be loaded for want of memory),
+when the worker dies as native code does when refused memory (exit 1, SIGABRT, SIGSEGV, SIGBUS),
+or dies or stalls with its peak address space near the limit (native code may abort, or retry
+a failed allocation in a loop, instead of raising).
 """
 
 from __future__ import annotations
 
 import contextlib
+import errno
 import multiprocessing
 import queue
+import resource
+import signal
 import threading
 import time
 import traceback
@@ -29,11 +40,49 @@ Progress = Callable[[str, int, int], None]
 
 _CONTEXT = multiprocessing.get_context("spawn")
 
+MEMORY_SETTING = "PLUMBLINE_WORKER_MEMORY_MB"
 
-def _serve(conn: Connection, initializer: Callable[[], None] | None) -> None:
-    """A worker's loop: run each job it is sent, answer ("ok", value) or ("error", exc)."""
+_OUT_OF_MEMORY_EXITS = frozenset({1, -signal.SIGABRT, -signal.SIGSEGV, -signal.SIGBUS})
+"""How native code refused memory under ``RLIMIT_AS`` ends a worker, as seen: OpenBLAS exits 1,
+Rust code aborts, unchecked C allocations fault. Under a memory limit, a worker that dies so in a
+job ran out of memory (a worker never exits by itself while it has a job)."""
+
+
+class RenderMemory(PlumblineError):
+    """A render that needed more memory than a worker may use; its worker was replaced."""
+
+    code = "render_memory"
+    status = 422
+
+
+def memory_problem(memory_mb: int) -> RenderMemory:
+    return RenderMemory(
+        f"the render needed more memory than the {memory_mb} MB a render worker may use, and "
+        f"was stopped; make the pack smaller (fewer rows or charts), or raise {MEMORY_SETTING}"
+    )
+
+
+def _limit_memory(memory_mb: int | None) -> None:
+    """Cap this process's address space; never above a hard limit set from outside."""
+    if not memory_mb:
+        return
+    wanted = memory_mb * 1024 * 1024
+    _, hard = resource.getrlimit(resource.RLIMIT_AS)
+    if hard != resource.RLIM_INFINITY:
+        wanted = min(wanted, hard)
+    resource.setrlimit(resource.RLIMIT_AS, (wanted, hard))
+
+
+def _serve(
+    conn: Connection, initializer: Callable[[], None] | None, memory_mb: int | None = None
+) -> None:
+    """A worker's loop: run each job it is sent, answer ("ok", value), ("error", exc), or
+    ("fatal", exc) for an error after which the worker must be replaced."""
     if initializer is not None:
         initializer()
+    # after the initializer: native libraries it loads reserve memory as they start (OpenBLAS
+    # retries a failed reservation in a loop instead of failing), which must not be cut short
+    _limit_memory(memory_mb)
 
     def progress(stage: str, done: int, total: int) -> None:
         conn.send(("progress", (stage, done, total)))
@@ -50,11 +99,44 @@ def _serve(conn: Connection, initializer: Callable[[], None] | None) -> None:
             kwargs = {**kwargs, "progress": progress}
         try:
             conn.send(("ok", job(*args, **kwargs)))
-        except PlumblineError as exc:
+        except Exception as exc:  # noqa: BLE001 - every error is answered, none ends the loop
+            if _out_of_memory(exc):
+                # the job's frames, and what it allocated, are released by now
+                with contextlib.suppress(Exception):
+                    conn.send(("fatal", memory_problem(memory_mb or 0)))
+                return
+            if not isinstance(exc, PlumblineError):
+                detail = "".join(traceback.format_exception_only(type(exc), exc)).strip()
+                exc = RenderFailed(f"the render worker failed: {detail}")
             conn.send(("error", exc))
-        except Exception as exc:  # noqa: BLE001 - reported to the caller as a render fault
-            detail = "".join(traceback.format_exception_only(type(exc), exc)).strip()
-            conn.send(("error", RenderFailed(f"the render worker failed: {detail}")))
+
+
+def _peak_bytes(pid: int | None) -> int:
+    """The largest address space process ``pid`` has had (Linux ``VmPeak``); 0 if unknown."""
+    try:
+        with open(f"/proc/{pid}/status", encoding="ascii") as status:
+            for line in status:
+                if line.startswith("VmPeak:"):
+                    return int(line.split()[1]) * 1024
+    except (OSError, ValueError, IndexError):
+        pass
+    return 0
+
+
+def _out_of_memory(exc: BaseException) -> bool:
+    """A ``MemoryError``, or an error a stage translated from one (``raise … from exc``)."""
+    seen: set[int] = set()
+    current: BaseException | None = exc
+    while current is not None and id(current) not in seen:
+        if isinstance(current, MemoryError):
+            return True
+        if isinstance(current, OSError) and current.errno == errno.ENOMEM:
+            return True
+        if isinstance(current, ImportError) and "failed to map segment" in str(current):
+            return True  # the dynamic loader could not map a library: no address space left
+        seen.add(id(current))
+        current = current.__cause__ or current.__context__
+    return False
 
 
 @dataclass
@@ -67,10 +149,17 @@ class Pool:
     """``size`` worker processes; ``run`` blocks the calling thread until its job ends."""
 
     def __init__(
-        self, size: int, *, initializer: Callable[[], None] | None = None, timeout: float = 300.0
+        self,
+        size: int,
+        *,
+        initializer: Callable[[], None] | None = None,
+        timeout: float = 300.0,
+        memory_mb: int | None = None,
     ) -> None:
         self.size = size
         self.timeout = timeout
+        self.memory_mb = memory_mb or None
+        """Each worker's address-space limit in MiB (None: no limit)."""
         self._initializer = initializer
         self._idle: queue.Queue[_Worker] = queue.Queue()
         self._all: list[_Worker] = []
@@ -82,7 +171,10 @@ class Pool:
     def _start(self) -> _Worker:
         ours, theirs = _CONTEXT.Pipe(duplex=True)
         process = _CONTEXT.Process(
-            target=_serve, args=(theirs, self._initializer), daemon=False, name="plumbline-render"
+            target=_serve,
+            args=(theirs, self._initializer, self.memory_mb),
+            daemon=False,
+            name="plumbline-render",
         )
         process.start()
         theirs.close()
@@ -118,12 +210,12 @@ class Pool:
         try:
             worker.conn.send((job, args, kwargs, progress is not None))
             kind, value = self._answer(worker, time.monotonic() + limit, limit, progress)
-            healthy = True
-            if kind == "error":
+            healthy = kind != "fatal"
+            if kind in ("error", "fatal"):
                 raise value
             return value
         except (EOFError, OSError):
-            raise RenderFailed("the render worker stopped unexpectedly; try again") from None
+            raise self._died(worker, _peak_bytes(worker.process.pid)) from None
         finally:
             if healthy and not self._closed:
                 self._idle.put(worker)
@@ -132,21 +224,47 @@ class Pool:
                 if not self._closed:
                     self._idle.put(self._start())
 
-    @staticmethod
+    def _died(self, worker: _Worker, peak: int) -> PlumblineError:
+        worker.process.join(timeout=1)
+        code = worker.process.exitcode
+        if self._near_limit(peak) or (self.memory_mb and code in _OUT_OF_MEMORY_EXITS):
+            return memory_problem(self.memory_mb or 0)
+        if self.memory_mb:
+            return RenderFailed(
+                "the render worker stopped unexpectedly (it may have needed more than the "
+                f"{self.memory_mb} MB a render worker may use, {MEMORY_SETTING}); try again"
+            )
+        return RenderFailed("the render worker stopped unexpectedly; try again")
+
+    def _near_limit(self, peak: int) -> bool:
+        """Whether a worker's peak address space came within reach of its limit (5 %, and at
+        least 64 MiB: OpenBLAS reserves 32 MiB buffers): a job that dies or stalls there ran
+        out of memory (native code may abort, or retry a failed allocation in a loop, instead
+        of raising ``MemoryError``)."""
+        if not self.memory_mb:
+            return False
+        limit = self.memory_mb * 1024 * 1024
+        return peak >= limit - max(limit // 20, 64 * 1024 * 1024)
+
     def _answer(
-        worker: _Worker, deadline: float, limit: float, progress: Progress | None
+        self, worker: _Worker, deadline: float, limit: float, progress: Progress | None
     ) -> tuple[str, Any]:
         """Wait for the job's answer, passing progress on; raise past the deadline."""
+        peak = 0
         while True:
             left = deadline - time.monotonic()
             if left <= 0:
+                if self._near_limit(max(peak, _peak_bytes(worker.process.pid))):
+                    raise memory_problem(self.memory_mb or 0)
                 raise RenderTimeout(
                     f"the render took longer than its time budget of {limit:g} s and was "
                     "stopped; make the pack smaller, or raise PLUMBLINE_RENDER_TIMEOUT_S"
                 )
             if not worker.conn.poll(min(left, 0.25)):
                 if not worker.process.is_alive():
-                    raise RenderFailed("the render worker stopped unexpectedly; try again")
+                    raise self._died(worker, peak)
+                if self.memory_mb:
+                    peak = max(peak, _peak_bytes(worker.process.pid))
                 continue
             kind, value = worker.conn.recv()
             if kind != "progress":
@@ -167,4 +285,4 @@ class Pool:
             self._retire(worker)
 
 
-__all__ = ["Pool", "Progress"]
+__all__ = ["MEMORY_SETTING", "Pool", "Progress", "RenderMemory"]

@@ -11,11 +11,11 @@ from __future__ import annotations
 
 from typing import Annotated, Any
 
-from fastapi import APIRouter, Path, Query, Request, Response
+from fastapi import APIRouter, Depends, Path, Query, Request, Response
 from pydantic import BaseModel, ConfigDict, Field
 from starlette.concurrency import run_in_threadpool
 
-from service.api import idempotency, jobs
+from service.api import deps, docs, idempotency, jobs
 from service.api.deps import PackDep, PackId, PrincipalDep, Services, ServicesDep
 from service.archive import audit
 from service.archive.db import PackRow, SealRow, WaiverRow
@@ -23,19 +23,26 @@ from service.errors import InvalidRequest, NotFound
 from service.workflow import compare, drafts, lifecycle, sealing
 from service.workflow.keys import Principal
 
-router = APIRouter(prefix="/v1/reports", tags=["reports"])
+router = APIRouter(
+    prefix="/v1/reports", tags=["reports"], dependencies=[Depends(deps.single_query_values)]
+)
 
-_PROBLEM: dict[str, Any] = {"content": {"application/problem+json": {}}}
-_REFUSALS: dict[int | str, dict[str, Any]] = dict.fromkeys((401, 403, 404, 409, 422), _PROBLEM)
-_DEFINITION_BODY = {
-    "requestBody": {
-        "required": True,
-        "content": {
-            "application/json": {"schema": {"$ref": "#/components/schemas/ReportDefinition"}}
-        },
-    }
+_READ = docs.refusals(401, 404, 422)
+"""A read of one pack or job: no key, not found (or not visible to the key), a malformed id."""
+_ACT = docs.refusals(400, 401, 403, 404, 409, 422)
+"""A lifecycle action: also the key's role, an illegal move, an unreadable body."""
+_CREATED: dict[int | str, dict[str, Any]] = {
+    201: {
+        "description": "The draft pack, stored (its address is in Location).",
+        "headers": {"Location": {"schema": {"type": "string"}}},
+    },
+    202: {
+        "description": "With wait=false: the job that builds the draft (GET its Location).",
+        "content": {"application/json": {"schema": {"type": "object"}}},
+        "headers": {"Location": {"schema": {"type": "string"}}},
+    },
+    **docs.refusals(401, 403, 409, 413, 422, 429, 500),
 }
-_PDF: dict[int | str, dict[str, Any]] = {200: {"content": {"application/pdf": {}}}, **_REFUSALS}
 
 
 class _Body(BaseModel):
@@ -161,8 +168,8 @@ async def _view(services: Services, principal: Principal, pack_id: str) -> dict[
 @router.post(
     "",
     status_code=201,
-    openapi_extra=_DEFINITION_BODY,
-    responses={413: _PROBLEM, **_REFUSALS},
+    openapi_extra=docs.merged(docs.DEFINITION_BODY, docs.IDEMPOTENCY_KEY),
+    responses=_CREATED,
 )
 async def create_report(
     request: Request,
@@ -205,17 +212,26 @@ async def create_report(
     return await idempotency.once(request, services.sessions, principal, raw, run)
 
 
-@router.get("", responses=_REFUSALS)
+MAX_OFFSET = 1_000_000_000
+"""Past any archive's size, and within the 64-bit integers SQLite and PostgreSQL take (an offset
+beyond them was a 500)."""
+_STATUS_PATTERN = f"^({'|'.join(drafts.STATUSES)})$"
+
+
+@router.get("", responses=docs.refusals(401, 422))
 def list_reports(
     *,
     services: ServicesDep,
     principal: PrincipalDep,
     report: Annotated[str | None, Query(description="A report id, exactly.")] = None,
     period: Annotated[str | None, Query(description="Part of the period's label.")] = None,
-    status: Annotated[str | None, Query(description=", ".join(drafts.STATUSES))] = None,
+    status: Annotated[
+        str | None,
+        Query(description="One of: " + ", ".join(drafts.STATUSES), pattern=_STATUS_PATTERN),
+    ] = None,
     signer: Annotated[str | None, Query(description="Part of the approver's name.")] = None,
     limit: Annotated[int, Query(ge=1, le=drafts.MAX_PAGE)] = 50,
-    offset: Annotated[int, Query(ge=0)] = 0,
+    offset: Annotated[int, Query(ge=0, le=MAX_OFFSET)] = 0,
 ) -> dict[str, Any]:
     """The packs this key may see, newest first, narrowed by report, period, status and signer."""
     query = drafts.Query(report, period, status, signer, limit, offset)
@@ -228,13 +244,13 @@ def list_reports(
     }
 
 
-@router.get("/{pack_id}", responses=_REFUSALS)
+@router.get("/{pack_id}", responses=_READ)
 def get_report(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
     """A stored pack: its report, status, check summary, review, seal and links."""
     return pack_view(services, pack, with_results=False)
 
 
-@router.get("/{pack_id}/checks", responses=_REFUSALS)
+@router.get("/{pack_id}/checks", responses=_READ)
 def get_checks(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
     """Every check result of a stored pack, and the waivers given in review."""
     return {
@@ -246,7 +262,7 @@ def get_checks(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
     }
 
 
-@router.get("/{pack_id}/audit", responses=_REFUSALS)
+@router.get("/{pack_id}/audit", responses=_READ)
 def get_audit(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
     """The pack's audit trail: every action on it, who, when, and the content hash it concerned."""
     return {
@@ -266,7 +282,7 @@ def get_audit(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
     }
 
 
-@router.get("/{pack_id}/compare/{other_id}", responses=_REFUSALS)
+@router.get("/{pack_id}/compare/{other_id}", responses=docs.refusals(401, 404, 409, 422))
 def compare_packs(
     pack_id: PackId, other_id: PackId, services: ServicesDep, principal: PrincipalDep
 ) -> dict[str, Any]:
@@ -293,14 +309,14 @@ def _pdf(data: bytes, digest: str, filename: str) -> Response:
     )
 
 
-@router.get("/{pack_id}/pdf", responses=_PDF, response_class=Response)
+@router.get("/{pack_id}/pdf", responses={**docs.PDF_ANSWER, **_READ}, response_class=Response)
 def get_pdf(pack: PackDep, services: ServicesDep) -> Response:
     """The pack's draft PDF, exactly as stored (its SHA-256 is the ETag)."""
     data = services.store.get(pack.pdf_sha256)
     return _pdf(data, pack.pdf_sha256, f"{pack.report_id}-{pack.id}-draft.pdf")
 
 
-@router.get("/{pack_id}/sealed", responses=_PDF, response_class=Response)
+@router.get("/{pack_id}/sealed", responses={**docs.PDF_ANSWER, **_READ}, response_class=Response)
 def get_sealed(pack: PackDep, services: ServicesDep) -> Response:
     """The signed-off pack: PDF/A-3b with its sources attached, digitally signed."""
     sealed = drafts.seal_of(sessions=services.sessions, pack_id=pack.id)
@@ -327,7 +343,11 @@ async def _act(
     return await idempotency.once(request, services.sessions, principal, raw, run)
 
 
-@router.post("/{pack_id}/submit", responses=_REFUSALS)
+@router.post(
+    "/{pack_id}/submit",
+    responses=docs.refusals(401, 403, 404, 409, 422),
+    openapi_extra=docs.IDEMPOTENCY_KEY,
+)
 async def submit(
     pack_id: str, request: Request, services: ServicesDep, principal: PrincipalDep
 ) -> Response:
@@ -341,7 +361,7 @@ async def submit(
     return await _act(request, services, principal, pack_id, action)
 
 
-@router.post("/{pack_id}/request-changes", responses=_REFUSALS)
+@router.post("/{pack_id}/request-changes", responses=_ACT, openapi_extra=docs.IDEMPOTENCY_KEY)
 async def request_changes(
     pack_id: str,
     body: ChangesRequest,
@@ -363,7 +383,7 @@ async def request_changes(
     return await _act(request, services, principal, pack_id, action)
 
 
-@router.post("/{pack_id}/waivers", responses=_REFUSALS)
+@router.post("/{pack_id}/waivers", responses=_ACT, openapi_extra=docs.IDEMPOTENCY_KEY)
 async def waive(
     pack_id: str,
     body: WaiverRequest,
@@ -389,7 +409,11 @@ async def waive(
     return await _act(request, services, principal, pack_id, action)
 
 
-@router.post("/{pack_id}/sign-off", responses={**_REFUSALS, 500: _PROBLEM})
+@router.post(
+    "/{pack_id}/sign-off",
+    responses={**_ACT, **docs.refusals(500)},
+    openapi_extra=docs.IDEMPOTENCY_KEY,
+)
 async def sign_off(
     pack_id: str,
     body: SignOffRequest,
@@ -424,10 +448,12 @@ async def sign_off_and_seal(
     )
 
 
-jobs_router = APIRouter(prefix="/v1/jobs", tags=["reports"])
+jobs_router = APIRouter(
+    prefix="/v1/jobs", tags=["reports"], dependencies=[Depends(deps.single_query_values)]
+)
 
 
-@jobs_router.get("/{job_id}", responses=_REFUSALS)
+@jobs_router.get("/{job_id}", responses=_READ)
 def get_job(
     job_id: Annotated[str, Path(pattern=r"^jb_[0-9a-f]{32}$")],
     services: ServicesDep,

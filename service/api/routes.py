@@ -5,26 +5,17 @@ from __future__ import annotations
 
 from typing import Any
 
-from fastapi import APIRouter, Request
+from fastapi import APIRouter, Depends, Request
 from starlette.concurrency import run_in_threadpool
 
 from service import __version__, pipeline
+from service.api import deps, docs
 from service.api.deps import PrincipalDep, ServicesDep
 from service.checks import registry
 from service.definition.schema import definition_schema
 from service.workflow import sealing
 
-router = APIRouter(prefix="/v1")
-
-_PROBLEM: dict[str, Any] = {"content": {"application/problem+json": {}}}
-_DEFINITION_BODY = {
-    "requestBody": {
-        "required": True,
-        "content": {
-            "application/json": {"schema": {"$ref": "#/components/schemas/ReportDefinition"}}
-        },
-    }
-}
+router = APIRouter(prefix="/v1", dependencies=[Depends(deps.single_query_values)])
 
 
 @router.get("/health", tags=["service"])
@@ -49,8 +40,8 @@ async def checks() -> list[dict[str, Any]]:
 @router.post(
     "/check",
     tags=["checks"],
-    openapi_extra=_DEFINITION_BODY,
-    responses={413: _PROBLEM, 422: _PROBLEM},
+    openapi_extra=docs.DEFINITION_BODY,
+    responses=docs.refusals(401, 413, 422),
 )
 async def check_definition(
     request: Request, services: ServicesDep, principal: PrincipalDep
@@ -74,13 +65,8 @@ async def check_definition(
 @router.post(
     "/verify",
     tags=["archive"],
-    responses={413: _PROBLEM},
-    openapi_extra={
-        "requestBody": {
-            "required": True,
-            "content": {"application/pdf": {"schema": {"type": "string", "format": "binary"}}},
-        }
-    },
+    responses=docs.refusals(401, 413, 422, 500),
+    openapi_extra=docs.PDF_BODY,
 )
 async def verify_pack(
     request: Request, services: ServicesDep, principal: PrincipalDep

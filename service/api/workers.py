@@ -32,6 +32,9 @@ a job or answering a status query stays quick while every core is drawing."""
 def _start_worker() -> None:
     os.nice(WORKER_NICENESS)
     style.install()
+    # Loaded here, before the worker's memory limit applies: scipy's OpenBLAS reserves its
+    # buffers as it loads and, refused, retries in a loop or exits instead of raising.
+    from scipy import special  # noqa: F401
 
 
 def build_pack(
@@ -54,12 +57,17 @@ def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
 
 class Workers:
     def __init__(
-        self, size: int, *, timeout: float = 300.0, render: RenderOptions | None = None
+        self,
+        size: int,
+        *,
+        timeout: float = 300.0,
+        render: RenderOptions | None = None,
+        memory_mb: int | None = None,
     ) -> None:
         self.size = size
         self.render = render or RenderOptions()
         """How each worker draws a pack's charts (its own helper processes, the chart cache)."""
-        self._pool = Pool(size, initializer=_start_worker, timeout=timeout)
+        self._pool = Pool(size, initializer=_start_worker, timeout=timeout, memory_mb=memory_mb)
         self._slots: asyncio.Semaphore | None = None
 
     async def _run(self, job: Callable[..., T], *args: Any, **kwargs: Any) -> T:

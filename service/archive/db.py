@@ -2,6 +2,12 @@
 
 Only metadata lives here; PDF and definition bytes live in the content-addressed file store and are
 referenced by their SHA-256, so a row never claims a file that was not written first.
+
+A database fault is answered as what it is, never as an internal error: a connection lost mid-way
+(the server restarted, the backend was terminated, the network dropped) or a database too busy to
+take the write lock raises :class:`DatabaseUnavailable` (503), a full disk under a SQLite file
+raises :class:`service.archive.files.StorageFull` (507). Either way the transaction was rolled back
+by the database, so nothing half-written is left and the same request can simply be sent again.
 """
 
 from __future__ import annotations
@@ -22,8 +28,18 @@ from sqlalchemy import (
     event,
     select,
 )
-from sqlalchemy.engine import Engine, make_url
+from sqlalchemy.engine import Engine, ExceptionContext, make_url
 from sqlalchemy.orm import DeclarativeBase, Mapped, Session, mapped_column, sessionmaker
+
+from service.archive.files import StorageFull
+from service.errors import PlumblineError
+
+
+class DatabaseUnavailable(PlumblineError):
+    """The archive database cannot be used right now: the connection was lost or it is busy."""
+
+    code = "database_unavailable"
+    status = 503
 
 
 class Base(DeclarativeBase):
@@ -61,9 +77,13 @@ def connect(url: str) -> sessionmaker[Any]:
     """
     from service.archive import migrate  # its Alembic env imports this module's models
 
-    engine = create_engine(url, future=True)
-    if engine.dialect.name == "sqlite":
+    sqlite = make_url(url).get_backend_name() == "sqlite"
+    # A server may drop idle connections (a restart, an idle timeout): test each one as it leaves
+    # the pool, so only a connection lost in the middle of a request fails that request.
+    engine = create_engine(url, future=True, pool_pre_ping=not sqlite)
+    if sqlite:
         event.listen(engine, "connect", _sqlite_pragmas)
+    event.listen(engine, "handle_error", _translate)
     try:
         migrate.upgrade(engine)
     except BaseException:
@@ -78,6 +98,40 @@ def exists(url: str) -> bool:
     if parsed.get_backend_name() != "sqlite":
         return True
     return bool(parsed.database) and Path(str(parsed.database)).is_file()
+
+
+_SQLITE_FULL = ("database or disk is full",)
+_SQLITE_BUSY = ("database is locked", "database table is locked")
+
+
+def _translate(context: ExceptionContext) -> None:
+    """Raise the product's error for a database fault (``handle_error`` runs for every failed
+    statement, commit and connect; SQLAlchemy still invalidates a lost connection afterwards)."""
+    if context.is_pre_ping:
+        return  # the pool's test of an idle connection: a dead one is replaced, not an error
+    original = context.original_exception
+    message = str(original).lower()
+    sqlite = context.dialect is not None and context.dialect.name == "sqlite"
+    if context.is_disconnect:
+        raise DatabaseUnavailable(
+            "the connection to the archive database was lost in the middle of the request "
+            f"({_first_line(original)}); nothing was saved, send the request again"
+        )
+    if sqlite and any(text in message for text in _SQLITE_FULL):
+        raise StorageFull(
+            "the disk holding the archive database is full, so nothing was saved; free some "
+            "space (or move PLUMBLINE_DATA_DIR to a larger disk) and send the request again"
+        )
+    if sqlite and any(text in message for text in _SQLITE_BUSY):
+        raise DatabaseUnavailable(
+            "the archive database stayed busy with other writes for longer than its wait "
+            "limit; nothing was saved, send the request again in a moment"
+        )
+
+
+def _first_line(error: BaseException) -> str:
+    lines = str(error).strip().splitlines()
+    return lines[0] if lines else type(error).__name__
 
 
 def _sqlite_pragmas(connection: Any, _record: Any) -> None:

@@ -1,27 +1,64 @@
-"""Crash-safe file writes and a content-addressed store (files named by their SHA-256)."""
+"""Crash-safe file writes and a content-addressed store (files named by their SHA-256).
+
+A write that does not fit (the disk or the owner's quota is full, or the file is larger than the
+system allows) raises :class:`StorageFull` and leaves nothing behind: the temporary file is
+removed, and the file it was to become is never created, so no row can claim a partial file.
+A crash (SIGKILL, power loss) mid-write leaves at most a temporary ``.name.*`` file, which no row
+names and :func:`Store.temporary` lists.
+"""
 
 from __future__ import annotations
 
 import contextlib
+import errno
 import hashlib
 import os
 import tempfile
 from pathlib import Path
 from typing import Protocol
 
-from service.errors import NotFound
+from service.errors import NotFound, PlumblineError
+
+_NO_ROOM = {errno.ENOSPC, errno.EDQUOT, errno.EFBIG}
+
+
+class StorageFull(PlumblineError):
+    """The archive's disk is full: nothing was written (HTTP 507 Insufficient Storage)."""
+
+    code = "insufficient_storage"
+    status = 507
+
+
+def _no_room(path: Path, exc: OSError) -> StorageFull:
+    reason = os.strerror(exc.errno) if exc.errno is not None else str(exc)
+    return StorageFull(
+        f"the disk is full: the archive could not write {path.name[:16]}… under {path.parent} "
+        f"({reason}), so nothing was saved and every pack already archived is unchanged; free "
+        "some space or move the store (PLUMBLINE_DATA_DIR, PLUMBLINE_STORE_URL) to a larger disk, "
+        "then send the request again"
+    )
 
 
 def write_atomic(path: Path, data: bytes) -> None:
     """Write to a temp file in the same folder, fsync, rename, fsync the folder."""
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
+    except OSError as exc:
+        if exc.errno in _NO_ROOM:
+            raise _no_room(path, exc) from exc
+        raise
     try:
         with os.fdopen(fd, "wb") as handle:
             handle.write(data)
             handle.flush()
             os.fsync(handle.fileno())
         Path(tmp).replace(path)
+    except OSError as exc:
+        Path(tmp).unlink(missing_ok=True)
+        if exc.errno in _NO_ROOM:
+            raise _no_room(path, exc) from exc
+        raise
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
@@ -86,3 +123,7 @@ class Store:
             return target.read_bytes()
         except FileNotFoundError:
             raise NotFound(f"no stored file {digest}") from None
+
+    def temporary(self) -> list[Path]:
+        """Temporary files a write left behind when its process was killed (no row names one)."""
+        return sorted(self.root.glob("*/.*")) if self.root.is_dir() else []

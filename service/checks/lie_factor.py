@@ -32,7 +32,9 @@ def worst(values: list[float], shown: list[float]) -> float | None:
     defined = (a_v != 0) & (a_s != 0) & (a_v != b_v)
     if not defined.any():
         return None
-    with np.errstate(divide="ignore", invalid="ignore"):
+    # A pair whose effect overflows (a value near the smallest float beside ordinary ones)
+    # defines no finite factor: it is dropped below, not warned about.
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         factors = ((b_s - a_s) / a_s) / ((b_v - a_v) / a_v)
     factors = factors[defined & np.isfinite(factors)]
     if factors.size == 0:

@@ -73,7 +73,7 @@ def parse(raw: bytes | str, limits: Limits) -> tuple[ReportDefinition, list[Prob
         raise PayloadTooLarge(size=len(data), limit=limits.max_payload_bytes)
     try:
         document = json.loads(data, parse_constant=_non_finite)
-    except (UnicodeDecodeError, json.JSONDecodeError, RecursionError) as exc:
+    except (ValueError, RecursionError) as exc:  # JSONDecodeError and UnicodeDecodeError too
         raise InvalidDefinition([_json_problem(exc)]) from None
     return validate(document, limits)
 
@@ -114,7 +114,15 @@ def _json_problem(exc: Exception) -> Problem:
         )
     if isinstance(exc, RecursionError):
         return Problem("too_deep", "", "the JSON is nested too deeply", "flatten the document")
-    return Problem("invalid_json", "", "the body is not UTF-8 text", "send UTF-8 encoded JSON")
+    if isinstance(exc, UnicodeDecodeError):
+        return Problem("invalid_json", "", "the body is not UTF-8 text", "send UTF-8 encoded JSON")
+    # Python refuses integers of more than 4,300 digits (sys.int_info.default_max_str_digits)
+    return Problem(
+        "invalid_json",
+        "",
+        "a number in the body has more than 4,300 digits",
+        "send shorter numbers (no measure needs more than a few dozen digits)",
+    )
 
 
 def _translate(exc: ValidationError, document: dict[str, Any]) -> Iterable[Problem]:

@@ -65,9 +65,12 @@ def lay_out(figure: Figure) -> bool:
     return not any("constrained_layout not applied" in str(w.message) for w in caught)
 
 
-def measure(figure: Figure, *, collapsed: bool = False) -> tuple[int, int]:
-    """(overlapping tick-label pairs, text artists cut off at the figure's edge) of a figure
-    laid out by ``lay_out``: text is measured where that layout put it, nothing is drawn."""
+def measure(figure: Figure, *, laid_out: bool = False, collapsed: bool = False) -> tuple[int, int]:
+    """(overlapping tick-label pairs, text artists cut off at the figure's edge). The figure is
+    laid out first unless ``laid_out`` says ``lay_out`` ran (then ``collapsed`` is its verdict):
+    text is measured where the layout put it, and nothing is drawn again."""
+    if not laid_out:
+        collapsed = not lay_out(figure)
     renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
     edge = figure.bbox.padded(EDGE_TOLERANCE_PX)
     overlaps, clipped = 0, int(collapsed)  # a collapsed layout leaves no room for the plot
@@ -118,7 +121,7 @@ def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
     collapsed = not lay_out(figure)
     report = LayoutReport()
     report.overlaps_before, report.clipped_before = report.overlaps, report.clipped = measure(
-        figure, collapsed=collapsed
+        figure, laid_out=True, collapsed=collapsed
     )
     for _ in range(attempts):
         if report.clean:
@@ -133,5 +136,5 @@ def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
                 acted = True
         if not acted:
             break
-        report.overlaps, report.clipped = measure(figure, collapsed=collapsed)
+        report.overlaps, report.clipped = measure(figure, laid_out=True, collapsed=collapsed)
     return report

@@ -7,11 +7,12 @@ import socket
 import subprocess
 import sys
 import time
-from collections.abc import Callable, Iterator
+from collections.abc import Iterator
 from pathlib import Path
 
 import httpx
 import pytest
+from factories import Clients
 
 from service.archive.db import connect, engine_of
 from service.workflow.keys import Role, create
@@ -75,9 +76,6 @@ def server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[dict[str, objec
     process.terminate()
     process.wait(timeout=20)
     log.close()
-
-
-Clients = Callable[[str], httpx.Client]
 
 
 @pytest.fixture

@@ -10,7 +10,7 @@ from pathlib import Path
 from typing import Any
 
 import httpx
-from conftest import Clients
+from factories import Clients
 
 DEMO = Path(__file__).parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
 

@@ -11,7 +11,7 @@ from pathlib import Path
 from typing import Any
 
 import httpx
-from conftest import Clients
+from factories import Clients
 
 DEMO = Path(__file__).parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
 REASON = "The board asked to see the spread above the 85 % floor this month."

@@ -9,7 +9,6 @@ unless ``PLUMBLINE_REQUIRE_DISTRIBUTED=1`` (CI sets it), which turns that into a
 from __future__ import annotations
 
 import contextlib
-import importlib.util
 import logging
 import os
 import shutil
@@ -26,7 +25,7 @@ from pathlib import Path
 from typing import Any
 
 import pytest
-from sqlalchemy import create_engine, text
+from postgres import fresh_database, postgres_server  # noqa: F401 - a fixture, used by name
 
 from service.archive import db
 from service.config import Settings
@@ -40,17 +39,6 @@ VISIBILITY_TIMEOUT_S = 10.0
 """Short, so a build whose worker was killed is delivered again within the test: above the render
 budget, as the service requires."""
 RESTORE_INTERVAL_S = 1.0
-
-# The archive tests' PostgreSQL fixture, loaded from its file (it is not a package).
-_spec = importlib.util.spec_from_file_location(
-    "plumbline_archive_conftest", ROOT / "tests" / "archive" / "conftest.py"
-)
-assert _spec is not None
-assert _spec.loader is not None
-_archive = importlib.util.module_from_spec(_spec)
-sys.modules[_spec.name] = _archive  # its dataclass looks its module up there
-_spec.loader.exec_module(_archive)
-postgres_server = _archive.postgres_server
 
 
 def _free_port() -> int:
@@ -149,18 +137,10 @@ def s3(s3_endpoint: str, monkeypatch: pytest.MonkeyPatch) -> Any:
 
 
 @pytest.fixture
-def postgres_url(postgres_server: Any) -> Iterator[str]:
+def postgres_url(request: pytest.FixtureRequest) -> Iterator[str]:
     """A new, empty database on the throwaway PostgreSQL server."""
-    name = f"t_{uuid.uuid4().hex[:16]}"
-    admin = create_engine(postgres_server.url(), isolation_level="AUTOCOMMIT")
-    try:
-        with admin.connect() as connection:
-            connection.execute(text(f'CREATE DATABASE "{name}"'))
-        yield postgres_server.url(name)
-        with admin.connect() as connection:
-            connection.execute(text(f'DROP DATABASE "{name}" WITH (FORCE)'))
-    finally:
-        admin.dispose()
+    with fresh_database(request.getfixturevalue("postgres_server")) as url:
+        yield url
 
 
 @dataclass

@@ -21,6 +21,7 @@ from service.api.jobs import FAILED, QUEUED
 from service.archive.db import AuditRow, JobRow, PackRow, ReviewRow, now
 from service.distributed import tasks
 from service.distributed.jobs import CeleryJobs
+from service.render.options import RenderOptions
 from service.workflow.keys import Principal
 
 DEMO = Path(__file__).parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
@@ -212,7 +213,14 @@ def test_of_two_deliveries_that_both_built_only_one_stores_a_pack(stack: Any) ->
     built_limits = stack.settings.limits
     built = pipeline.build(raw, built_limits)
     # store_draft needs the archive and the store only: no render process is started
-    ctx = tasks.Context(sessions=stack.sessions, store=store, pool=None, limits=built_limits)
+    ctx = tasks.Context(
+        sessions=stack.sessions,
+        store=store,
+        pool=None,
+        limits=built_limits,
+        render=RenderOptions(),
+        queue_url=stack.env["PLUMBLINE_QUEUE_URL"],
+    )
     assert tasks.store_draft(ctx, job_id="jb_twice", built=built, definition=raw, author=author)
     assert not tasks.store_draft(ctx, job_id="jb_twice", built=built, definition=raw, author=author)
     [pack] = packs_of(stack)

@@ -7,7 +7,6 @@ it at spread-out moments of the slow part (rendering, sealing, signing, writing)
 
 from __future__ import annotations
 
-import hashlib
 import os
 import signal
 import subprocess
@@ -15,14 +14,12 @@ import sys
 import textwrap
 import time
 from pathlib import Path
-from typing import Any
 
+import consistency
 import pytest
-from sqlalchemy import select
 
 from service import pipeline
-from service.archive import audit
-from service.archive.db import AuditRow, PackRow, ReviewRow, SealRow, connect
+from service.archive.db import PackRow, connect
 from service.archive.files import Store
 from service.config import Limits
 from service.workflow import drafts, lifecycle
@@ -71,27 +68,10 @@ def _sign_off_in_child(folder: Path, pack: PackRow, kill_after: float | None) ->
     return process.returncode
 
 
-def _consistent(folder: Path) -> dict[str, Any]:
-    """Check every invariant of the archive; returns what it found."""
-    sessions = connect(f"sqlite:///{folder / 'a.db'}")
-    store = Store(folder / "files")
-    with sessions() as session:
-        packs = {p.id: p for p in session.scalars(select(PackRow))}
-        seals = {s.pack_id: s for s in session.scalars(select(SealRow))}
-        reviews = {r.pack_id: r for r in session.scalars(select(ReviewRow))}
-        signed_records = {
-            a.pack_id for a in session.scalars(select(AuditRow)) if a.action == "pack.signed_off"
-        }
-    for sealed in seals.values():
-        data = store.get(sealed.sha256)  # the file the row claims is there...
-        assert hashlib.sha256(data).hexdigest() == sealed.sha256  # ...and is the same file
-        assert len(data) == sealed.bytes
-    signed = {p for p, row in packs.items() if row.status in ("signed_off", "superseded")}
-    assert signed == set(seals) == signed_records
-    for pack_id in signed:
-        assert reviews[pack_id].signed_off_name == "Pat Approver"
-    assert audit.gaps(sessions) == []
-    return {"signed": signed, "packs": packs}
+def _consistent(folder: Path) -> consistency.Found:
+    return consistency.check(
+        f"sqlite:///{folder / 'a.db'}", folder / "files", approver="Pat Approver"
+    )
 
 
 @pytest.fixture
@@ -108,7 +88,7 @@ def archive(tmp_path: Path) -> Path:
 
 
 def test_a_sign_off_killed_at_any_moment_leaves_a_consistent_archive(archive: Path) -> None:
-    packs = sorted(_consistent(archive)["packs"].values(), key=lambda p: p.created_at)
+    packs = sorted(_consistent(archive).packs.values(), key=lambda p: p.created_at)
     outcomes = []
     for pack, moment in zip(packs, (0.5, 1.5, 2.5, 3.5), strict=False):
         code = _sign_off_in_child(archive, pack, kill_after=moment)
@@ -119,4 +99,4 @@ def test_a_sign_off_killed_at_any_moment_leaves_a_consistent_archive(archive: Pa
     interrupted = [p for p, code in zip(packs, outcomes, strict=False) if code != 0]
     assert _sign_off_in_child(archive, interrupted[0], kill_after=None) == 0
     found = _consistent(archive)
-    assert interrupted[0].id in found["signed"]
+    assert interrupted[0].id in found.signed

@@ -4,6 +4,7 @@ replaced; a worker that dies fails only its own job; progress reaches the caller
 from __future__ import annotations
 
 import os
+import resource
 import threading
 import time
 from collections.abc import Callable, Iterator
@@ -11,7 +12,7 @@ from typing import Any
 
 import pytest
 
-from service.api.pool import Pool
+from service.api.pool import Pool, RenderMemory
 from service.errors import InvalidRequest, RenderFailed, RenderTimeout
 
 
@@ -27,6 +28,19 @@ def pid() -> int:
 
 def dies() -> None:
     os._exit(7)
+
+
+def address_space_limit() -> int:
+    return resource.getrlimit(resource.RLIMIT_AS)[0]
+
+
+def allocates(mb: int) -> int:
+    block = bytearray(mb * 1024 * 1024)  # zero-filled: every page is really taken
+    return len(block)
+
+
+def aborts() -> None:
+    os.abort()  # as Rust code does when an allocation is refused
 
 
 def refuses() -> None:
@@ -101,3 +115,44 @@ def test_a_closed_pool_refuses_new_jobs_and_leaves_no_process() -> None:
         workers.run(pid)
     with pytest.raises(ProcessLookupError):
         os.kill(worker_pid, 0)
+
+
+def test_a_job_past_the_worker_memory_limit_fails_clearly_and_its_worker_is_replaced() -> None:
+    workers = Pool(1, timeout=60, memory_mb=400)
+    try:
+        assert workers.run(address_space_limit) == 400 * 1024 * 1024  # RLIMIT_AS, in bytes
+        before = workers.run(pid)
+        assert workers.run(allocates, 50) == 50 * 1024 * 1024  # well under the limit: runs
+        with pytest.raises(RenderMemory, match=r"400 MB.*PLUMBLINE_WORKER_MEMORY_MB") as caught:
+            workers.run(allocates, 800)
+        assert caught.value.code == "render_memory"
+        assert caught.value.status == 422
+        after = workers.run(pid)
+        assert after != before  # a new process took the place of the one that ran out
+        assert workers.run(allocates, 50) == 50 * 1024 * 1024  # and serves as before
+    finally:
+        workers.close()
+
+
+def test_without_a_memory_limit_the_worker_keeps_the_inherited_one() -> None:
+    workers = Pool(1, timeout=30, memory_mb=0)
+    try:
+        assert workers.run(address_space_limit) == resource.getrlimit(resource.RLIMIT_AS)[0]
+    finally:
+        workers.close()
+
+
+def test_a_worker_that_aborts_under_a_memory_limit_is_reported_as_out_of_memory() -> None:
+    workers = Pool(1, timeout=30, memory_mb=2048)
+    try:
+        with pytest.raises(RenderMemory, match="PLUMBLINE_WORKER_MEMORY_MB"):
+            workers.run(aborts)
+        assert workers.run(pid) > 0
+    finally:
+        workers.close()
+    unlimited = Pool(1, timeout=30)
+    try:
+        with pytest.raises(RenderFailed, match="stopped unexpectedly; try again"):
+            unlimited.run(aborts)  # without a limit, memory is not blamed
+    finally:
+        unlimited.close()

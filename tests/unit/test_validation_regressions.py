@@ -58,3 +58,12 @@ def test_tiny_negative_numbers_do_not_print_minus_zero() -> None:
     assert formatting.number(-0.001, "en-GB") == "0"
     assert formatting.number(-0.4, "en-GB", digits=0) == "0"
     assert formatting.number(-0.6, "en-GB", digits=0) == "-1"
+
+
+def test_an_integer_of_more_than_4300_digits_is_a_problem_not_a_crash() -> None:
+    """Python refuses to convert integers of more than 4,300 digits (CPython's
+    ``sys.int_info.default_max_str_digits``, since 3.11): ``json.loads`` raises ValueError."""
+    raw = b'{"version": 1, "report": {"id": "x", "title": ' + b"1" * 5000 + b"}}"
+    problems = problems_of(raw)
+    assert [p.code for p in problems] == ["invalid_json"]
+    assert "4,300 digits" in problems[0].message

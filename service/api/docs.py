@@ -1,0 +1,144 @@
+"""What the OpenAPI document says about answers: the problem-details body every error shares, and
+which error statuses each route can give.
+
+A route lists exactly the refusals it can answer (``refusals(401, 404, 422)``), so a client (or a
+conformance test) reading the document is not surprised by a status nor told of one that never
+comes. Every error body is ``application/problem+json`` in the shape ``errors.problem`` writes.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+PROBLEM_MEDIA_TYPE = "application/problem+json"
+
+_TEXT: dict[str, Any] = {"type": "string"}
+
+PROBLEM_SCHEMA: dict[str, Any] = {
+    "title": "Problem",
+    "description": "RFC 9457 problem details, with Plumbline's stable code; a definition's "
+    "problems are listed in `errors`, each with the path into the definition.",
+    "type": "object",
+    "required": ["type", "title", "status", "code", "detail"],
+    "properties": {
+        "type": {**_TEXT, "description": "urn:plumbline:error:<code>"},
+        "title": _TEXT,
+        "status": {"type": "integer", "minimum": 400, "maximum": 599},
+        "code": {**_TEXT, "description": "A stable code, e.g. invalid_definition, not_found."},
+        "detail": {**_TEXT, "description": "What is wrong, and how to put it right."},
+        "errors": {
+            "type": "array",
+            "description": "Every problem found, each where it is.",
+            "items": {
+                "type": "object",
+                "required": ["code", "path", "message"],
+                "properties": {
+                    "code": _TEXT,
+                    "path": {**_TEXT, "description": "e.g. sections[0].charts[1].measure"},
+                    "message": _TEXT,
+                    "hint": _TEXT,
+                    "value": {"description": "The offending value, when it helps."},
+                    "context": {"type": "object"},
+                },
+            },
+        },
+        "incident": {**_TEXT, "description": "The id under which a server error was logged."},
+        "request_id": {**_TEXT, "description": "The request's id, as in X-Request-ID."},
+    },
+}
+
+_MEANING = {
+    400: "The request body cannot be read (e.g. it is not UTF-8).",
+    401: "No API key, or an unknown, revoked or expired one.",
+    403: "The key's roles do not allow this action, or the key is the pack's author.",
+    404: "No such pack or job, or one of a report family the key is not granted.",
+    409: "An illegal transition, a changed draft, an open failed check, or a request with the "
+    "same Idempotency-Key still running.",
+    413: "The request body is larger than the configured limit.",
+    422: "The request is not valid; each problem is listed with its path.",
+    429: "The background queue is full; retry after the time given in Retry-After.",
+    500: "Something failed on the service's side; the detail names an incident id.",
+    503: "The archive's database could not be reached or was busy; nothing was saved, send the "
+    "request again.",
+    507: "The disk of the file store is full; nothing was saved.",
+}
+
+_HEADERS: dict[int, dict[str, Any]] = {
+    401: {"WWW-Authenticate": {"schema": _TEXT, "description": 'Bearer realm="plumbline"'}},
+    429: {"Retry-After": {"schema": _TEXT, "description": "Seconds to wait before retrying."}},
+}
+
+
+def refusals(*statuses: int) -> dict[int | str, dict[str, Any]]:
+    """The OpenAPI ``responses`` entries of these error statuses, each a problem-details body.
+
+    A route that takes a key reads the archive's database, so it can also answer 503 when that
+    is unreachable (``archive.db.DatabaseUnavailable``); one that can write files (413 listed:
+    it takes a body) can answer 507 when the store's disk is full."""
+    wanted = set(statuses)
+    if 401 in wanted:
+        wanted.add(503)
+    if 413 in wanted or 409 in wanted:
+        wanted.add(507)
+    out: dict[int | str, dict[str, Any]] = {}
+    for status in sorted(wanted):
+        entry: dict[str, Any] = {
+            "description": _MEANING[status],
+            "content": {PROBLEM_MEDIA_TYPE: {"schema": PROBLEM_SCHEMA}},
+        }
+        if status in _HEADERS:
+            entry["headers"] = _HEADERS[status]
+        out[status] = entry
+    return out
+
+
+DEFINITION_BODY: dict[str, Any] = {
+    "requestBody": {
+        "required": True,
+        "content": {
+            "application/json": {"schema": {"$ref": "#/components/schemas/ReportDefinition"}}
+        },
+    }
+}
+"""A route that reads a report definition as its raw body (validated by ``definition.validate``)."""
+
+PDF_BODY: dict[str, Any] = {
+    "requestBody": {
+        "required": True,
+        "content": {"application/pdf": {"schema": {"type": "string", "format": "binary"}}},
+    }
+}
+
+PDF_ANSWER: dict[int | str, dict[str, Any]] = {
+    200: {
+        "description": "The PDF file; its SHA-256 is the ETag.",
+        "content": {"application/pdf": {"schema": {"type": "string", "format": "binary"}}},
+        "headers": {
+            "ETag": {"schema": _TEXT, "description": "The file's SHA-256, quoted."},
+            "Content-Disposition": {"schema": _TEXT},
+        },
+    }
+}
+
+IDEMPOTENCY_KEY: dict[str, Any] = {
+    "parameters": [
+        {
+            "name": "Idempotency-Key",
+            "in": "header",
+            "required": False,
+            "description": "A unique key per request, so a retry is carried out once: 1 to 255 "
+            "printable ASCII characters, without spaces or double quotes. The same key with a "
+            "different request is refused with 422; with one still running, 409.",
+            "schema": {"type": "string", "pattern": "^[!#-~]{1,255}$"},
+        }
+    ]
+}
+"""The ``Idempotency-Key`` header every POST that changes something takes (``idempotency``)."""
+
+
+def merged(*parts: dict[str, Any]) -> dict[str, Any]:
+    """Several ``openapi_extra`` fragments as one (their top-level keys do not overlap)."""
+    out: dict[str, Any] = {}
+    for part in parts:
+        out.update(part)
+    return out

@@ -1,0 +1,69 @@
+"""One real ``plumbline serve`` per test that asks (``start_server``), stopped after it."""
+
+from __future__ import annotations
+
+import os
+import subprocess
+import sys
+import time
+from collections.abc import Iterator
+from pathlib import Path
+
+import httpx
+import pytest
+from ops_server import ROOT, Server, Start, free_port
+
+from service.archive.db import connect, engine_of
+from service.workflow.keys import Role, create
+
+
+@pytest.fixture
+def start_server(tmp_path: Path) -> Iterator[Start]:
+    """``start_server(PLUMBLINE_X="…")``: a running server with those settings."""
+    started: list[Server] = []
+
+    def start(database_url: str | None = None, **env: str) -> Server:
+        data_dir = tmp_path / f"server-{len(started)}"
+        data_dir.mkdir()
+        url = database_url or f"sqlite:///{data_dir / 'plumbline.db'}"
+        sessions = connect(url)
+        _, secret = create(
+            sessions, name="Ann Author", roles={Role.author}, families={"*"}, expires=None
+        )
+        engine_of(sessions).dispose()
+        port = free_port()
+        log = data_dir / "server.log"
+        environment = {
+            **os.environ,
+            "PLUMBLINE_DATA_DIR": str(data_dir),
+            "PLUMBLINE_DATABASE_URL": url,
+            "PLUMBLINE_WORKERS": "1",
+            **env,
+        }
+        with log.open("wb") as out:
+            process = subprocess.Popen(
+                [sys.executable, "-m", "service.cli", "serve", "--port", str(port)],
+                env=environment,
+                cwd=ROOT,
+                stdout=out,
+                stderr=subprocess.STDOUT,
+            )
+        server = Server(process, f"http://127.0.0.1:{port}", port, data_dir, log, secret)
+        started.append(server)
+        deadline = time.monotonic() + 60
+        while True:
+            try:
+                if httpx.get(f"{server.base}/v1/health", timeout=1).status_code == 200:
+                    return server
+            except httpx.TransportError:
+                pass
+            if process.poll() is not None or time.monotonic() > deadline:
+                process.kill()
+                raise RuntimeError(log.read_text(errors="replace"))
+            time.sleep(0.2)
+
+    yield start
+    for server in started:
+        if server.process.poll() is None:
+            server.process.kill()
+            server.process.wait(timeout=30)
