@@ -28,6 +28,7 @@ import service
 from service.archive.files import write_atomic
 from service.checks.layout import LayoutReport
 from service.intents.plan import ChartPlan
+from service.render.options import RenderOptions
 
 MAGIC = b"plumbline-chart-group 1\n"
 _DIGEST_LEN = 64
@@ -35,6 +36,8 @@ _DIGEST_LEN = 64
 
 #: The libraries that write the bytes, read once (they cannot change under a running process).
 LIBRARIES = {"matplotlib": version("matplotlib"), "fonttools": version("fonttools")}
+#: ... and those that lay out and join the pack around the charts.
+PACK_LIBRARIES = {**LIBRARIES, "reportlab": version("reportlab"), "pikepdf": version("pikepdf")}
 
 
 def key(plans: list[ChartPlan]) -> str:
@@ -49,12 +52,36 @@ def key(plans: list[ChartPlan]) -> str:
     return hashlib.sha256(text.encode()).hexdigest()
 
 
+def pack_key(content: object, charts: list[bytes]) -> str:
+    """The SHA-256 naming a whole assembled pack: everything its pages show (``content``: plain
+    values, the report's text, tables, check results and status line) and the bytes of its drawn
+    chart groups. A pack whose every input is the same is the same file, so it need not be laid
+    out again; any change, a single character of the appendix, names another entry."""
+    identity = {
+        "style": service.STYLE_VERSION,
+        "plumbline": service.__version__,
+        "libraries": PACK_LIBRARIES,
+        "content": content,
+        "charts": [hashlib.sha256(chart).hexdigest() for chart in charts],
+    }
+    text = json.dumps(identity, sort_keys=True, separators=(",", ":"), ensure_ascii=False)
+    return hashlib.sha256(f"pack:{text}".encode()).hexdigest()
+
+
 class ChartCache:
-    """Drawn chart groups under ``root/ab/cdef…`` (see the module docstring)."""
+    """Drawn chart groups (and assembled packs) under ``root/ab/cdef…`` (see the module
+    docstring); a pack entry is stored like a group with no layout reports."""
 
     def __init__(self, root: Path, *, max_bytes: int) -> None:
         self.root = root
         self.max_bytes = max_bytes
+
+    @classmethod
+    def of(cls, options: RenderOptions) -> ChartCache | None:
+        """The cache ``options`` name, or None when they name none."""
+        if options.cache_dir is None:
+            return None
+        return cls(options.cache_dir, max_bytes=options.cache_max_bytes)
 
     def path(self, digest: str) -> Path:
         return self.root / digest[:2] / digest[2:]
@@ -128,4 +155,4 @@ def _decode(data: bytes, digest: str) -> tuple[bytes, list[LayoutReport]] | None
     return pdf, reports
 
 
-__all__ = ["LIBRARIES", "MAGIC", "ChartCache", "key"]
+__all__ = ["LIBRARIES", "MAGIC", "PACK_LIBRARIES", "ChartCache", "key", "pack_key"]

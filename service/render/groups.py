@@ -64,11 +64,7 @@ def draw_all(
     options = options or RenderOptions()
     parts = [[plans[i] for i in group] for group in groups(len(plans))]
     tally = _Tally(len(plans), progress)
-    store = (
-        cache.ChartCache(options.cache_dir, max_bytes=options.cache_max_bytes)
-        if options.cache_dir is not None
-        else None
-    )
+    store = cache.ChartCache.of(options)
     keys = [cache.key(part) for part in parts] if store is not None else []
     found: list[tuple[bytes, list[LayoutReport]] | None] = (
         [store.get(k) for k in keys] if store is not None else [None] * len(parts)

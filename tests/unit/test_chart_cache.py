@@ -205,3 +205,26 @@ def test_no_cache_folder_writes_nothing(
     drawn = groups.draw_all(demo_plans[:2], RenderOptions())
     assert drawn.cached == 0
     assert list(tmp_path.iterdir()) == []
+
+
+def test_an_unchanged_pack_is_taken_whole_and_a_changed_text_is_laid_out_again(
+    warm: RenderOptions,
+) -> None:
+    """The assembled pack is cached under everything its pages show: the same definition again
+    is the same file without laying it out; a changed narrative (no chart changed) reuses every
+    chart group but lays the pack out afresh, giving what an uncached build gives."""
+    root = warm.cache_dir or Path()
+    first = pipeline.build(DEMO, Limits(), options=warm).pdf
+    stored = entries(root)
+    assert len(stored) == 3  # two chart groups and the pack
+    assert pipeline.build(DEMO, Limits(), options=warm).pdf == first
+    assert entries(root) == stored  # nothing new: the pack came whole from the cache
+
+    def narrate(definition: dict[str, Any]) -> None:
+        definition["sections"][0]["narrative"] += " One sentence more."
+
+    changed = demo_with(narrate)
+    cached = pipeline.build(changed, Limits(), options=warm).pdf
+    assert cached != first
+    assert cached == pipeline.build(changed, Limits()).pdf  # no stale pack, no stale chart
+    assert len(entries(root)) == 4  # the groups were reused; one more pack
