@@ -124,16 +124,29 @@ def _percentile(values: list[float], share: float) -> float:
     return ordered[min(len(ordered) - 1, int(share * len(ordered)))] if ordered else 0.0
 
 
+def _archive_url(folder: Path, database_url: str | None) -> str:
+    """The archive the server uses: ``database_url`` (an empty PostgreSQL database, say), else a
+    new SQLite file in the run's folder."""
+    return database_url or f"sqlite:///{folder / 'plumbline.db'}"
+
+
 def run(
-    *, clients: int, seconds: float, workers: int, drain_s: float, max_queued: int = 100
+    *,
+    clients: int,
+    seconds: float,
+    workers: int,
+    drain_s: float,
+    max_queued: int = 100,
+    database_url: str | None = None,
 ) -> dict[str, Any]:
     with tempfile.TemporaryDirectory(prefix="plumbline-load-") as tmp:
         folder = Path(tmp)
-        sessions = connect(f"sqlite:///{folder / 'plumbline.db'}")
+        url = _archive_url(folder, database_url)
+        sessions = connect(url)
         _, secret = create(
             sessions, name="Load Tester", roles={Role.author}, families={"*"}, expires=None
         )
-        process, base = _start_server(folder, workers, max_queued)
+        process, base = _start_server(folder, workers, max_queued, {"PLUMBLINE_DATABASE_URL": url})
         try:
             found = asyncio.run(_load(base, secret, clients, seconds))
             accepted: list[str] = found["accepted"]
@@ -487,6 +500,11 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--workers", type=int, default=os.cpu_count() or 1)
     parser.add_argument("--drain", type=float, default=600.0, help="seconds to wait for the jobs")
     parser.add_argument("--out", type=Path, default=Path("out/bench"))
+    parser.add_argument(
+        "--database-url",
+        default=None,
+        help="an empty archive database for the server (e.g. PostgreSQL); default a new SQLite file",
+    )
     soaking = parser.add_argument_group("soak (--soak): a steady rate, with memory sampled")
     soaking.add_argument("--soak", action="store_true", help="run the soak instead of the burst")
     soaking.add_argument("--duration", type=float, default=600.0, help="seconds of steady load")
@@ -500,7 +518,11 @@ def main(argv: list[str] | None = None) -> int:
     if args.soak:
         return _soak_main(args)
     result = run(
-        clients=args.clients, seconds=args.seconds, workers=args.workers, drain_s=args.drain
+        clients=args.clients,
+        seconds=args.seconds,
+        workers=args.workers,
+        drain_s=args.drain,
+        database_url=args.database_url,
     )
     result["problems"] = consistent(result)
     args.out.mkdir(parents=True, exist_ok=True)
