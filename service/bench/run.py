@@ -249,8 +249,11 @@ def profile_child(side: str, pack: Path, where: Where, out: Path, top: int = 40)
     out.write_text("\n".join(lines) + "\n")
 
 
+_ROOT = f"{Path(__file__).resolve().parents[2]}/"  # this checkout: paths shown from here
+
+
 def _short(filename: str) -> str:
-    for marker in ("site-packages/", "/work/main/", "lib/python3"):
+    for marker in ("site-packages/", _ROOT, "lib/python3"):
         if marker in filename:
             return filename.split(marker, 1)[1]
     return filename
