@@ -124,6 +124,14 @@ def _percentile(values: list[float], share: float) -> float:
     return ordered[min(len(ordered) - 1, int(share * len(ordered)))] if ordered else 0.0
 
 
+def _tally(session: Any) -> tuple[Counter[str], list[str], int]:
+    """What the archive holds after a run: jobs by status, the packs jobs name, packs in all."""
+    statuses = Counter(session.scalars(select(JobRow.status)).all())
+    job_packs = [p for p in session.scalars(select(JobRow.pack_id)).all() if p]
+    packs = session.scalar(select(func.count()).select_from(PackRow)) or 0
+    return statuses, job_packs, packs
+
+
 def _archive_url(folder: Path, database_url: str | None) -> str:
     """The archive the server uses: ``database_url`` (an empty PostgreSQL database, say), else a
     new SQLite file in the run's folder."""
@@ -162,9 +170,7 @@ def run(
                         break
                     time.sleep(0.5)
                     session.expire_all()
-                statuses = Counter(session.scalars(select(JobRow.status)).all())
-                job_packs = [p for p in session.scalars(select(JobRow.pack_id)).all() if p]
-                packs = session.scalar(select(func.count()).select_from(PackRow)) or 0
+                statuses, job_packs, packs = _tally(session)
         finally:
             process.terminate()
             process.wait(timeout=60)
@@ -408,9 +414,7 @@ def soak(
                 )
             )
             with sessions() as session:
-                statuses = Counter(session.scalars(select(JobRow.status)).all())
-                job_packs = [p for p in session.scalars(select(JobRow.pack_id)).all() if p]
-                packs = session.scalar(select(func.count()).select_from(PackRow)) or 0
+                statuses, job_packs, packs = _tally(session)
         finally:
             process.terminate()
             process.wait(timeout=120)
