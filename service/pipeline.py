@@ -13,15 +13,15 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
-from service import formatting, glyphs, intents
+from service import intents
 from service.checks import engine, registry
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import Status, summary, summary_line
 from service.config import Limits
-from service.data import frames
+from service.data import frames, values
 from service.data.frames import Table
 from service.definition import validate
-from service.definition.model import ReportDefinition, Role, local_wall_time
+from service.definition.model import ReportDefinition, local_wall_time
 from service.errors import InvalidDefinition, Problem
 
 if TYPE_CHECKING:
@@ -38,16 +38,7 @@ class Intake:
 def intake(raw: bytes | str, limits: Limits) -> Intake:
     data = raw.encode() if isinstance(raw, str) else raw
     definition, problems = validate.parse(data, limits)
-    if not formatting.known_locale(definition.report.locale):
-        problems.append(
-            Problem(
-                "unknown_locale",
-                "report.locale",
-                f"'{definition.report.locale}' is not a known locale",
-                "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
-                definition.report.locale,
-            )
-        )
+    problems.extend(validate.locale_problems(definition))
     problems.extend(registry.waiver_problems(definition))
     declared = frozenset(
         d
@@ -73,104 +64,10 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
         if table is None or any(t == path or t.startswith(f"{path}.") for t in troubled):
             continue  # its dataset or its own fields are already reported
         problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
-    problems.extend(_empty_measures(definition, tables, problems))
-    problems.extend(_undrawable_text(definition, tables))
-    problems.extend(_table_limits(definition, tables, limits))
+    problems.extend(values.problems(definition, tables, problems, limits))
     if problems:
         raise InvalidDefinition(problems)
     return Intake(definition, tables, hashlib.sha256(data).hexdigest())
-
-
-def _texts(definition: ReportDefinition, tables: dict[str, Table]) -> list[tuple[str, str]]:
-    """Every piece of user text that reaches the page, with its path."""
-    r = definition.report
-    out = [("report.title", r.title), ("report.owner", r.owner), ("report.audience", r.audience)]
-    for s, section in enumerate(definition.sections):
-        out += [
-            (f"sections[{s}].heading", section.heading),
-            (f"sections[{s}].narrative", section.narrative),
-        ]
-        for t, spec in enumerate(section.tables):
-            out.append((f"sections[{s}].tables[{t}].title", spec.title))
-    for path, chart in definition.charts():
-        out += [
-            (f"{path}.{f}", getattr(chart, f))
-            for f in ("title", "subtitle", "note", "source", "description")
-        ]
-    for w, waiver in enumerate(definition.waivers):
-        out += [(f"waivers[{w}].reason", waiver.reason), (f"waivers[{w}].by", waiver.by)]
-    for d, dataset in enumerate(definition.datasets):
-        out.append((f"datasets[{d}].source", dataset.source))
-        for c, column in enumerate(dataset.columns):
-            out += [
-                (f"datasets[{d}].columns[{c}].name", column.name),
-                (f"datasets[{d}].columns[{c}].unit", column.unit),
-            ]
-            loaded = tables.get(dataset.name)
-            if loaded is not None and column.type.value == "text":
-                values = loaded.frame[column.name].dropna().unique()
-                out += [(f"datasets[{d}].rows[*].{column.name}", str(v)) for v in values]
-    return [(p, t) for p, t in out if t]
-
-
-def _undrawable_text(definition: ReportDefinition, tables: dict[str, Table]) -> list[Problem]:
-    hint = {
-        "glyph_missing": "use characters of Latin, Greek or Cyrillic scripts, or describe the "
-        "symbol in words",
-        "right_to_left_text": "give the text in a left-to-right script for now",
-    }
-    return [
-        Problem(code, path, message, hint[code], text)
-        for path, code, message, text in glyphs.problems_in(_texts(definition, tables))
-    ]
-
-
-def _empty_measures(
-    definition: ReportDefinition, tables: dict[str, Table], found: list[Problem]
-) -> list[Problem]:
-    """A measure with no value at all has nothing to show (zero would be a lie, gaps say nothing)."""
-    reported = {p.path for p in found if p.code == "no_values"}
-    out = []
-    for path, chart in definition.charts():
-        table = tables.get(chart.dataset)
-        if table is None:
-            continue
-        for field, name, role in chart.columns():
-            where = f"{path}.{field}"
-            if role is not Role.measure or where in reported or name not in table.frame:
-                continue
-            if table.frame[name].isna().all():
-                out.append(
-                    Problem(
-                        "no_values",
-                        where,
-                        f"'{name}' has no values at all in dataset '{table.name}'",
-                        "give it values, or drop the chart",
-                        name,
-                    )
-                )
-    return out
-
-
-def _table_limits(
-    definition: ReportDefinition, tables: dict[str, Table], limits: Limits
-) -> list[Problem]:
-    found = []
-    for s, section in enumerate(definition.sections):
-        for t, spec in enumerate(section.tables):
-            table = tables.get(spec.dataset)
-            if table is not None and len(table.frame) > limits.max_table_rows:
-                found.append(
-                    Problem.over_limit(
-                        f"sections[{s}].tables[{t}]",
-                        "table rows",
-                        len(table.frame),
-                        setting="max_table_rows",
-                        limit=limits.max_table_rows,
-                        advice="show a chart instead, or a shorter dataset",
-                    )
-                )
-    return found
 
 
 def check(taken: Intake) -> Checked:
