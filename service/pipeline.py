@@ -16,7 +16,7 @@ from service import checks as _checks  # noqa: F401  (registers every check)
 from service import intents
 from service.checks import engine, registry
 from service.checks.outcome import Checked, CheckedChart
-from service.checks.results import Status, summary, summary_line
+from service.checks.results import summary, summary_line
 from service.config import Limits
 from service.data import frames, values
 from service.data.frames import Table
@@ -87,16 +87,8 @@ def check(taken: Intake) -> Checked:
         )
         guarded = engine.guard(plan, ctx, definition.waivers)
         charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))
-    used = {(r.check, r.chart) for c in charts for r in c.results if r.status is Status.waived}
-    unused = [
-        f"{w.check} on {w.chart}" for w in definition.waivers if (w.check, w.chart) not in used
-    ]
     return Checked(
-        definition=definition,
-        tables=taken.tables,
-        fingerprint=taken.fingerprint,
-        charts=charts,
-        unused_waivers=unused,
+        definition=definition, tables=taken.tables, fingerprint=taken.fingerprint, charts=charts
     )
 
 

@@ -6,7 +6,7 @@ import contextlib
 import io
 import math
 from collections.abc import Mapping
-from dataclasses import asdict, replace
+from dataclasses import asdict
 
 import pandas as pd
 import pikepdf
@@ -14,12 +14,12 @@ import pikepdf
 from service import formatting
 from service.assemble import pack, place
 from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock, TableBlock
-from service.checks import layout, registry
+from service.checks import engine, registry
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import CheckResult, summary, summary_line
 from service.data import periods
 from service.data.frames import Table
-from service.definition.model import ColumnType, local_wall_time
+from service.definition.model import ColumnType
 from service.definition.model import Table as TableSpec
 from service.render import cache, groups
 from service.render.options import RenderOptions
@@ -38,18 +38,7 @@ def compose_checked(
 ) -> tuple[bytes, Checked]:
     """The pack, and the report with the checks measured while drawing added to it."""
     drawn = groups.draw_all([c.plan for c in checked.charts], options, progress)
-    reports = drawn.reports
-    definition = checked.definition
-    today = local_wall_time(definition.report.as_of).date()
-    charts = [
-        replace(c, results=[*c.results, layout.result(c.plan, report, definition.waivers, today)])
-        for c, report in zip(checked.charts, reports, strict=True)
-    ]
-    used = {(r.check, r.chart) for c in charts for r in c.results if r.status.value == "waived"}
-    unused = [
-        f"{w.check} on {w.chart}" for w in definition.waivers if (w.check, w.chart) not in used
-    ]
-    checked = replace(checked, charts=charts, unused_waivers=unused)
+    checked = engine.finish(checked, drawn.reports)
     sizes: dict[str, tuple[float, float]] = {}
     with contextlib.ExitStack() as stack:
         files = [stack.enter_context(pikepdf.open(io.BytesIO(f))) for f in drawn.files]

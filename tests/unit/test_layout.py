@@ -12,7 +12,7 @@ from factories import (
     run_checks,
 )
 
-from service.checks import layout as layout_check
+from service.checks import engine
 from service.checks.results import Status
 from service.definition.model import Waiver
 from service.intents.plan import ChartPlan
@@ -43,7 +43,7 @@ def test_colliding_time_labels_are_thinned_and_recorded() -> None:
     report = layout.mend(charts.figure_for(plan.model_copy(update={"periods": long})))
     assert report.overlaps_before > 0
     assert report.actions == ["showed every other label on the horizontal axis"]
-    result = layout_check.result(plan, report, [], TODAY)
+    result = engine.finish_chart(plan, report, [], TODAY)
     assert result.status is Status.corrected
     assert result.measured_text == f"{report.overlaps_before} overlaps, 0 cut off"
     assert result.corrected_to == "0 overlaps, 0 cut off"
@@ -56,14 +56,14 @@ def test_text_cut_off_at_the_edge_fails_and_can_be_waived() -> None:
     figure.text(0.98, 0.5, "a label placed past the edge", parse_math=False)
     report = layout.mend(figure)
     assert report.clipped > 0
-    assert layout_check.result(plan, report, [], TODAY).status is Status.failed
+    assert engine.finish_chart(plan, report, [], TODAY).status is Status.failed
     waiver = Waiver(
         check="label-layout",
         chart=plan.chart_id,
         by="A. Reviewer",
         reason="The label is the statutory title of the measure and must appear in full.",
     )
-    waived = layout_check.result(plan, report, [waiver], TODAY)
+    waived = engine.finish_chart(plan, report, [waiver], TODAY)
     assert waived.status is Status.waived
     assert waived.waiver is not None
     assert waived.waiver.by == "A. Reviewer"
@@ -88,7 +88,7 @@ def test_an_expired_waiver_does_not_hide_a_layout_failure() -> None:
         reason="Accepted for the September pack only, while the feed was renamed.",
         expires=date(2026, 10, 31),
     )
-    result = layout_check.result(plan, report, [waiver], TODAY)
+    result = engine.finish_chart(plan, report, [waiver], TODAY)
     assert result.status is Status.failed
     assert "expired on 2026-10-31" in result.explanation
 
