@@ -1,15 +1,16 @@
-"""The pipeline: definition → data → encoders → checks → render → assemble.
+"""The pipeline: definition → data → encoders → checks → render → assemble, run in one place.
 
 ``intake`` reads and validates (every problem at once), ``check`` plans and guards every chart
-without drawing, ``render`` draws and assembles the pack. ``build`` runs all three and is the unit of
-work handed to a worker process, so it takes and returns plain, picklable values.
+without drawing, ``render`` draws, finishes the checks that need the drawing, lays out the pack and
+caches it. ``build`` runs all three and is the unit of work handed to a worker process, so it takes
+and returns plain, picklable values. No stage calls the next: the order lives here.
 """
 
 from __future__ import annotations
 
 import hashlib
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import asdict, dataclass
 from typing import TYPE_CHECKING, Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
@@ -120,22 +121,40 @@ def render(
 ) -> tuple[bytes, Checked]:
     """The pack's PDF, and the report with the checks measured while drawing (label layout).
 
+    The sequence after the checks, in this order and only here: draw every chart (the renderer
+    hands back its bytes and what it measured), finish the checks that need the drawing, build
+    the pack's content, lay it out around the drawn pages, and keep the finished pack in the cache
+    (named by its content and the drawn charts' bytes, so an unchanged pack is not laid out again).
+
     ``options`` say how many processes draw and where drawn charts are cached; the bytes are the
     same whatever they say. The default draws serially in this process, with no cache.
     """
-    from service.assemble import compose  # the drawing stack loads only when drawing
+    from service.assemble import compose  # the drawing and layout stacks load only when drawing
+    from service.render import cache, groups
+    from service.render.options import RenderOptions
 
-    total = len(checked.charts)
+    options = options or RenderOptions()
 
-    def drawn(done: int, of: int) -> None:
+    def drawn_so_far(done: int, of: int) -> None:
         if progress is not None:
             progress("drawing" if done < of else "assembling", done, of)
 
     if progress is not None:
-        progress("drawing", 0, total)
-    return compose.compose_checked(
-        checked, status_line=status_line, options=options, progress=drawn
-    )
+        progress("drawing", 0, len(checked.charts))
+    drawn = groups.draw_all([c.plan for c in checked.charts], options, drawn_so_far)
+    checked = engine.finish(checked, drawn.reports)
+    placement = {c.plan.chart_id: at for c, at in zip(checked.charts, drawn.pages, strict=True)}
+    sizes = compose.sizes(drawn.files, placement)
+    content = compose.content_for(checked, sizes, status_line=status_line)
+    store = cache.ChartCache.of(options)
+    if store is None:
+        return compose.lay_out(content, drawn.files, placement), checked
+    key = cache.pack_key(asdict(content), drawn.files)
+    if (hit := store.get(key)) is not None:
+        return hit[0], checked  # the same content and charts: the same file
+    pdf = compose.lay_out(content, drawn.files, placement)
+    store.put(key, pdf, [])
+    return pdf, checked
 
 
 def build(
