@@ -9,6 +9,7 @@ from factories import (
     make_definition,
     make_monthly,
     make_trend_chart,
+    make_waiver,
     run_checks,
 )
 
@@ -17,6 +18,7 @@ from service.checks.results import Status
 from service.definition.model import Waiver
 from service.intents.plan import ChartPlan
 from service.render import charts, layout
+from service.render.measured import LayoutReport
 
 MONTHS = [f"2026-{m:02d}-01" for m in range(1, 11)]
 TODAY = date(2026, 11, 9)
@@ -113,3 +115,25 @@ def test_a_pie_draws_no_axis_labels_to_collide() -> None:
     report = layout.mend(charts.figure_for(plan))
     assert report.clean
     assert not report.actions
+
+
+def test_finishing_adds_label_layout_last_and_uses_its_waiver_once_drawn() -> None:
+    """Before drawing, a label-layout waiver waives nothing; once the drawn chart's labels are
+    cut off, the engine's waiver lookup finds it, and it is no longer listed as unused."""
+    values: list[float | None] = [float(40 + i) for i in range(len(MONTHS))]
+    definition = make_definition(
+        datasets=[make_monthly(MONTHS, values)],
+        charts=[make_trend_chart()],
+        waivers=[make_waiver("label-layout", "boardings-trend")],
+    )
+    checked = run_checks(definition)
+    assert checked.unused_waivers == ["label-layout on boardings-trend"]
+    cut = LayoutReport(clipped_before=1, clipped=1)
+    finished = engine.finish(checked, [cut])
+    last = finished.charts[0].results[-1]
+    assert (last.check, last.status) == ("label-layout", Status.waived)
+    assert finished.charts[0].results[:-1] == checked.charts[0].results
+    assert finished.unused_waivers == []
+    clean = engine.finish(checked, [LayoutReport()])
+    assert clean.charts[0].results[-1].status is Status.passed
+    assert clean.unused_waivers == ["label-layout on boardings-trend"]
