@@ -510,6 +510,8 @@ def _certificate_problem(
     """What is wrong with one carried certificate (asn1crypto's and cryptography's reading)."""
     if cert["signature_algorithm"].dump() != cert["tbs_certificate"]["signature"].dump():
         return "names a signature algorithm that differs from the one it signed"
+    if cert["signature_value"].contents[:1] != b"\x00":
+        return "has a signature value that is not a whole number of octets"
     issuers = [c for c in pool if c.subject == read.issuer]
     if not issuers:
         return (

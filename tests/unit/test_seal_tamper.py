@@ -22,6 +22,7 @@ import json
 import random
 from collections.abc import Iterator
 from dataclasses import dataclass
+from pathlib import Path
 
 import pytest
 from asn1crypto import cms
@@ -33,6 +34,7 @@ from service import pipeline, seal
 from service.config import Limits
 from service.seal import keys
 from service.seal import verify as verifying
+from service.seal.sign import sign
 from service.seal.verify import VerifyReport, verify
 
 SEED = 12_08
@@ -63,13 +65,22 @@ def key(tmp_path_factory: pytest.TempPathFactory) -> keys.SigningKey:
 
 
 @pytest.fixture(scope="module")
-def signed(key: keys.SigningKey) -> bytes:
+def sealed(key: keys.SigningKey) -> seal.Sealed:
     definition = json.dumps(make_definition()).encode()
-    return seal.seal(pipeline.build(definition, Limits()).pdf, definition, key).signed
+    return seal.seal(pipeline.build(definition, Limits()).pdf, definition, key)
+
+
+@pytest.fixture(scope="module")
+def signed(sealed: seal.Sealed) -> bytes:
+    return sealed.signed
 
 
 @pytest.fixture(scope="module")
 def gap(signed: bytes) -> Gap:
+    return _gap(signed)
+
+
+def _gap(signed: bytes) -> Gap:
     (embedded,) = PdfFileReader(io.BytesIO(signed), strict=False).embedded_signatures
     byte_range = [int(n) for n in embedded.byte_range]
     info = cms.ContentInfo.load(embedded.pkcs7_content, strict=False)
@@ -180,19 +191,19 @@ def test_300_random_byte_flips_anywhere_fail_verification(
 
 
 def _certificate_signature(signed: bytes, gap: Gap) -> int:
-    """The file offset of a hex digit in the middle of the embedded certificate's signature."""
+    """The file offset of the first hex digit of the embedded certificate's signature value."""
     der = bytes.fromhex(signed[gap.start : gap.start + gap.der_digits].decode())
     cert = cms.ContentInfo.load(der)["content"]["certificates"][0].chosen
     value = cert["signature_value"].contents[1:]  # past the count of unused bits
     assert der.count(value) == 2  # the certificate is carried twice, as pyHanko writes it
-    return gap.start + 2 * (der.find(value) + len(value) // 2)
+    return gap.start + 2 * der.find(value)
 
 
 @pytest.mark.parametrize("roots", ["signer's certificate", "no trust root"])
 def test_a_changed_certificate_signature_fails_even_without_a_trust_root(
     signed: bytes, key: keys.SigningKey, gap: Gap, roots: str
 ) -> None:
-    at = _certificate_signature(signed, gap)
+    at = _certificate_signature(signed, gap) + 256  # the middle of an RSA-2048 signature
     tampered = _replace(signed, at, HEX[(HEX.index(signed[at]) + 1) % 16])
     report = verify(tampered, trust_roots=[key.cert_pem] if roots != "no trust root" else [])
     assert "embedded certificates" in _failed(report)
@@ -200,6 +211,25 @@ def test_a_changed_certificate_signature_fails_even_without_a_trust_root(
     assert "certificate 1 of 2" in detail
     assert "is not signed by its issuer" in detail
     assert report.step("signature encoding").ok  # the DER is still canonical
+
+
+def test_a_certificate_signature_with_unused_bits_fails(
+    sealed: seal.Sealed, tmp_path: Path
+) -> None:
+    """The count of unused bits before the certificate's signature value, 00, becomes 01. When
+    the bit it drops is zero the DER stays canonical and the signature still verifies, so keys are
+    made until the certificate's signature ends in a zero bit (about two tries). Measured before:
+    the change passed ``verify``."""
+    for attempt in range(64):
+        key = keys.development(tmp_path / str(attempt))
+        if not key.certificate.signature[-1] & 1:
+            break
+    signed = sign(sealed.unsigned, key)
+    at = _certificate_signature(signed, _gap(signed)) - 1  # the count's second hex digit
+    report = verify(_replace(signed, at, ord("1")), trust_roots=[key.cert_pem])
+    assert "embedded certificates" in _failed(report), report.as_dict()
+    assert "not a whole number of octets" in report.step("embedded certificates").detail
+    assert report.step("signature encoding").ok
 
 
 def _first_of(signed: bytes, gap: Gap, pattern: bytes) -> int:
