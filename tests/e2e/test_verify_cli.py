@@ -74,6 +74,8 @@ def test_verify_reports_every_step_passed(walked: tuple[Path, Path, str]) -> Non
         "signer trusted",
         "signed by",
         "signature covers the whole file",
+        "signature encoding",
+        "embedded certificates",
         "file SHA-256",
         "attachments",
         "re-render matches",

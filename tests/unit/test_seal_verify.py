@@ -25,6 +25,8 @@ STEPS = [
     "signer trusted",
     "signed by",
     "signature covers the whole file",
+    "signature encoding",
+    "embedded certificates",
     "file SHA-256",
     "attachments",
     "re-render matches",
