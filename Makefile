@@ -24,8 +24,8 @@ demo: $(VENV)/.installed
 	$(BIN)/plumbline walkthrough $(DEMO) -o out/bus-cooperative-monthly-sealed.pdf
 
 lint: $(VENV)/.installed-test
-	$(BIN)/ruff check service tests
-	$(BIN)/ruff format --check service tests
+	$(BIN)/ruff check service tests bench
+	$(BIN)/ruff format --check service tests bench
 	$(BIN)/mypy
 
 unit: $(VENV)/.installed-test
@@ -40,13 +40,13 @@ schema: $(VENV)/.installed
 	$(BIN)/plumbline schema
 
 bench: $(VENV)/.installed
-	$(BIN)/python -m service.bench --out out/bench
+	$(BIN)/python -m bench --out out/bench
 
 load: $(VENV)/.installed
-	$(BIN)/python -m service.bench.load --clients 50 --seconds 60 --out out/bench
+	$(BIN)/python -m bench.load --clients 50 --seconds 60 --out out/bench
 
 soak: $(VENV)/.installed
-	$(BIN)/python -m service.bench.load --soak --duration 600 --rate 2 --out out/bench
+	$(BIN)/python -m bench.load --soak --duration 600 --rate 2 --out out/bench
 
 docs: $(VENV)/.installed
 	@mkdir -p docs
