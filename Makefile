@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test lint unit serve schema docs bench load soak clean
+.PHONY: demo test quick lint unit serve schema docs bench load soak clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -32,6 +32,10 @@ unit: $(VENV)/.installed-test
 	$(BIN)/python -m pytest
 
 test: lint unit
+
+# the tests not marked slow (no fuzzing, faults, browser, queue, benchmark or server-per-test runs)
+quick: $(VENV)/.installed-test
+	$(BIN)/python -m pytest -m "not slow"
 
 serve: $(VENV)/.installed
 	$(BIN)/plumbline serve
