@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test lint unit serve schema docs bench load soak clean
+.PHONY: demo test quick lint unit serve schema docs bench load soak clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -24,14 +24,18 @@ demo: $(VENV)/.installed
 	$(BIN)/plumbline walkthrough $(DEMO) -o out/bus-cooperative-monthly-sealed.pdf
 
 lint: $(VENV)/.installed-test
-	$(BIN)/ruff check service tests
-	$(BIN)/ruff format --check service tests
+	$(BIN)/ruff check service tests bench
+	$(BIN)/ruff format --check service tests bench
 	$(BIN)/mypy
 
 unit: $(VENV)/.installed-test
 	$(BIN)/python -m pytest
 
 test: lint unit
+
+# the tests not marked slow (no fuzzing, faults, browser, queue, benchmark or server-per-test runs)
+quick: $(VENV)/.installed-test
+	$(BIN)/python -m pytest -m "not slow"
 
 serve: $(VENV)/.installed
 	$(BIN)/plumbline serve
@@ -40,13 +44,13 @@ schema: $(VENV)/.installed
 	$(BIN)/plumbline schema
 
 bench: $(VENV)/.installed
-	$(BIN)/python -m service.bench --out out/bench
+	$(BIN)/python -m bench --out out/bench
 
 load: $(VENV)/.installed
-	$(BIN)/python -m service.bench.load --clients 50 --seconds 60 --out out/bench
+	$(BIN)/python -m bench.load --clients 50 --seconds 60 --out out/bench
 
 soak: $(VENV)/.installed
-	$(BIN)/python -m service.bench.load --soak --duration 600 --rate 2 --out out/bench
+	$(BIN)/python -m bench.load --soak --duration 600 --rate 2 --out out/bench
 
 docs: $(VENV)/.installed
 	@mkdir -p docs

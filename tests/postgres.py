@@ -17,14 +17,15 @@ import glob
 import os
 import pwd
 import shutil
-import socket
 import subprocess
 import tempfile
 import uuid
 from collections.abc import Iterator
 from dataclasses import dataclass
 from pathlib import Path
+from typing import NoReturn
 
+import harness
 import pytest
 from sqlalchemy import create_engine, text
 
@@ -49,20 +50,13 @@ def _binaries() -> Path | None:
     return Path(found[-1]).parent if found else None
 
 
-def _unavailable(reason: str) -> None:
-    if os.environ.get("PLUMBLINE_REQUIRE_POSTGRES") == "1":
-        pytest.fail(f"PLUMBLINE_REQUIRE_POSTGRES=1 but {reason}", pytrace=False)
-    pytest.skip(
-        f"!!! PostgreSQL archive tests NOT RUN: {reason}; "
-        "install Debian's postgresql package (apt-get install postgresql) to run them"
+def _unavailable(reason: str) -> NoReturn:
+    harness.missing(
+        "PLUMBLINE_REQUIRE_POSTGRES",
+        "PostgreSQL archive tests",
+        reason,
+        "install Debian's postgresql package (apt-get install postgresql) to run them",
     )
-
-
-def _free_port() -> int:
-    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as probe:
-        probe.bind(("127.0.0.1", 0))
-        port: int = probe.getsockname()[1]
-        return port
 
 
 @pytest.fixture(scope="session")
@@ -102,7 +96,7 @@ def postgres_server() -> Iterator[Server]:
         "--no-locale",
         "--no-sync",
     )
-    port = _free_port()
+    port = harness.free_port()
     options = " ".join(
         [
             "-c listen_addresses=127.0.0.1",

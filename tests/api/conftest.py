@@ -3,26 +3,16 @@
 from __future__ import annotations
 
 import os
-import socket
-import subprocess
-import sys
-import time
 from collections.abc import Iterator
 from pathlib import Path
 
+import harness
 import httpx
 import pytest
 from factories import Clients
 
 from service.archive.db import connect, engine_of
 from service.workflow.keys import Role, create
-
-
-def _free_port() -> int:
-    with socket.socket() as sock:
-        sock.bind(("127.0.0.1", 0))
-        return int(sock.getsockname()[1])
-
 
 PEOPLE: dict[str, tuple[str, set[Role], set[str]]] = {
     "author": ("Ann Author", {Role.author}, {"*"}),
@@ -46,36 +36,16 @@ def server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[dict[str, objec
         for who, (name, roles, families) in PEOPLE.items()
     }
     engine_of(sessions).dispose()
-    port = _free_port()
+    port = harness.free_port()
     env = {
         **os.environ,
         "PLUMBLINE_DATA_DIR": str(data_dir),
         "PLUMBLINE_WORKERS": "2",
         "PLUMBLINE_LIMITS__MAX_PAYLOAD_BYTES": "2000000",
     }
-    log = (data_dir / "server.log").open("wb")
-    process = subprocess.Popen(
-        [sys.executable, "-m", "service.cli", "serve", "--port", str(port)],
-        env=env,
-        stdout=log,
-        stderr=subprocess.STDOUT,
-    )
-    base = f"http://127.0.0.1:{port}"
-    deadline = time.monotonic() + 30
-    while True:
-        try:
-            if httpx.get(f"{base}/v1/health", timeout=1).status_code == 200:
-                break
-        except httpx.TransportError:
-            pass
-        if process.poll() is not None or time.monotonic() > deadline:
-            process.kill()
-            raise RuntimeError((data_dir / "server.log").read_text())
-        time.sleep(0.2)
-    yield {"base": base, "data_dir": Path(data_dir), "keys": secrets}
-    process.terminate()
-    process.wait(timeout=20)
-    log.close()
+    process = harness.serve(port, log=data_dir / "server.log", env=env, timeout=30)
+    yield {"base": f"http://127.0.0.1:{port}", "data_dir": Path(data_dir), "keys": secrets}
+    harness.stop(process, timeout=20)
 
 
 @pytest.fixture

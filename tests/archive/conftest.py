@@ -10,7 +10,8 @@ from pathlib import Path
 import pytest
 from postgres import Server, fresh_database, postgres_server
 
-BACKENDS = ["sqlite", "postgresql"]
+BACKENDS = ["sqlite", pytest.param("postgresql", marks=pytest.mark.slow)]
+"""The PostgreSQL cases are ``slow``: they need the throwaway server."""
 
 __all__ = ["BACKENDS", "Server", "postgres_server"]
 

@@ -3,7 +3,7 @@ duplicated or answered 5xx, and every accepted job ends with exactly one draft."
 
 from __future__ import annotations
 
-from service.bench import load
+from bench import load
 
 
 def test_a_short_load_run_loses_and_duplicates_nothing() -> None:

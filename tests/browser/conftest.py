@@ -10,15 +10,12 @@ from __future__ import annotations
 
 import os
 import shutil
-import socket
-import subprocess
 import sys
-import time
 from collections.abc import Iterator
 from pathlib import Path
-from typing import Any
+from typing import Any, NoReturn
 
-import httpx
+import harness
 import pytest
 
 CHROMIUM = Path("/usr/bin/chromium")
@@ -30,7 +27,6 @@ CHROMIUM_ARGS = [
     "--disable-sync",
     "--no-first-run",
 ]
-ROOT = Path(__file__).parents[2]
 # The application factory with the review pages installed (``install`` is a no-op when the
 # factory has done it already), served by uvicorn as ``plumbline serve`` serves it.
 SERVE = (
@@ -43,16 +39,13 @@ SERVE = (
 )
 
 
-def _missing(reason: str) -> None:
-    if os.environ.get("PLUMBLINE_REQUIRE_BROWSER") == "1":
-        pytest.fail(f"PLUMBLINE_REQUIRE_BROWSER=1 but {reason}")
-    pytest.skip(f"BROWSER TESTS NOT RUN: {reason} (apt-get install chromium chromium-driver)")
-
-
-def _free_port() -> int:
-    with socket.socket() as sock:
-        sock.bind(("127.0.0.1", 0))
-        return int(sock.getsockname()[1])
+def _missing(reason: str) -> NoReturn:
+    harness.missing(
+        "PLUMBLINE_REQUIRE_BROWSER",
+        "browser tests",
+        reason,
+        "install Debian's chromium package (apt-get install chromium) to run them",
+    )
 
 
 @pytest.fixture(scope="module")
@@ -74,33 +67,17 @@ def browser() -> Iterator[Any]:
 @pytest.fixture(scope="module")
 def server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[dict[str, Any]]:
     data_dir = Path(tmp_path_factory.mktemp("browser-data"))
-    port = _free_port()
+    port = harness.free_port()
     env = {**os.environ, "PLUMBLINE_DATA_DIR": str(data_dir), "PLUMBLINE_WORKERS": "1"}
-    log = (data_dir / "server.log").open("wb")
-    process = subprocess.Popen(
-        [sys.executable, "-c", SERVE, str(port)],
-        env=env,
-        cwd=ROOT,
-        stdout=log,
-        stderr=subprocess.STDOUT,
-    )
     base = f"http://127.0.0.1:{port}"
-    deadline = time.monotonic() + 60
-    while True:
-        try:
-            if httpx.get(f"{base}/v1/health", timeout=1).status_code == 200:
-                break
-        except httpx.TransportError:
-            pass
-        if process.poll() is not None or time.monotonic() > deadline:
-            process.kill()
-            process.wait(timeout=10)
-            log.close()
-            raise RuntimeError((data_dir / "server.log").read_text())
-        time.sleep(0.2)
+    process = harness.start_process(
+        [sys.executable, "-c", SERVE, str(port)],
+        ready=harness.answers(f"{base}/v1/health"),
+        log=data_dir / "server.log",
+        what="the review pages' server",
+        env=env,
+    )
     try:
         yield {"base": base, "data_dir": data_dir}
     finally:
-        process.terminate()
-        process.wait(timeout=30)
-        log.close()
+        harness.stop(process)

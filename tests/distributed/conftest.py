@@ -8,22 +8,20 @@ unless ``PLUMBLINE_REQUIRE_DISTRIBUTED=1`` (CI sets it), which turns that into a
 
 from __future__ import annotations
 
-import contextlib
 import logging
 import os
 import shutil
 import signal
-import socket
 import subprocess
 import sys
 import tempfile
-import time
 import uuid
 from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+import harness
 import pytest
 from postgres import fresh_database, postgres_server  # noqa: F401 - a fixture, used by name
 
@@ -32,7 +30,6 @@ from service.config import Settings
 from service.workflow import keys
 from service.workflow.keys import Principal, Role
 
-ROOT = Path(__file__).parents[2]
 BUCKET = "plumbline-packs"
 RENDER_BUDGET_S = 8.0
 VISIBILITY_TIMEOUT_S = 10.0
@@ -41,59 +38,17 @@ budget, as the service requires."""
 RESTORE_INTERVAL_S = 1.0
 
 
-def _free_port() -> int:
-    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as probe:
-        probe.bind(("127.0.0.1", 0))
-        port: int = probe.getsockname()[1]
-        return port
-
-
-def _unavailable(reason: str) -> None:
-    if os.environ.get("PLUMBLINE_REQUIRE_DISTRIBUTED") == "1":
-        pytest.fail(f"PLUMBLINE_REQUIRE_DISTRIBUTED=1 but {reason}", pytrace=False)
-    pytest.skip(
-        f"!!! distributed build tests NOT RUN: {reason}; install Debian's redis-server package "
-        "(apt-get install redis-server) to run them"
-    )
-
-
 @pytest.fixture(scope="session")
 def redis_url() -> Iterator[str]:
     """A redis-server of its own on a free loopback port, nothing kept on disk."""
-    binary = shutil.which("redis-server")
-    if binary is None:
-        _unavailable("there is no redis-server on PATH")
-    assert binary is not None
-    import redis
-
     folder = Path(tempfile.mkdtemp(prefix="plumbline-redis-"))
-    port = _free_port()
-    process = subprocess.Popen(
-        [
-            *(binary, "--port", str(port), "--bind", "127.0.0.1"),
-            *("--save", "", "--appendonly", "no"),
-            *("--dir", str(folder), "--logfile", str(folder / "redis.log")),
-        ],
-        stdout=subprocess.DEVNULL,
-        stderr=subprocess.STDOUT,
-    )
-    client = redis.Redis(host="127.0.0.1", port=port)
     try:
-        deadline = time.monotonic() + 20
-        while True:
-            try:
-                client.ping()
-                break
-            except redis.ConnectionError:
-                if process.poll() is not None or time.monotonic() > deadline:
-                    log = (folder / "redis.log").read_text(errors="replace")
-                    pytest.fail(f"redis-server did not start:\n{log}")
-                time.sleep(0.05)
-        yield f"redis://127.0.0.1:{port}/0"
+        process, port = harness.start_redis(folder, "distributed build tests")
+        try:
+            yield f"redis://127.0.0.1:{port}/0"
+        finally:
+            harness.stop(process, timeout=10)
     finally:
-        client.close()
-        process.terminate()
-        process.wait(timeout=10)
         shutil.rmtree(folder, ignore_errors=True)
 
 
@@ -110,7 +65,7 @@ def s3_endpoint() -> Iterator[str]:
     from moto.server import ThreadedMotoServer
 
     logging.getLogger("werkzeug").setLevel(logging.WARNING)  # one line per request otherwise
-    server = ThreadedMotoServer(ip_address="127.0.0.1", port=_free_port(), verbose=False)
+    server = ThreadedMotoServer(ip_address="127.0.0.1", port=harness.free_port(), verbose=False)
     server.start()
     host, port = server.get_host_and_port()
     try:
@@ -167,22 +122,15 @@ class Stack:
         command = [sys.executable, "-m", "celery", "-A", "service.distributed.app", "worker"]
         command += ["--pool=solo", "--loglevel=INFO", "-n", f"{name}@%h"]
         command += ["--without-gossip", "--without-mingle", "--without-heartbeat"]
-        with log.open("wb") as out:
-            process = subprocess.Popen(
-                command,
-                cwd=ROOT,
-                env=self.env,
-                stdout=out,
-                stderr=subprocess.STDOUT,
-                start_new_session=True,
-            )
+        process = harness.start_process(
+            command,
+            ready=lambda: b" ready." in log.read_bytes(),
+            log=log,
+            what=f"Celery worker {name}",
+            env=self.env,
+            start_new_session=True,
+        )
         self.workers.append(process)
-        deadline = time.monotonic() + 60
-        while b" ready." not in log.read_bytes():
-            if process.poll() is not None or time.monotonic() > deadline:
-                self.stop(process)
-                pytest.fail(f"worker {name} did not start:\n{log.read_text(errors='replace')}")
-            time.sleep(0.1)
         return process
 
     def kill(self, process: subprocess.Popen[bytes]) -> None:
@@ -191,16 +139,8 @@ class Stack:
         process.wait(timeout=10)
 
     def stop(self, process: subprocess.Popen[bytes]) -> None:
-        if process.poll() is None:
-            os.killpg(process.pid, signal.SIGTERM)
-            try:
-                process.wait(timeout=20)
-            except subprocess.TimeoutExpired:
-                os.killpg(process.pid, signal.SIGKILL)
-                process.wait(timeout=10)
-        # the render process it left, if any, goes with its group
-        with contextlib.suppress(ProcessLookupError):
-            os.killpg(process.pid, signal.SIGKILL)
+        """Stop the worker, and the render process it left, if any, with its group."""
+        harness.stop(process, timeout=20, group=True)
 
     def log_of(self, name: str) -> str:
         return (self.logs / f"{name}.log").read_text(errors="replace")

@@ -9,13 +9,12 @@ from __future__ import annotations
 
 import os
 import signal
-import socket
 import subprocess
-import sys
 import time
 from dataclasses import dataclass, field
 from pathlib import Path
 
+import harness
 import httpx
 
 from service.archive.db import connect, engine_of
@@ -42,12 +41,6 @@ def keys(url: str) -> dict[str, str]:
         engine_of(sessions).dispose()
 
 
-def _free_port() -> int:
-    with socket.socket() as sock:
-        sock.bind(("127.0.0.1", 0))
-        return int(sock.getsockname()[1])
-
-
 @dataclass
 class Server:
     data_dir: Path
@@ -58,7 +51,7 @@ class Server:
     starts: int = 0
 
     def start(self, timeout: float = 60) -> Server:
-        port = _free_port()
+        port = harness.free_port()
         self.starts += 1
         env = {
             **os.environ,
@@ -66,26 +59,10 @@ class Server:
             "PLUMBLINE_DATA_DIR": str(self.data_dir),
             **self.env,
         }
-        with (self.data_dir / f"server-{self.starts}.log").open("wb") as log:
-            self.process = subprocess.Popen(
-                [*self.prefix, sys.executable, "-m", "service.cli", "serve", "--port", str(port)],
-                cwd=ROOT,
-                env=env,
-                stdout=log,
-                stderr=subprocess.STDOUT,
-            )
+        log = self.data_dir / f"server-{self.starts}.log"
+        self.process = harness.serve(port, log=log, env=env, prefix=self.prefix, timeout=timeout)
         self.base = f"http://127.0.0.1:{port}"
-        deadline = time.monotonic() + timeout
-        while True:
-            try:
-                if httpx.get(f"{self.base}/v1/health", timeout=1).status_code == 200:
-                    return self
-            except httpx.TransportError:
-                pass
-            if self.process.poll() is not None or time.monotonic() > deadline:
-                self.process.kill()
-                raise RuntimeError(self.log())
-            time.sleep(0.2)
+        return self
 
     def log(self) -> str:
         return (self.data_dir / f"server-{self.starts}.log").read_text(errors="replace")
@@ -102,13 +79,8 @@ class Server:
         return self.process.wait(timeout=30)
 
     def stop(self) -> None:
-        if self.process is not None and self.process.poll() is None:
-            self.process.terminate()
-            try:
-                self.process.wait(timeout=30)
-            except subprocess.TimeoutExpired:
-                self.process.kill()
-                self.process.wait(timeout=30)
+        if self.process is not None:
+            harness.stop(self.process)
 
     def client(self, secret: str) -> httpx.Client:
         return httpx.Client(

@@ -20,7 +20,6 @@ from __future__ import annotations
 import errno
 import hashlib
 import json
-import os
 import shutil
 import subprocess
 from collections.abc import Iterator
@@ -28,6 +27,7 @@ from pathlib import Path
 from typing import Any
 
 import consistency
+import harness
 import httpx
 import pytest
 import serving
@@ -78,9 +78,7 @@ def _fill(path: Path) -> int:
 def server(tmp_path: Path) -> Iterator[tuple[serving.Server, dict[str, str], Path]]:
     why = _namespaces_work(tmp_path / "probe")
     if why is not None:
-        if os.environ.get("PLUMBLINE_REQUIRE_FAULTS") == "1":
-            pytest.fail(f"PLUMBLINE_REQUIRE_FAULTS=1 but {why}", pytrace=False)
-        pytest.skip(f"!!! the full-disk fault test is NOT RUN: {why}")
+        harness.missing("PLUMBLINE_REQUIRE_FAULTS", "the full-disk fault test", why)
     store = tmp_path / "files"
     store.mkdir()
     secrets = serving.keys(f"sqlite:///{tmp_path / 'plumbline.db'}")

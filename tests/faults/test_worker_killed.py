@@ -15,7 +15,7 @@ import httpx
 import pytest
 import serving
 
-from service.bench import generate
+from bench import generate
 
 DEMO = serving.ROOT / "sample_requests" / "bus-cooperative-monthly.json"
 

@@ -6,19 +6,13 @@ from __future__ import annotations
 
 import http.server
 import re
-import socket
 import subprocess
 import tempfile
 import threading
-import time
 from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
-
-import uvicorn
-from fastapi import FastAPI
 
 _SPACE = re.compile(r"\s+")
 
@@ -97,33 +91,3 @@ def listening() -> Iterator[Listener]:
     finally:
         server.shutdown()
         server.server_close()
-
-
-def _free_port() -> int:
-    with socket.socket() as sock:
-        sock.bind(("127.0.0.1", 0))
-        return int(sock.getsockname()[1])
-
-
-@contextmanager
-def serving_app(app: FastAPI, **tls: Any) -> Iterator[tuple[FastAPI, str]]:
-    """``app`` served by uvicorn on a loopback port in a thread of the test process (so a test can
-    reach its database); ``tls`` (``ssl_keyfile``, ``ssl_certfile``) serves it over HTTPS."""
-    port = _free_port()
-    config = uvicorn.Config(
-        app, host="127.0.0.1", port=port, log_level="warning", lifespan="on", **tls
-    )
-    server = uvicorn.Server(config)
-    thread = threading.Thread(target=server.run, name="hostile-server", daemon=True)
-    thread.start()
-    deadline = time.monotonic() + 30
-    while not server.started:
-        if not thread.is_alive() or time.monotonic() > deadline:
-            raise RuntimeError("the test server did not start")
-        time.sleep(0.05)
-    scheme = "https" if tls else "http"
-    try:
-        yield app, f"{scheme}://127.0.0.1:{port}"
-    finally:
-        server.should_exit = True
-        thread.join(timeout=60)

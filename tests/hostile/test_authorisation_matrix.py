@@ -34,7 +34,7 @@ import httpx
 import pytest
 from factories import make_compare_definition, make_report, make_waiver
 from fastapi.routing import APIRoute
-from hostile_kit import serving_app
+from harness import serving_app
 from starlette.routing import Mount, Route
 
 from service.api.app import create_app

@@ -3,15 +3,12 @@
 from __future__ import annotations
 
 import os
-import subprocess
-import sys
-import time
 from collections.abc import Iterator
 from pathlib import Path
 
-import httpx
+import harness
 import pytest
-from ops_server import ROOT, Server, Start, free_port
+from ops_server import Server, Start
 
 from service.archive.db import connect, engine_of
 from service.workflow.keys import Role, create
@@ -31,7 +28,7 @@ def start_server(tmp_path: Path) -> Iterator[Start]:
             sessions, name="Ann Author", roles={Role.author}, families={"*"}, expires=None
         )
         engine_of(sessions).dispose()
-        port = free_port()
+        port = harness.free_port()
         log = data_dir / "server.log"
         environment = {
             **os.environ,
@@ -40,27 +37,10 @@ def start_server(tmp_path: Path) -> Iterator[Start]:
             "PLUMBLINE_WORKERS": "1",
             **env,
         }
-        with log.open("wb") as out:
-            process = subprocess.Popen(
-                [sys.executable, "-m", "service.cli", "serve", "--port", str(port)],
-                env=environment,
-                cwd=ROOT,
-                stdout=out,
-                stderr=subprocess.STDOUT,
-            )
+        process = harness.serve(port, log=log, env=environment)
         server = Server(process, f"http://127.0.0.1:{port}", port, data_dir, log, secret)
         started.append(server)
-        deadline = time.monotonic() + 60
-        while True:
-            try:
-                if httpx.get(f"{server.base}/v1/health", timeout=1).status_code == 200:
-                    return server
-            except httpx.TransportError:
-                pass
-            if process.poll() is not None or time.monotonic() > deadline:
-                process.kill()
-                raise RuntimeError(log.read_text(errors="replace"))
-            time.sleep(0.2)
+        return server
 
     yield start
     for server in started:

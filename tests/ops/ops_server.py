@@ -4,7 +4,6 @@ file and environment, and its standard error kept in a file to read back."""
 from __future__ import annotations
 
 import signal
-import socket
 import subprocess
 import time
 from collections.abc import Callable
@@ -15,12 +14,6 @@ import httpx
 
 ROOT = Path(__file__).parents[2]
 DEMO = ROOT / "sample_requests" / "bus-cooperative-monthly.json"
-
-
-def free_port() -> int:
-    with socket.socket() as sock:
-        sock.bind(("127.0.0.1", 0))
-        return int(sock.getsockname()[1])
 
 
 @dataclass

@@ -4,13 +4,11 @@
 from __future__ import annotations
 
 import shutil
-import subprocess
-import time
 from pathlib import Path
 
+import harness
 import httpx
-import pytest
-from ops_server import Start, free_port
+from ops_server import Start
 
 
 def test_ready_when_everything_answers(start_server: Start) -> None:
@@ -51,16 +49,8 @@ def test_not_ready_when_the_store_cannot_be_written(start_server: Start) -> None
 
 
 def test_not_ready_when_the_queue_stops(start_server: Start, tmp_path: Path) -> None:
-    binary = shutil.which("redis-server")
-    if binary is None:
-        pytest.skip("!!! queue readiness NOT TESTED: there is no redis-server on PATH")
-    port = free_port()
-    redis = subprocess.Popen(
-        [binary, "--port", str(port), "--bind", "127.0.0.1", "--save", "", "--dir", str(tmp_path)],
-        stdout=subprocess.DEVNULL,
-    )
+    redis, port = harness.start_redis(tmp_path, "the queue readiness test")
     try:
-        time.sleep(0.5)
         server = start_server(PLUMBLINE_QUEUE_URL=f"redis://127.0.0.1:{port}/0")
         answer = httpx.get(f"{server.base}/v1/ready", timeout=30)
         assert answer.status_code == 200, answer.text

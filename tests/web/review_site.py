@@ -7,17 +7,14 @@ from __future__ import annotations
 
 import json
 import re
-import socket
-import threading
-import time
 from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass
 from html.parser import HTMLParser
 from typing import Any
 
+import harness
 import httpx
-import uvicorn
 from factories import make_compare_definition, make_report, make_waiver
 from fastapi import FastAPI
 
@@ -127,33 +124,13 @@ PEOPLE: dict[str, tuple[str, set[Role], set[str]]] = {
 }
 
 
-def _free_port() -> int:
-    with socket.socket() as sock:
-        sock.bind(("127.0.0.1", 0))
-        return int(sock.getsockname()[1])
-
-
 @contextmanager
 def serving(settings: Settings) -> Iterator[tuple[FastAPI, str]]:
     """The app with the review pages, served by uvicorn in a thread; yields it and its base URL."""
     app = create_app(settings)
     web.install(app)  # a no-op once the application factory installs the pages itself
-    port = _free_port()
-    server = uvicorn.Server(
-        uvicorn.Config(app, host="127.0.0.1", port=port, log_level="warning", lifespan="on")
-    )
-    thread = threading.Thread(target=server.run, name="review-pages-server", daemon=True)
-    thread.start()
-    deadline = time.monotonic() + 30
-    while not server.started:
-        if not thread.is_alive() or time.monotonic() > deadline:
-            raise RuntimeError("the test server did not start")
-        time.sleep(0.05)
-    try:
-        yield app, f"http://127.0.0.1:{port}"
-    finally:
-        server.should_exit = True
-        thread.join(timeout=60)
+    with harness.serving_app(app) as served:
+        yield served
 
 
 class _Fields(HTMLParser):

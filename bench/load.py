@@ -1,4 +1,4 @@
-"""``python -m service.bench.load``: a bounded load test of background builds on loopback.
+"""``python -m bench.load``: a bounded load test of background builds on loopback.
 
 A real server (``plumbline serve`` in its own process, its own data folder) takes ``--clients``
 concurrent clients posting small definitions with ``?wait=false`` for ``--seconds``. A ``429`` (the
@@ -36,8 +36,8 @@ from typing import Any
 import httpx
 from sqlalchemy import func, select
 
+from bench import generate
 from service.archive.db import JobRow, PackRow, connect, engine_of
-from service.bench import generate
 from service.workflow.keys import Role, create
 
 
@@ -498,7 +498,7 @@ def _soak_main(args: argparse.Namespace) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(prog="python -m service.bench.load", description=__doc__)
+    parser = argparse.ArgumentParser(prog="python -m bench.load", description=__doc__)
     parser.add_argument("--clients", type=int, default=50)
     parser.add_argument("--seconds", type=float, default=60.0)
     parser.add_argument("--workers", type=int, default=os.cpu_count() or 1)

@@ -1,6 +1,6 @@
 """Run the benchmark: Plumbline's full pipeline against the plain-library floor, side by side.
 
-Every measurement is one fresh child process (``python -m service.bench.run --child …``), so its
+Every measurement is one fresh child process (``python -m bench.run --child …``), so its
 peak RSS is its own and "cold" includes starting Python and importing the stack. The parent reads
 the child's wall time and its CPU time (user + sys, its own and that of any processes it waited
 for, e.g. pool workers) from ``os.wait4``; the child reports its own peak RSS (``VmHWM``), the
@@ -33,7 +33,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from service.bench import generate
+from bench import generate
 
 # ---------------------------------------------------------------------------------------------
 # Sides: what one child process does. Each takes the definition's bytes and the limits' name and
@@ -72,7 +72,7 @@ def _plumbline(raw: bytes, where: Where, **options: Any) -> bytes:
 
 
 def side_floor(raw: bytes, where: Where) -> Timed:
-    from service.bench import floor
+    from bench import floor
 
     return floor.build(raw).pdf, None
 
@@ -249,7 +249,7 @@ def profile_child(side: str, pack: Path, where: Where, out: Path, top: int = 40)
     out.write_text("\n".join(lines) + "\n")
 
 
-_ROOT = f"{Path(__file__).resolve().parents[2]}/"  # this checkout: paths shown from here
+_ROOT = f"{Path(__file__).resolve().parents[1]}/"  # this checkout: paths shown from here
 
 
 def _short(filename: str) -> str:
@@ -288,7 +288,7 @@ def measure(
     """One fresh child process running ``side`` on ``pack``."""
     with tempfile.TemporaryDirectory() as folder:
         result = Path(folder) / "result.json"
-        command = [sys.executable, "-m", "service.bench.run", "--child", side, str(pack)]
+        command = [sys.executable, "-m", "bench.run", "--child", side, str(pack)]
         command += ["--limits", limits, "--result", str(result)]
         if pdf_out is not None:
             command += ["--pdf", str(pdf_out)]
@@ -478,7 +478,7 @@ def _as_child(parser: argparse.ArgumentParser, args: argparse.Namespace) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(prog="python -m service.bench", description=__doc__)
+    parser = argparse.ArgumentParser(prog="python -m bench", description=__doc__)
     parser.add_argument("--out", type=Path, default=Path("out/bench"))
     parser.add_argument("--repeat", type=int, default=3)
     parser.add_argument("--seed", type=int, default=2026)
@@ -533,7 +533,7 @@ def main(argv: list[str] | None = None) -> int:
         for which, name in PROFILES:
             sys.stderr.write(f"bench: profiling {which}\n")
             limits = "default" if which == "sixty" else "big"
-            command = [sys.executable, "-m", "service.bench.run", "--child", "plumbline"]
+            command = [sys.executable, "-m", "bench.run", "--child", "plumbline"]
             command += [str(packs[which]), "--limits", limits, "--profile-to", str(out / name)]
             subprocess.run(command, check=True)
     sys.stdout.write(table(results, skipped))
