@@ -17,7 +17,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
     │
     │   defined beside what raises them:
-    ├── api.pool.RenderMemory (422, render_memory)                   past PLUMBLINE_WORKER_MEMORY_MB
+    ├── runner.pool.RenderMemory (422, render_memory)                past PLUMBLINE_WORKER_MEMORY_MB
     ├── archive.db.DatabaseUnavailable (503, database_unavailable)   connection lost, or busy
     ├── archive.files.StorageFull (507, insufficient_storage)        the store's disk is full
     └── archive.objects.StoreUnavailable (503, store_unavailable)    the object store cannot be reached

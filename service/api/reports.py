@@ -15,12 +15,14 @@ from fastapi import APIRouter, Depends, Path, Query, Request, Response
 from pydantic import BaseModel, ConfigDict, Field
 from starlette.concurrency import run_in_threadpool
 
-from service.api import deps, docs, idempotency, jobs
-from service.api.deps import PackDep, PackId, PrincipalDep, Services, ServicesDep
+from service.api import deps, docs, idempotency
+from service.api.deps import PackDep, PackId, PrincipalDep, ServicesDep
 from service.archive import audit
 from service.archive.db import PackRow, SealRow, WaiverRow
-from service.errors import InvalidRequest, NotFound
-from service.workflow import compare, drafts, lifecycle, sealing
+from service.errors import NotFound
+from service.runner import jobs
+from service.runner.services import Services
+from service.workflow import compare, drafts, lifecycle
 from service.workflow.keys import Principal
 
 router = APIRouter(
@@ -197,15 +199,7 @@ async def create_report(
         return await idempotency.once(request, services.sessions, principal, raw, queue)
 
     async def run() -> idempotency.Answer:
-        built = await services.workers.build(raw, services.settings.limits)
-        row = await run_in_threadpool(
-            drafts.create,
-            sessions=services.sessions,
-            store=services.store,
-            built=built,
-            definition=raw,
-            author=principal,
-        )
+        row = await services.build_draft(principal, raw)
         view = await run_in_threadpool(pack_view, services, row, with_results=True)
         return 201, view, f"/v1/reports/{row.id}"
 
@@ -426,26 +420,9 @@ async def sign_off(
     archived in the same step."""
 
     async def action() -> None:
-        await sign_off_and_seal(services, principal, pack_id, body.content_sha256)
+        await services.sign_off_and_seal(principal, pack_id, body.content_sha256)
 
     return await _act(request, services, principal, pack_id, action)
-
-
-async def sign_off_and_seal(
-    services: Services, principal: Principal, pack_id: str, content_sha256: str
-) -> SealRow:
-    """Sign off and seal a pack, sealing in a worker process (used by the API and the web pages)."""
-    if not content_sha256:
-        raise InvalidRequest("name the SHA-256 of the draft PDF that was reviewed")
-    return await run_in_threadpool(
-        sealing.sign_off_and_seal,
-        sessions=services.sessions,
-        store=services.store,
-        principal=principal,
-        pack_id=pack_id,
-        content_sha256=content_sha256,
-        sealer=services.workers.sealer(services.settings),
-    )
 
 
 jobs_router = APIRouter(

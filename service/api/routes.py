@@ -13,7 +13,6 @@ from service.api import deps, docs
 from service.api.deps import PrincipalDep, ServicesDep
 from service.checks import registry
 from service.definition.schema import definition_schema
-from service.workflow import sealing
 
 router = APIRouter(prefix="/v1", dependencies=[Depends(deps.single_query_values)])
 
@@ -76,16 +75,5 @@ async def verify_pack(
     gives the same bytes; the file is the one this archive sealed.
 
     Trusted: the organisation's certificate when configured, else the development certificate."""
-    from service.seal import keys
-
-    pdf = await request.body()
-    settings = services.settings
-    roots: list[bytes] = []
-    if settings.seal_cert is not None:
-        roots.append(settings.seal_cert.read_bytes())
-    development = keys.development_certificate(settings.data_dir / "keys")
-    if development is not None:
-        roots.append(development)
-    report = await services.workers.verify(pdf, roots, settings.limits)
-    await run_in_threadpool(sealing.compare_with_archive, report, services.sessions)
+    report = await services.verify(await request.body())
     return report.as_dict()

@@ -18,7 +18,6 @@ from fastapi import APIRouter, Depends, Request
 from starlette.concurrency import run_in_threadpool
 from starlette.responses import Response
 
-from service.api import reports
 from service.errors import InvalidRequest, NotFound, PlumblineError, Unauthorized
 from service.web import views
 from service.web.pages import FLASH, Stop, html, redirect
@@ -235,7 +234,7 @@ async def sign_off(request: Request, pack_id: str, current: VisitDep) -> Respons
                 "the form must name the SHA-256 of the draft PDF you reviewed (64 hex digits); "
                 "reload the page and sign off from there"
             )
-        await reports.sign_off_and_seal(current.services, principal, pack_id, digest)
+        await current.services.sign_off_and_seal(principal, pack_id, digest)
 
     return await _act(request, current, pack_id, action, "signed_off")
 

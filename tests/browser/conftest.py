@@ -36,7 +36,7 @@ ROOT = Path(__file__).parents[2]
 SERVE = (
     "import sys, uvicorn\n"
     "from service import web\n"
-    "from service.api.app import create_app\n"
+    "from service.app import create_app\n"
     "app = create_app()\n"
     "web.install(app)\n"
     "uvicorn.run(app, host='127.0.0.1', port=int(sys.argv[1]), log_level='info')\n"

@@ -12,8 +12,8 @@ from typing import Any
 
 import pytest
 
-from service.api.pool import Pool, RenderMemory
 from service.errors import InvalidRequest, RenderFailed, RenderTimeout
+from service.runner.pool import Pool, RenderMemory
 
 
 def counts_to(n: int, *, progress: Callable[[str, int, int], None]) -> int:
