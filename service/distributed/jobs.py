@@ -11,6 +11,7 @@ message for a job that is still on its way costs only a look at its row.
 
 from __future__ import annotations
 
+import logging
 from datetime import timedelta
 from typing import Any
 
@@ -18,6 +19,7 @@ from sqlalchemy import select, update
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
+from service import logs
 from service.archive.db import JobRow, now, utc
 from service.archive.objects import BlobStore
 from service.config import Settings
@@ -26,6 +28,8 @@ from service.distributed.queue import TASK, make_app
 from service.errors import PlumblineError
 from service.runner.jobs import UNFINISHED, JobState, load, queued
 from service.workflow.keys import Principal, Role
+
+log = logging.getLogger("plumbline.jobs")
 
 
 class QueueUnavailable(PlumblineError):
@@ -85,10 +89,12 @@ class CeleryJobs:
         try:
             self.app.send_task(TASK, args=[job_id], retry=True)
         except Exception as exc:  # kombu's connection errors are translated here
+            incident = logs.incident(log, "the build queue did not take a job", exc=exc)
             raise QueueUnavailable(
                 f"the build queue at {_safe(self.options.url)} did not take the job "
-                f"({type(exc).__name__}: {exc}); check that Redis is running and "
-                "PLUMBLINE_QUEUE_URL, then post the definition again"
+                f"(incident {incident}); check that Redis is running and "
+                "PLUMBLINE_QUEUE_URL, then post the definition again",
+                incident=incident,
             ) from exc
 
     def get(self, principal: Principal, job_id: str) -> JobRow:

@@ -30,7 +30,6 @@ from service.archive.objects import BlobStore, open_store
 from service.config import Limits, Settings
 from service.distributed.fanout import SharedGroups, draw_offered
 from service.distributed.render import warm
-from service.errors import PlumblineError
 from service.pipeline import Built
 from service.render.options import RenderOptions, from_settings
 from service.runner.jobs import UNFINISHED, JobState, failure
@@ -115,9 +114,7 @@ def build(ctx: Context, job_id: str) -> str:
             log.info("job %s was finished by another delivery; this draft is dropped", job_id)
             return "finished-already"
         log.info("job %s: done", job_id)
-    except Exception as exc:  # a job must end, and say how
-        if not isinstance(exc, PlumblineError):
-            log.exception("job %s failed inside Plumbline", job_id)
+    except Exception as exc:  # noqa: BLE001 - a job must end, and say how (failure logs it)
         _set(ctx, job_id, status=JobState.FAILED, stage="failed", error=failure(exc))
         return "failed"
     return "done"

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import asyncio
 import hashlib
+import logging
 import uuid
 from enum import StrEnum
 from typing import Any, Protocol
@@ -30,6 +31,7 @@ from sqlalchemy import update
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
+from service import logs
 from service.archive.db import JobRow, now
 from service.archive.files import BlobStore
 from service.config import Settings
@@ -37,6 +39,8 @@ from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy
 from service.runner.workers import Workers
 from service.workflow import drafts
 from service.workflow.keys import Principal, Role
+
+log = logging.getLogger("plumbline.jobs")
 
 
 class JobState(StrEnum):
@@ -116,13 +120,24 @@ def queued(principal: Principal, definition_sha256: str) -> JobRow:
 
 
 def failure(exc: Exception) -> dict[str, Any]:
-    """What a failed job stores as its ``error``: a product error's code, status and detail (and
-    a definition's problems); a foreign one as an internal error."""
+    """What a failed job stores as its ``error``, which its author reads: a product error's code,
+    status and detail (and a definition's problems); a server-side failure also its incident id,
+    under which it is logged. A foreign exception is an internal error whose text and stack go
+    to the log only."""
     if not isinstance(exc, PlumblineError):
-        return {"code": "internal_error", "detail": f"{type(exc).__name__}: {exc}"}
+        incident = logs.incident(log, "a job failed inside Plumbline", exc=exc)
+        return {
+            "code": "internal_error",
+            "detail": f"something went wrong on our side (incident {incident})",
+            "incident": incident,
+        }
     error: dict[str, Any] = {"code": exc.code, "status": exc.status, "detail": exc.message}
     if isinstance(exc, InvalidDefinition):
         error["errors"] = [p.as_dict() for p in exc.problems]
+    if exc.status >= 500:
+        error["incident"] = logs.incident(
+            log, "a job failed", detail=exc.message, found=exc.incident
+        )
     return error
 
 

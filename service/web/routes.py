@@ -11,13 +11,13 @@ from __future__ import annotations
 
 import logging
 import re
-import uuid
 from typing import Annotated, Any
 
 from fastapi import APIRouter, Depends, Request
 from starlette.concurrency import run_in_threadpool
 from starlette.responses import Response
 
+from service import logs
 from service.errors import InvalidRequest, NotFound, PlumblineError, Unauthorized
 from service.web import views
 from service.web.pages import FLASH, Stop, html, redirect
@@ -60,9 +60,8 @@ def _not_found(current: Visit, pack_id: str) -> Stop:
 def _reason(exc: PlumblineError) -> str:
     if exc.status < 500:
         return exc.message
-    incident = uuid.uuid4().hex[:12]
-    log.error("review action failed [%s]: %s", incident, exc.message)
-    return f"{exc.message} (incident {incident})"
+    incident = logs.incident(log, "review action failed", detail=exc.message, found=exc.incident)
+    return exc.message if exc.incident else f"{exc.message} (incident {incident})"
 
 
 # --- signing in and out --------------------------------------------------------------------------
