@@ -12,11 +12,10 @@ from dataclasses import dataclass, field
 from datetime import datetime
 from typing import Any
 
-from sqlalchemy import select
 from sqlalchemy.orm import sessionmaker
 
 from service.archive import audit
-from service.archive.db import PackRow, ReviewRow, SealRow, WaiverRow, utc
+from service.archive.db import PackRow, ReviewRow, SealRow, utc
 from service.archive.files import BlobStore
 from service.checks import CHECKS
 from service.workflow import drafts, lifecycle
@@ -104,15 +103,6 @@ def charts_of(store: BlobStore, row: PackRow) -> dict[str, tuple[str, str]]:
     return found
 
 
-def waivers_of(sessions: sessionmaker[Any], pack_id: str) -> list[WaiverRow]:
-    with sessions() as session:
-        return list(
-            session.scalars(
-                select(WaiverRow).where(WaiverRow.pack_id == pack_id).order_by(WaiverRow.id)
-            ).all()
-        )
-
-
 def pack_page(
     *, sessions: sessionmaker[Any], store: BlobStore, principal: Principal, pack_id: str
 ) -> PackPage:
@@ -121,7 +111,7 @@ def pack_page(
     review = drafts.review(sessions=sessions, pack_id=row.id)
     sealed = drafts.seal_of(sessions=sessions, pack_id=row.id)
     charts = charts_of(store, row)
-    given = waivers_of(sessions, row.id)
+    given = drafts.waivers_of(sessions=sessions, pack_id=row.id)
     current = {(w.check, w.chart): w for w in given if w.pdf_sha256 == row.pdf_sha256}
     is_author = review is not None and review.is_author(principal.key_id, principal.name)
 

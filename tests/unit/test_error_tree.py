@@ -192,7 +192,7 @@ def test_a_job_failing_with_a_foreign_exception_stores_an_incident_id_only(
 
     with caplog.at_level(logging.ERROR):
         row = asyncio.run(run())
-    answer = json.dumps(view(row))
+    answer = json.dumps(view(row).json_body())
     assert row.status == JobState.FAILED
     assert row.error is not None
     assert row.error["code"] == "internal_error"
