@@ -24,6 +24,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── archive.migrate.SchemaMismatch (500, schema_mismatch)        the database is of another version
     ├── seal.keys.KeyProblem (500, seal_key)                         the signing key cannot be used
     ├── seal.sign.NotSealed (422, not_sealed)                        the bytes are not a sealed pack
+    ├── runner.services.NotReady (503, not_ready)                    a part the service needs is down
     ├── web.session.SessionSecretProblem (500, session_secret)       the pages' session secret is unusable
     ├── distributed.options.QueueMisconfigured (500, queue_misconfigured)   PLUMBLINE_QUEUE_* is wrong
     └── distributed.jobs.QueueUnavailable (503, queue_unavailable)   the broker did not take a job

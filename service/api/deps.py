@@ -11,10 +11,10 @@ from fastapi.routing import APIRoute
 from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
 from starlette.concurrency import run_in_threadpool
 
-from service.archive.db import PackRow
 from service.errors import InvalidRequest, Unauthorized
 from service.runner.services import Services
 from service.workflow import drafts, keys
+from service.workflow.drafts import Pack
 from service.workflow.keys import Principal
 
 
@@ -62,11 +62,11 @@ async def _principal(
 PrincipalDep = Annotated[Principal, Depends(_principal)]
 
 
-def _pack(pack_id: PackId, services: ServicesDep, principal: PrincipalDep) -> PackRow:
+def _pack(pack_id: PackId, services: ServicesDep, principal: PrincipalDep) -> Pack:
     return drafts.visible(sessions=services.sessions, principal=principal, pack_id=pack_id)
 
 
-PackDep = Annotated[PackRow, Depends(_pack)]
+PackDep = Annotated[Pack, Depends(_pack)]
 
 
 def single_query_values(request: Request) -> None:

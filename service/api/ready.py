@@ -3,29 +3,23 @@
 from __future__ import annotations
 
 import asyncio
+import logging
 from collections.abc import Callable
-from pathlib import Path
 
 from fastapi import APIRouter
 from fastapi.responses import JSONResponse
-from sqlalchemy import text
 from starlette.concurrency import run_in_threadpool
 
+from service import logs
 from service.api import errors
 from service.api.deps import ServicesDep
-from service.archive import db
-from service.runner.services import Services
+from service.errors import PlumblineError
 
-PROBE = b"plumbline readiness probe\n"
-"""Written to and read back from the store by ``GET /v1/ready`` (content-addressed: one file)."""
+log = logging.getLogger("plumbline.api")
 
 PROBE_TIMEOUT_S = 5.0
 
 router = APIRouter(prefix="/v1", tags=["service"])
-
-
-class _NotReady(Exception):
-    pass
 
 
 @router.get(
@@ -42,11 +36,11 @@ async def ready(services: ServicesDep) -> JSONResponse:
     write and gives it back, and the build queue (if ``PLUMBLINE_QUEUE_URL`` is set) answers.
     ``/v1/health`` only says the process is alive."""
     probes: dict[str, Callable[[], None]] = {
-        "database": lambda: _database(services),
-        "store": lambda: _store(services),
+        "database": services.probe_database,
+        "store": services.probe_store,
     }
     if services.settings.queue_url:
-        probes["queue"] = lambda: _queue(services)
+        probes["queue"] = lambda: services.jobs.ping(PROBE_TIMEOUT_S)
     checks: dict[str, str] = {}
     for name, probe in probes.items():
         try:
@@ -70,28 +64,7 @@ async def ready(services: ServicesDep) -> JSONResponse:
 
 
 def _reason(exc: BaseException) -> str:
-    if isinstance(exc, _NotReady):
-        return str(exc)
-    first = (str(exc).strip().splitlines() or [""])[0][:200]
-    return f"{type(exc).__name__}: {first}" if first else type(exc).__name__
-
-
-def _database(services: Services) -> None:
-    engine = db.engine_of(services.sessions)
-    where = engine.url.database
-    # an open connection keeps a removed SQLite file usable; a new one would not find it
-    sqlite_file = engine.dialect.name == "sqlite" and where not in (None, "", ":memory:")
-    if sqlite_file and not Path(str(where)).is_file():
-        raise _NotReady(f"the SQLite file {where} is not there (PLUMBLINE_DATABASE_URL)")
-    with engine.connect() as connection:
-        connection.execute(text("SELECT 1"))
-
-
-def _store(services: Services) -> None:
-    digest = services.store.put(PROBE)
-    if services.store.get(digest) != PROBE:
-        raise _NotReady("the store gave back different bytes than were written")
-
-
-def _queue(services: Services) -> None:
-    services.jobs.ping(PROBE_TIMEOUT_S)
+    if isinstance(exc, PlumblineError):
+        return exc.message
+    incident = logs.incident(log, "a readiness probe failed", exc=exc)
+    return f"failed (incident {incident})"

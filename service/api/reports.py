@@ -106,14 +106,14 @@ async def create_report(
             job = await services.jobs.start(principal, raw)
             return 202, jobs.view(job).json_body(), f"/v1/jobs/{job.id}"
 
-        return await idempotency.once(request, services.sessions, principal, raw, queue)
+        return await idempotency.once(request, services, principal, raw, queue)
 
     async def run() -> idempotency.Answer:
         row = await services.build_draft(principal, raw)
         view = await run_in_threadpool(views.pack_detail, services.sessions, row)
         return 201, view.json_body(), f"/v1/reports/{row.id}"
 
-    return await idempotency.once(request, services.sessions, principal, raw, run)
+    return await idempotency.once(request, services, principal, raw, run)
 
 
 MAX_OFFSET = 1_000_000_000
@@ -218,7 +218,7 @@ async def _act(
         await action()
         return 200, await _view(services, principal, pack_id), None
 
-    return await idempotency.once(request, services.sessions, principal, raw, run)
+    return await idempotency.once(request, services, principal, raw, run)
 
 
 @router.post(

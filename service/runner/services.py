@@ -7,20 +7,33 @@ from __future__ import annotations
 
 from collections import OrderedDict
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any
 
+from sqlalchemy import text
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
+from service.archive import db
 from service.archive.db import PackRow, SealRow
 from service.archive.files import BlobStore
 from service.config import Settings
-from service.errors import InvalidRequest
+from service.errors import InvalidRequest, PlumblineError
 from service.runner.jobs import Jobs
 from service.runner.workers import Workers
 from service.seal.verify import VerifyReport
 from service.workflow import drafts, sealing
 from service.workflow.keys import Principal
+
+PROBE = b"plumbline readiness probe\n"
+"""Written to and read back from the store by ``GET /v1/ready`` (content-addressed: one file)."""
+
+
+class NotReady(PlumblineError):
+    """A part the service needs cannot be used now (``GET /v1/ready`` says which)."""
+
+    code = "not_ready"
+    status = 503
 
 
 @dataclass
@@ -32,6 +45,23 @@ class Services:
     jobs: Jobs
     known_keys: OrderedDict[bytes, str] = field(default_factory=OrderedDict)
     """SHA-256 of a secret already checked with scrypt → its key id (most recent last)."""
+
+    def probe_database(self) -> None:
+        """The database answers ``SELECT 1`` (and a SQLite file is still there)."""
+        engine = db.engine_of(self.sessions)
+        where = engine.url.database
+        # an open connection keeps a removed SQLite file usable; a new one would not find it
+        sqlite_file = engine.dialect.name == "sqlite" and where not in (None, "", ":memory:")
+        if sqlite_file and not Path(str(where)).is_file():
+            raise NotReady(f"the SQLite file {where} is not there (PLUMBLINE_DATABASE_URL)")
+        with engine.connect() as connection:
+            connection.execute(text("SELECT 1"))
+
+    def probe_store(self) -> None:
+        """The store takes a write and gives it back."""
+        digest = self.store.put(PROBE)
+        if self.store.get(digest) != PROBE:
+            raise NotReady("the store gave back different bytes than were written")
 
     async def build_draft(self, principal: Principal, raw: bytes) -> PackRow:
         """Build the definition in a worker and store the draft, ``principal`` its author."""
@@ -79,4 +109,4 @@ class Services:
         return report
 
 
-__all__ = ["Services"]
+__all__ = ["PROBE", "NotReady", "Services"]

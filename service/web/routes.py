@@ -19,10 +19,9 @@ from starlette.responses import Response
 
 from service import logs
 from service.errors import InvalidRequest, NotFound, PlumblineError, Unauthorized
-from service.web import views
 from service.web.pages import FLASH, Stop, html, redirect
 from service.web.visit import Visit, form, refuse, safe_next, signed_in, visit
-from service.workflow import compare, drafts, keys, lifecycle
+from service.workflow import compare, drafts, keys, lifecycle, review
 
 log = logging.getLogger("plumbline.web")
 router = APIRouter(prefix="/review", include_in_schema=False)
@@ -109,7 +108,7 @@ async def sign_out(request: Request, current: VisitDep) -> Response:
 async def queue(request: Request, current: VisitDep, done: str | None = None) -> Response:
     principal = signed_in(request, current)
     services = current.services
-    lists = await run_in_threadpool(views.queue, sessions=services.sessions, principal=principal)
+    lists = await run_in_threadpool(review.queue, sessions=services.sessions, principal=principal)
     return current.finish(html("queue.html", current.context(flash=_flash(done), **lists)))
 
 
@@ -127,7 +126,7 @@ async def _show_pack(
     services = current.services
     try:
         page = await run_in_threadpool(
-            views.pack_page,
+            review.pack_page,
             sessions=services.sessions,
             store=services.store,
             principal=principal,
@@ -136,7 +135,7 @@ async def _show_pack(
     except NotFound:
         raise _not_found(current, pack_id) from None
     context = current.context(
-        page=page, flash=flash, refused=refused, entered=entered or {}, moment=views.moment
+        page=page, flash=flash, refused=refused, entered=entered or {}, moment=review.moment
     )
     return current.finish(html("pack.html", context, status=status))
 
@@ -291,7 +290,7 @@ async def sealed_pdf(request: Request, pack_id: str, current: VisitDep) -> Respo
             current,
             404,
             "No sealed file",
-            f"The pack '{row.id}' has no sealed file: it is {views.STATUS_NAMES[row.status]}. "
+            f"The pack '{row.id}' has no sealed file: it is {review.STATUS_NAMES[row.status]}. "
             "A pack is sealed when an approver signs it off.",
         )
     data = await run_in_threadpool(current.services.store.get, sealed.sha256)

@@ -17,6 +17,9 @@ from service.errors import Forbidden, InvalidRequest, NotFound
 from service.pipeline import Built
 from service.workflow.keys import Principal, Role, can_see
 
+Pack = PackRow
+"""A stored pack, as the edges name it (they do not import the archive's tables)."""
+
 DRAFT = "draft"
 STATUSES = ("draft", "in_review", "signed_off", "superseded")
 MAX_PAGE = 200

@@ -227,3 +227,26 @@ def test_no_package_cycle() -> None:
         lines.append(f"cycle between {', '.join(group)}, e.g.:")
         lines += [f"  {arrow}" for arrow in loop(group, found)]
     assert not groups, "package cycles:\n" + "\n".join(lines)
+
+
+EDGES_WITHOUT_SQL = ("api", "web")
+"""Route and page modules: every query and every permission rule is the workflow's."""
+NO_SQL = ("sqlalchemy", "service.archive.db")
+
+
+def test_routes_and_pages_hold_no_sql() -> None:
+    wrong = []
+    for edge in EDGES_WITHOUT_SQL:
+        for path in sorted((ROOT / edge).rglob("*.py")):
+            for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"), str(path))):
+                names: list[str] = []
+                if isinstance(node, ast.Import):
+                    names = [alias.name for alias in node.names]
+                elif isinstance(node, ast.ImportFrom) and node.module:
+                    names = [node.module, *(f"{node.module}.{a.name}" for a in node.names)]
+                for name in names:
+                    if any(name == banned or name.startswith(banned + ".") for banned in NO_SQL):
+                        where = path.relative_to(ROOT.parent)
+                        wrong.append(f"{where}:{node.lineno}: imports {name}")
+                        break
+    assert not wrong, "route and page modules may not reach the database:\n" + "\n".join(wrong)
