@@ -38,7 +38,7 @@ _CREATED: dict[int | str, dict[str, Any]] = {
     },
     202: {
         "description": "With wait=false: the job that builds the draft (GET its Location).",
-        "model": jobs.JobView,
+        "content": {"application/json": {"schema": {"$ref": "#/components/schemas/JobView"}}},
         "headers": {"Location": {"schema": {"type": "string"}}},
     },
     **docs.refusals(401, 403, 409, 413, 422, 429, 500),
