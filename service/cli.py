@@ -67,26 +67,65 @@ def _settings() -> Settings | None:
         return None
 
 
-def _parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(prog="plumbline", description=__doc__.splitlines()[0])
-    parser.add_argument("--version", action="version", version=f"plumbline {__version__}")
-    sub = parser.add_subparsers(metavar="COMMAND")
+DESCRIPTION = (
+    "Turn a JSON report definition into a checked, reviewed and sealed PDF pack.\n"
+    "Run 'plumbline COMMAND --help' for the options of one command."
+)
 
-    p = sub.add_parser("schema", help="print the JSON Schema of report definitions")
+EPILOG = """exit codes:
+  0  success
+  1  an unwaived check failed (render still writes the draft) or a step failed
+  2  the input is invalid (every problem is printed with its path) or unreadable
+  3  a fault inside Plumbline (printed with an incident id)"""
+
+
+class _Formatter(argparse.RawDescriptionHelpFormatter):
+    """Plain text as written (the description is not rewrapped), and each command's summary on
+    its own name's line: argparse measures subcommand names without their indent, so a long one
+    such as ``walkthrough`` would otherwise push its summary onto the next line."""
+
+    def __init__(self, prog: str) -> None:
+        super().__init__(prog, max_help_position=24)
+
+    def add_argument(self, action: argparse.Action) -> None:
+        super().add_argument(action)
+        if action.help is not argparse.SUPPRESS:
+            for choice in self._iter_indented_subactions(action):
+                width = len(self._format_action_invocation(choice)) + self._current_indent
+                self._action_max_length = max(self._action_max_length, width)
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="plumbline", description=DESCRIPTION, epilog=EPILOG, formatter_class=_Formatter
+    )
+    parser.add_argument("--version", action="version", version=f"plumbline {__version__}")
+    sub = parser.add_subparsers(metavar="COMMAND", title="commands")
+
+    def command(name: str, summary: str) -> argparse.ArgumentParser:
+        """One subcommand: its line in the list, and the same line atop its own help."""
+        return sub.add_parser(
+            name,
+            help=summary,
+            description=summary[0].upper() + summary[1:] + ".",
+            formatter_class=_Formatter,
+        )
+
+    p = command("schema", "print the definition's JSON Schema")
     p.set_defaults(run=_schema)
 
-    p = sub.add_parser("checks", help="list every integrity check with its rule and source")
+    p = command("checks", "list every check: rule, threshold, source")
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.add_argument("--markdown", action="store_true", help="the catalogue as Markdown")
     p.set_defaults(run=_checks)
 
-    p = sub.add_parser("check", help="validate a definition and run its checks without rendering")
-    p.add_argument("definition", type=Path)
+    p = command("check", "validate a definition and run its checks")
+    p.add_argument("definition", type=Path, help="the report definition (a JSON file)")
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.set_defaults(run=_check)
 
-    p = sub.add_parser("render", help="render a definition into a draft PDF pack")
-    p.add_argument("definition", type=Path)
+    p = command("render", "check a definition and render a draft PDF")
+    p.add_argument("definition", type=Path, help="the report definition (a JSON file)")
     p.add_argument("-o", "--output", type=Path, required=True, help="where to write the PDF")
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.add_argument(
@@ -106,8 +145,8 @@ def _parser() -> argparse.ArgumentParser:
     )
     p.set_defaults(run=_render)
 
-    p = sub.add_parser("verify", help="verify a sealed pack: signature, attachments, re-render")
-    p.add_argument("pack", type=Path)
+    p = command("verify", "verify a sealed pack, step by step")
+    p.add_argument("pack", type=Path, help="the sealed PDF")
     p.add_argument(
         "--trust",
         type=Path,
@@ -126,21 +165,36 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--json", action="store_true", help="machine-readable output")
     p.set_defaults(run=_verify)
 
-    p = sub.add_parser(
-        "walkthrough",
-        help="take a definition through review, sign-off and sealing with demonstration keys",
-    )
-    p.add_argument("definition", type=Path)
+    p = command("walkthrough", "review, sign off and seal with demo keys")
+    p.add_argument("definition", type=Path, help="the report definition (a JSON file)")
     p.add_argument("-o", "--output", type=Path, required=True, help="where to write the sealed PDF")
     p.set_defaults(run=_walkthrough)
 
-    p = sub.add_parser("worker", help="run a build worker for the queue (PLUMBLINE_QUEUE_URL)")
+    p = command("worker", "run a build worker for PLUMBLINE_QUEUE_URL")
     p.add_argument("celery_args", nargs=argparse.REMAINDER, help="further Celery worker options")
     p.set_defaults(run=_worker)
 
-    p = sub.add_parser("keys", help="manage API keys (people and their roles)")
-    actions = p.add_subparsers(metavar="ACTION")
-    c = actions.add_parser("create", help="make a key; its secret is shown once")
+    p = command("keys", "create or revoke API keys")
+    _keys_actions(p)
+
+    p = command("serve", "start the HTTP service and review pages")
+    p.add_argument("--host", default=None, help="address to listen on (default PLUMBLINE_HOST)")
+    p.add_argument(
+        "--port", type=int, default=None, help="port to listen on (default PLUMBLINE_PORT)"
+    )
+    p.set_defaults(run=_serve)
+    return parser
+
+
+def _keys_actions(p: argparse.ArgumentParser) -> None:
+    """The actions of plumbline keys: create and revoke."""
+    actions = p.add_subparsers(metavar="ACTION", title="actions")
+    c = actions.add_parser(
+        "create",
+        help="make a key; its secret is shown once",
+        description="Make an API key; its secret is shown once and only a hash is stored.",
+        formatter_class=_Formatter,
+    )
     c.add_argument("--name", required=True, help="the person or system the key belongs to")
     c.add_argument(
         "--role",
@@ -154,15 +208,11 @@ def _parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--expires", type=_aware_time, help="ISO 8601 time with a zone")
     c.set_defaults(run=_keys_create)
-    r = actions.add_parser("revoke", help="revoke a key")
-    r.add_argument("key_id")
+    r = actions.add_parser(
+        "revoke", help="revoke a key", description="Revoke an API key.", formatter_class=_Formatter
+    )
+    r.add_argument("key_id", help="the key's id, as printed by keys create")
     r.set_defaults(run=_keys_revoke)
-
-    p = sub.add_parser("serve", help="start the HTTP service")
-    p.add_argument("--host", default=None)
-    p.add_argument("--port", type=int, default=None)
-    p.set_defaults(run=_serve)
-    return parser
 
 
 def _read(path: Path) -> bytes:

@@ -1,27 +1,28 @@
-"""The pipeline: definition → data → encoders → checks → render → assemble.
+"""The pipeline: definition → data → encoders → checks → render → assemble, run in one place.
 
 ``intake`` reads and validates (every problem at once), ``check`` plans and guards every chart
-without drawing, ``render`` draws and assembles the pack. ``build`` runs all three and is the unit of
-work handed to a worker process, so it takes and returns plain, picklable values.
+without drawing, ``render`` draws, finishes the checks that need the drawing, lays out the pack and
+caches it. ``build`` runs all three and is the unit of work handed to a worker process, so it takes
+and returns plain, picklable values. No stage calls the next: the order lives here.
 """
 
 from __future__ import annotations
 
 import hashlib
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import asdict, dataclass
 from typing import TYPE_CHECKING, Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
-from service import formatting, glyphs, intents
+from service import intents
 from service.checks import engine, registry
 from service.checks.outcome import Checked, CheckedChart
-from service.checks.results import Status, summary, summary_line
+from service.checks.results import summary, summary_line
 from service.config import Limits
-from service.data import frames
+from service.data import frames, values
 from service.data.frames import Table
 from service.definition import validate
-from service.definition.model import ReportDefinition, Role, local_wall_time
+from service.definition.model import ReportDefinition, local_wall_time
 from service.errors import InvalidDefinition, Problem
 
 if TYPE_CHECKING:
@@ -38,16 +39,7 @@ class Intake:
 def intake(raw: bytes | str, limits: Limits) -> Intake:
     data = raw.encode() if isinstance(raw, str) else raw
     definition, problems = validate.parse(data, limits)
-    if not formatting.known_locale(definition.report.locale):
-        problems.append(
-            Problem(
-                "unknown_locale",
-                "report.locale",
-                f"'{definition.report.locale}' is not a known locale",
-                "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
-                definition.report.locale,
-            )
-        )
+    problems.extend(validate.locale_problems(definition))
     problems.extend(registry.waiver_problems(definition))
     declared = frozenset(
         d
@@ -73,104 +65,10 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
         if table is None or any(t == path or t.startswith(f"{path}.") for t in troubled):
             continue  # its dataset or its own fields are already reported
         problems.extend(intents.ENCODERS[chart.intent].problems(chart, table, path, limits))
-    problems.extend(_empty_measures(definition, tables, problems))
-    problems.extend(_undrawable_text(definition, tables))
-    problems.extend(_table_limits(definition, tables, limits))
+    problems.extend(values.problems(definition, tables, problems, limits))
     if problems:
         raise InvalidDefinition(problems)
     return Intake(definition, tables, hashlib.sha256(data).hexdigest())
-
-
-def _texts(definition: ReportDefinition, tables: dict[str, Table]) -> list[tuple[str, str]]:
-    """Every piece of user text that reaches the page, with its path."""
-    r = definition.report
-    out = [("report.title", r.title), ("report.owner", r.owner), ("report.audience", r.audience)]
-    for s, section in enumerate(definition.sections):
-        out += [
-            (f"sections[{s}].heading", section.heading),
-            (f"sections[{s}].narrative", section.narrative),
-        ]
-        for t, spec in enumerate(section.tables):
-            out.append((f"sections[{s}].tables[{t}].title", spec.title))
-    for path, chart in definition.charts():
-        out += [
-            (f"{path}.{f}", getattr(chart, f))
-            for f in ("title", "subtitle", "note", "source", "description")
-        ]
-    for w, waiver in enumerate(definition.waivers):
-        out += [(f"waivers[{w}].reason", waiver.reason), (f"waivers[{w}].by", waiver.by)]
-    for d, dataset in enumerate(definition.datasets):
-        out.append((f"datasets[{d}].source", dataset.source))
-        for c, column in enumerate(dataset.columns):
-            out += [
-                (f"datasets[{d}].columns[{c}].name", column.name),
-                (f"datasets[{d}].columns[{c}].unit", column.unit),
-            ]
-            loaded = tables.get(dataset.name)
-            if loaded is not None and column.type.value == "text":
-                values = loaded.frame[column.name].dropna().unique()
-                out += [(f"datasets[{d}].rows[*].{column.name}", str(v)) for v in values]
-    return [(p, t) for p, t in out if t]
-
-
-def _undrawable_text(definition: ReportDefinition, tables: dict[str, Table]) -> list[Problem]:
-    hint = {
-        "glyph_missing": "use characters of Latin, Greek or Cyrillic scripts, or describe the "
-        "symbol in words",
-        "right_to_left_text": "give the text in a left-to-right script for now",
-    }
-    return [
-        Problem(code, path, message, hint[code], text)
-        for path, code, message, text in glyphs.problems_in(_texts(definition, tables))
-    ]
-
-
-def _empty_measures(
-    definition: ReportDefinition, tables: dict[str, Table], found: list[Problem]
-) -> list[Problem]:
-    """A measure with no value at all has nothing to show (zero would be a lie, gaps say nothing)."""
-    reported = {p.path for p in found if p.code == "no_values"}
-    out = []
-    for path, chart in definition.charts():
-        table = tables.get(chart.dataset)
-        if table is None:
-            continue
-        for field, name, role in chart.columns():
-            where = f"{path}.{field}"
-            if role is not Role.measure or where in reported or name not in table.frame:
-                continue
-            if table.frame[name].isna().all():
-                out.append(
-                    Problem(
-                        "no_values",
-                        where,
-                        f"'{name}' has no values at all in dataset '{table.name}'",
-                        "give it values, or drop the chart",
-                        name,
-                    )
-                )
-    return out
-
-
-def _table_limits(
-    definition: ReportDefinition, tables: dict[str, Table], limits: Limits
-) -> list[Problem]:
-    found = []
-    for s, section in enumerate(definition.sections):
-        for t, spec in enumerate(section.tables):
-            table = tables.get(spec.dataset)
-            if table is not None and len(table.frame) > limits.max_table_rows:
-                found.append(
-                    Problem.over_limit(
-                        f"sections[{s}].tables[{t}]",
-                        "table rows",
-                        len(table.frame),
-                        setting="max_table_rows",
-                        limit=limits.max_table_rows,
-                        advice="show a chart instead, or a shorter dataset",
-                    )
-                )
-    return found
 
 
 def check(taken: Intake) -> Checked:
@@ -190,16 +88,8 @@ def check(taken: Intake) -> Checked:
         )
         guarded = engine.guard(plan, ctx, definition.waivers)
         charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))
-    used = {(r.check, r.chart) for c in charts for r in c.results if r.status is Status.waived}
-    unused = [
-        f"{w.check} on {w.chart}" for w in definition.waivers if (w.check, w.chart) not in used
-    ]
     return Checked(
-        definition=definition,
-        tables=taken.tables,
-        fingerprint=taken.fingerprint,
-        charts=charts,
-        unused_waivers=unused,
+        definition=definition, tables=taken.tables, fingerprint=taken.fingerprint, charts=charts
     )
 
 
@@ -231,22 +121,40 @@ def render(
 ) -> tuple[bytes, Checked]:
     """The pack's PDF, and the report with the checks measured while drawing (label layout).
 
+    The sequence after the checks, in this order and only here: draw every chart (the renderer
+    hands back its bytes and what it measured), finish the checks that need the drawing, build
+    the pack's content, lay it out around the drawn pages, and keep the finished pack in the cache
+    (named by its content and the drawn charts' bytes, so an unchanged pack is not laid out again).
+
     ``options`` say how many processes draw and where drawn charts are cached; the bytes are the
     same whatever they say. The default draws serially in this process, with no cache.
     """
-    from service.assemble import compose  # the drawing stack loads only when drawing
+    from service.assemble import compose  # the drawing and layout stacks load only when drawing
+    from service.render import cache, groups
+    from service.render.options import RenderOptions
 
-    total = len(checked.charts)
+    options = options or RenderOptions()
 
-    def drawn(done: int, of: int) -> None:
+    def drawn_so_far(done: int, of: int) -> None:
         if progress is not None:
             progress("drawing" if done < of else "assembling", done, of)
 
     if progress is not None:
-        progress("drawing", 0, total)
-    return compose.compose_checked(
-        checked, status_line=status_line, options=options, progress=drawn
-    )
+        progress("drawing", 0, len(checked.charts))
+    drawn = groups.draw_all([c.plan for c in checked.charts], options, drawn_so_far)
+    checked = engine.finish(checked, drawn.reports)
+    placement = {c.plan.chart_id: at for c, at in zip(checked.charts, drawn.pages, strict=True)}
+    sizes = compose.sizes(drawn.files, placement)
+    content = compose.content_for(checked, sizes, status_line=status_line)
+    store = cache.ChartCache.of(options)
+    if store is None:
+        return compose.lay_out(content, drawn.files, placement), checked
+    key = cache.pack_key(asdict(content), drawn.files)
+    if (hit := store.get(key)) is not None:
+        return hit[0], checked  # the same content and charts: the same file
+    pdf = compose.lay_out(content, drawn.files, placement)
+    store.put(key, pdf, [])
+    return pdf, checked
 
 
 def build(

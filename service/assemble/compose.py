@@ -1,4 +1,10 @@
-"""Compose a checked report into the pack PDF: draw charts, lay out the document, place the charts."""
+"""Lay out a checked report's pack around charts that are already drawn.
+
+:func:`content_for` turns the report (definition, tables, every check result) into the pack's
+content; :func:`sizes` reads each drawn chart page's size; :func:`lay_out` lays the document out
+with reportlab and places each chart page into its slot with pikepdf. This stage draws nothing,
+creates no check result and keeps no cache: ``pipeline.render`` runs the sequence around it.
+"""
 
 from __future__ import annotations
 
@@ -6,7 +12,6 @@ import contextlib
 import io
 import math
 from collections.abc import Mapping
-from dataclasses import asdict, replace
 
 import pandas as pd
 import pikepdf
@@ -14,58 +19,32 @@ import pikepdf
 from service import formatting
 from service.assemble import pack, place
 from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock, TableBlock
-from service.checks import layout, registry
+from service.checks import registry
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import CheckResult, summary, summary_line
 from service.data import periods
 from service.data.frames import Table
-from service.definition.model import ColumnType, local_wall_time
+from service.definition.model import ColumnType
 from service.definition.model import Table as TableSpec
-from service.render import cache, groups
-from service.render.options import RenderOptions
+
+Placement = Mapping[str, tuple[int, int]]
+"""Where each chart was drawn, by chart id: (index of its file among the drawn PDFs, page)."""
 
 
-def compose(checked: Checked, *, status_line: str, options: RenderOptions | None = None) -> bytes:
-    return compose_checked(checked, status_line=status_line, options=options)[0]
-
-
-def compose_checked(
-    checked: Checked,
-    *,
-    status_line: str,
-    options: RenderOptions | None = None,
-    progress: groups.Counter | None = None,
-) -> tuple[bytes, Checked]:
-    """The pack, and the report with the checks measured while drawing added to it."""
-    drawn = groups.draw_all([c.plan for c in checked.charts], options, progress)
-    reports = drawn.reports
-    definition = checked.definition
-    today = local_wall_time(definition.report.as_of).date()
-    charts = [
-        replace(c, results=[*c.results, layout.result(c.plan, report, definition.waivers, today)])
-        for c, report in zip(checked.charts, reports, strict=True)
-    ]
-    used = {(r.check, r.chart) for c in charts for r in c.results if r.status.value == "waived"}
-    unused = [
-        f"{w.check} on {w.chart}" for w in definition.waivers if (w.check, w.chart) not in used
-    ]
-    checked = replace(checked, charts=charts, unused_waivers=unused)
-    sizes: dict[str, tuple[float, float]] = {}
+def sizes(files: list[bytes], placement: Placement) -> dict[str, tuple[float, float]]:
+    """Each drawn chart's page size in points (width, height), by chart id."""
+    out: dict[str, tuple[float, float]] = {}
     with contextlib.ExitStack() as stack:
-        files = [stack.enter_context(pikepdf.open(io.BytesIO(f))) for f in drawn.files]
-        for c, (file, page) in zip(checked.charts, drawn.pages, strict=True):
-            sizes[c.plan.chart_id] = _size(files[file].pages[page])
-    content = content_for(checked, sizes, status_line=status_line)
-    store = cache.ChartCache.of(options or RenderOptions())
-    key = cache.pack_key(asdict(content), drawn.files) if store is not None else ""
-    if store is not None and (hit := store.get(key)) is not None:
-        return hit[0], checked  # the same content and charts: the same file
+        opened = [stack.enter_context(pikepdf.open(io.BytesIO(f))) for f in files]
+        for chart_id, (file, page) in placement.items():
+            out[chart_id] = _size(opened[file].pages[page])
+    return out
+
+
+def lay_out(content: PackContent, files: list[bytes], placement: Placement) -> bytes:
+    """The pack's PDF: the document laid out, each drawn chart page placed into its slot."""
     document, slots = pack.build(content)
-    order = {c.plan.chart_id: at for c, at in zip(checked.charts, drawn.pages, strict=True)}
-    pdf = place.place(document, slots, drawn.files, order)
-    if store is not None:
-        store.put(key, pdf, [])
-    return pdf, checked
+    return place.place(document, slots, files, placement)
 
 
 def _size(page: pikepdf.Page) -> tuple[float, float]:

@@ -4,17 +4,23 @@ For each check in registry order: measure the plan. A breach is *waived* when th
 current waiver for that check and chart (the plan is left as requested); otherwise *corrected* when the
 check can correct it (the corrected plan is measured again and must pass); otherwise *failed*. Failed
 checks are written onto the plan's ``flags`` so the chart itself shows them.
+
+:func:`finish` adds the checks that need the drawn chart (``label-layout``) once the renderer has
+measured it. Both phases find a chart's waiver through :func:`waiver_for`, the one waiver lookup.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Sequence
+from dataclasses import dataclass, replace
 from datetime import date
 
-from service.checks import describe, registry
+from service.checks import describe, layout, registry
+from service.checks.layout import DrawnLabels
+from service.checks.outcome import Checked
 from service.checks.registry import CheckSpec, Context, Finding
 from service.checks.results import CheckResult, Status, WaiverRecord
-from service.definition.model import Waiver
+from service.definition.model import Waiver, local_wall_time
 from service.intents.plan import ChartPlan
 
 
@@ -54,7 +60,7 @@ def _run(
         if spec.level == "advice":
             results.append(_result(spec, plan, Status.advice, finding, finding.detail))
             continue
-        waiver, expired = _waiver_for(spec, plan, ctx, waivers)
+        waiver, expired = waiver_for(spec, plan, waivers, ctx.as_of.date())
         if waiver is not None:
             record = WaiverRecord(reason=waiver.reason, by=waiver.by, expires=waiver.expires)
             results.append(
@@ -83,19 +89,40 @@ def _run(
     return plan
 
 
-def _waiver_for(
-    spec: CheckSpec, plan: ChartPlan, ctx: Context, waivers: list[Waiver]
+def waiver_for(
+    spec: CheckSpec, plan: ChartPlan, waivers: list[Waiver], today: date
 ) -> tuple[Waiver | None, date | None]:
+    """The waiver that applies to ``spec`` on this chart, or None and the date the first one for
+    it expired (``today`` is the report's as_of date)."""
     for waiver in waivers:
         if (
             waiver.check == spec.id
             and waiver.chart == plan.chart_id
             and spec.waivable_for(plan.intent)
         ):
-            if waiver.expires is not None and waiver.expires < ctx.as_of.date():
+            if waiver.expires is not None and waiver.expires < today:
                 return None, waiver.expires
             return waiver, None
     return None, None
+
+
+def finish(checked: Checked, reports: Sequence[DrawnLabels]) -> Checked:
+    """The report with each chart's checks measured on its drawing (one report per chart, in
+    order) added after its other results."""
+    waivers = checked.definition.waivers
+    today = local_wall_time(checked.definition.report.as_of).date()
+    charts = [
+        replace(chart, results=[*chart.results, finish_chart(chart.plan, report, waivers, today)])
+        for chart, report in zip(checked.charts, reports, strict=True)
+    ]
+    return replace(checked, charts=charts)
+
+
+def finish_chart(
+    plan: ChartPlan, report: DrawnLabels, waivers: list[Waiver], today: date
+) -> CheckResult:
+    """The ``label-layout`` result of one drawn chart."""
+    return layout.result(plan, report, *waiver_for(layout.SPEC, plan, waivers, today))
 
 
 def _result(

@@ -1,14 +1,16 @@
 """Labels are readable: no overlapping tick labels, no text cut off at the chart's edge.
 
-Text extents exist only after layout, so this check is measured when the chart is drawn:
-:mod:`service.render.layout` measures and fills in a :class:`LayoutReport`. ``plumbline check``,
-which draws nothing, does not list it.
+Text extents exist only after layout, so this check is measured when the chart is drawn: the
+renderer measures and hands back a plain report (``render.measured.LayoutReport``), and the
+pipeline gives it to :func:`service.checks.engine.finish`, which looks up the waiver and calls
+:func:`result`. ``plumbline check``, which draws nothing, does not list it.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from collections.abc import Sequence
 from datetime import date
+from typing import Protocol
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.checks.results import CheckResult, Status, WaiverRecord
@@ -16,17 +18,22 @@ from service.definition.model import INTENTS, Waiver
 from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan
 
 
-@dataclass
-class LayoutReport:
-    overlaps_before: int = 0
-    clipped_before: int = 0
-    overlaps: int = 0
-    clipped: int = 0
-    actions: list[str] = field(default_factory=list)
+class DrawnLabels(Protocol):
+    """What this check reads of the renderer's measurement, declared here so that the checks
+    never import the stage that draws (the renderer's ``LayoutReport`` satisfies it)."""
 
     @property
-    def clean(self) -> bool:
-        return self.overlaps == 0 and self.clipped == 0
+    def overlaps_before(self) -> int: ...
+    @property
+    def clipped_before(self) -> int: ...
+    @property
+    def overlaps(self) -> int: ...
+    @property
+    def clipped(self) -> int: ...
+    @property
+    def actions(self) -> Sequence[str]: ...
+    @property
+    def clean(self) -> bool: ...
 
 
 def _at_render(plan: ChartPlan, ctx: Context) -> Finding:
@@ -52,9 +59,10 @@ SPEC = register(
 
 
 def result(
-    plan: ChartPlan, report: LayoutReport, waivers: list[Waiver], today: date
+    plan: ChartPlan, report: DrawnLabels, waiver: Waiver | None, expired: date | None
 ) -> CheckResult:
-    """The ``label-layout`` result; ``today`` (the as_of date) decides whether a waiver expired."""
+    """The ``label-layout`` result, given the engine's waiver lookup for this chart: the current
+    waiver, or None and the date an expired one ran out."""
     before = f"{report.overlaps_before} overlaps, {report.clipped_before} cut off"
     after = f"{report.overlaps} overlaps, {report.clipped} cut off"
     base = {
@@ -76,10 +84,8 @@ def result(
             explanation=f"Labels collided ({before}); Plumbline {done}.",
         )
     text = f"After mending, labels still collide or are cut off ({after})."
-    waiver = next((w for w in waivers if w.check == SPEC.id and w.chart == plan.chart_id), None)
-    if waiver is not None and waiver.expires is not None and waiver.expires < today:
-        text += f" A waiver expired on {waiver.expires.isoformat()} and no longer applies."
-        waiver = None
+    if expired is not None:
+        text += f" A waiver expired on {expired.isoformat()} and no longer applies."
     if waiver is not None:
         record = WaiverRecord(reason=waiver.reason, by=waiver.by, expires=waiver.expires)
         return CheckResult(**base, status=Status.waived, explanation=text, waiver=record)

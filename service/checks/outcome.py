@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from service.checks.results import CheckResult, Status
 from service.data.frames import Table
@@ -23,7 +23,6 @@ class Checked:
     tables: dict[str, Table]
     fingerprint: str
     charts: list[CheckedChart]
-    unused_waivers: list[str] = field(default_factory=list)
 
     @property
     def results(self) -> list[CheckResult]:
@@ -32,6 +31,14 @@ class Checked:
     @property
     def blocked(self) -> bool:
         return any(r.status is Status.failed for r in self.results)
+
+    @property
+    def unused_waivers(self) -> list[str]:
+        """The definition's waivers that waived no result, as "check on chart" (before drawing,
+        a ``label-layout`` waiver is among them: that check is measured on the drawn chart)."""
+        used = {(r.check, r.chart) for r in self.results if r.status is Status.waived}
+        waivers = self.definition.waivers
+        return [f"{w.check} on {w.chart}" for w in waivers if (w.check, w.chart) not in used]
 
     def failures(self) -> list[CheckResult]:
         return [r for r in self.results if r.status is Status.failed]

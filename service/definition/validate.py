@@ -2,8 +2,9 @@
 
 Three passes, each reporting all it finds: size limits on the raw payload, the shape (pydantic, its
 errors translated into our stable codes), then references between parts (unknown dataset or column, a
-column of the wrong type for the intent, duplicate ids, missing units). Checks on the *values* of the
-data live in :mod:`service.data.frames`; waiver references in :mod:`service.checks.registry`.
+column of the wrong type for the intent, duplicate ids, missing units). ``locale_problems`` checks the
+report's locale. Checks on the *values* of the data live in :mod:`service.data.frames` and
+:mod:`service.data.values`; waiver references in :mod:`service.checks.registry`.
 """
 
 from __future__ import annotations
@@ -18,6 +19,7 @@ from typing import Any
 import pandas as pd
 from pydantic import ValidationError
 
+from service import formatting
 from service.config import Limits
 from service.definition import paths
 from service.definition.model import (
@@ -344,6 +346,19 @@ def _text_limits(definition: ReportDefinition, limits: Limits) -> Iterable[Probl
             )
     for w, waiver in enumerate(definition.waivers):
         yield from check(f"waivers[{w}].reason", waiver.reason, text, "max_text_chars")
+
+
+def locale_problems(definition: ReportDefinition) -> Iterable[Problem]:
+    """The report's locale must be one the formatter knows (numbers and dates are written in it)."""
+    locale = definition.report.locale
+    if not formatting.known_locale(locale):
+        yield Problem(
+            "unknown_locale",
+            "report.locale",
+            f"'{locale}' is not a known locale",
+            "use a language and region such as 'en-GB', 'de-DE' or 'fr-FR'",
+            locale,
+        )
 
 
 def references(definition: ReportDefinition) -> Iterable[Problem]:

@@ -29,9 +29,9 @@ from collections.abc import Callable
 from dataclasses import asdict, dataclass
 from typing import Any
 
-from service.checks.layout import LayoutReport
 from service.errors import RenderFailed
 from service.intents.plan import ChartPlan
+from service.render.measured import LayoutReport
 from service.render.options import Group
 
 log = logging.getLogger("plumbline.worker")

@@ -26,8 +26,8 @@ from pathlib import Path
 
 import service
 from service.archive.files import write_atomic
-from service.checks.layout import LayoutReport
 from service.intents.plan import ChartPlan
+from service.render.measured import LayoutReport
 from service.render.options import RenderOptions
 
 MAGIC = b"plumbline-chart-group 1\n"

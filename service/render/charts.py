@@ -15,11 +15,11 @@ from matplotlib.figure import Figure
 from matplotlib.font_manager import FontProperties
 from matplotlib.text import Text
 
-from service.checks.layout import LayoutReport
 from service.errors import RenderFailed
 from service.intents.geometry import NOTE_WIDTH, size_in
 from service.intents.plan import ChartPlan
 from service.render import layout, style
+from service.render.measured import LayoutReport
 from service.render.registry import DRAWERS
 
 #: Modules that register drawers (see ``render.registry``), loaded by name so no tool drops them.

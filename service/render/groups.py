@@ -12,10 +12,10 @@ from collections.abc import Callable
 from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass
 
-from service.checks.layout import LayoutReport
 from service.errors import RenderFailed
 from service.intents.plan import ChartPlan
 from service.render import cache, pool
+from service.render.measured import LayoutReport
 from service.render.options import RenderOptions
 
 #: Every PDF file repeats the font subsets, which costs time (fontTools subsets each file) and

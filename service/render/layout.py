@@ -16,7 +16,7 @@ from matplotlib.figure import Figure
 from matplotlib.text import Text
 from matplotlib.transforms import Bbox
 
-from service.checks.layout import LayoutReport
+from service.render.measured import LayoutReport
 
 #: Text may reach this close to the figure's edge (pixels at the figure's dpi) before it is cut.
 EDGE_TOLERANCE_PX = 1.0

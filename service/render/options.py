@@ -15,9 +15,9 @@ from typing import TYPE_CHECKING, Protocol
 from service.errors import InvalidRequest
 
 if TYPE_CHECKING:
-    from service.checks.layout import LayoutReport
     from service.config import Settings
     from service.intents.plan import ChartPlan
+    from service.render.measured import LayoutReport
 
 Group = tuple[bytes, "list[LayoutReport]"]
 """A drawn group of charts: its PDF, and per chart the label-layout report measured drawing it."""

@@ -23,8 +23,8 @@ from multiprocessing import util
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
-    from service.checks.layout import LayoutReport
     from service.intents.plan import ChartPlan
+    from service.render.measured import LayoutReport
 
 _lock = threading.Lock()
 _pool: ProcessPoolExecutor | None = None

@@ -3,7 +3,7 @@
 ``ROUTES`` classifies each route of ``create_app().routes``; ``test_the_table_covers_every_route``
 fails when a route is added and not classified. Callers: no key, author, reviewer, approver,
 auditor, admin, another family's key (every pack role, family ``marsh-end``), an expired key and a
-revoked key (every role, every family). The designed answers (README, "HTTP API"; OWASP API
+revoked key (every role, every family). The designed answers (docs/http-api.md; OWASP API
 Security Top 10 2023, API1 object level and API5 function level):
 
 - public routes (health, schema, the check catalogue, the API's own description) answer everyone;

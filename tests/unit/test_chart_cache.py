@@ -11,10 +11,10 @@ import pytest
 
 import service
 from service import pipeline
-from service.checks.layout import LayoutReport
 from service.config import Limits
 from service.intents.plan import ChartPlan
 from service.render import cache, groups
+from service.render.measured import LayoutReport
 from service.render.options import RenderOptions
 
 ROOT = Path(__file__).parents[2]

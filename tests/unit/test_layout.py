@@ -9,14 +9,16 @@ from factories import (
     make_definition,
     make_monthly,
     make_trend_chart,
+    make_waiver,
     run_checks,
 )
 
-from service.checks import layout as layout_check
+from service.checks import engine
 from service.checks.results import Status
 from service.definition.model import Waiver
 from service.intents.plan import ChartPlan
 from service.render import charts, layout
+from service.render.measured import LayoutReport
 
 MONTHS = [f"2026-{m:02d}-01" for m in range(1, 11)]
 TODAY = date(2026, 11, 9)
@@ -43,7 +45,7 @@ def test_colliding_time_labels_are_thinned_and_recorded() -> None:
     report = layout.mend(charts.figure_for(plan.model_copy(update={"periods": long})))
     assert report.overlaps_before > 0
     assert report.actions == ["showed every other label on the horizontal axis"]
-    result = layout_check.result(plan, report, [], TODAY)
+    result = engine.finish_chart(plan, report, [], TODAY)
     assert result.status is Status.corrected
     assert result.measured_text == f"{report.overlaps_before} overlaps, 0 cut off"
     assert result.corrected_to == "0 overlaps, 0 cut off"
@@ -56,14 +58,14 @@ def test_text_cut_off_at_the_edge_fails_and_can_be_waived() -> None:
     figure.text(0.98, 0.5, "a label placed past the edge", parse_math=False)
     report = layout.mend(figure)
     assert report.clipped > 0
-    assert layout_check.result(plan, report, [], TODAY).status is Status.failed
+    assert engine.finish_chart(plan, report, [], TODAY).status is Status.failed
     waiver = Waiver(
         check="label-layout",
         chart=plan.chart_id,
         by="A. Reviewer",
         reason="The label is the statutory title of the measure and must appear in full.",
     )
-    waived = layout_check.result(plan, report, [waiver], TODAY)
+    waived = engine.finish_chart(plan, report, [waiver], TODAY)
     assert waived.status is Status.waived
     assert waived.waiver is not None
     assert waived.waiver.by == "A. Reviewer"
@@ -88,7 +90,7 @@ def test_an_expired_waiver_does_not_hide_a_layout_failure() -> None:
         reason="Accepted for the September pack only, while the feed was renamed.",
         expires=date(2026, 10, 31),
     )
-    result = layout_check.result(plan, report, [waiver], TODAY)
+    result = engine.finish_chart(plan, report, [waiver], TODAY)
     assert result.status is Status.failed
     assert "expired on 2026-10-31" in result.explanation
 
@@ -113,3 +115,25 @@ def test_a_pie_draws_no_axis_labels_to_collide() -> None:
     report = layout.mend(charts.figure_for(plan))
     assert report.clean
     assert not report.actions
+
+
+def test_finishing_adds_label_layout_last_and_uses_its_waiver_once_drawn() -> None:
+    """Before drawing, a label-layout waiver waives nothing; once the drawn chart's labels are
+    cut off, the engine's waiver lookup finds it, and it is no longer listed as unused."""
+    values: list[float | None] = [float(40 + i) for i in range(len(MONTHS))]
+    definition = make_definition(
+        datasets=[make_monthly(MONTHS, values)],
+        charts=[make_trend_chart()],
+        waivers=[make_waiver("label-layout", "boardings-trend")],
+    )
+    checked = run_checks(definition)
+    assert checked.unused_waivers == ["label-layout on boardings-trend"]
+    cut = LayoutReport(clipped_before=1, clipped=1)
+    finished = engine.finish(checked, [cut])
+    last = finished.charts[0].results[-1]
+    assert (last.check, last.status) == ("label-layout", Status.waived)
+    assert finished.charts[0].results[:-1] == checked.charts[0].results
+    assert finished.unused_waivers == []
+    clean = engine.finish(checked, [LayoutReport()])
+    assert clean.charts[0].results[-1].status is Status.passed
+    assert clean.unused_waivers == ["label-layout on boardings-trend"]

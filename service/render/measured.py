@@ -1,0 +1,30 @@
+"""Plain records of what the renderer measured while drawing a chart.
+
+The drawing stage hands these back with the chart's bytes; the pipeline gives them to the check
+engine, whose ``label-layout`` check turns them into a result. They hold numbers and text only (no
+matplotlib, no check types), so the chart cache and the draw queue store them as JSON, and the
+checks read them through a protocol of their own instead of importing this stage.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+
+@dataclass
+class LayoutReport:
+    """Text on a drawn chart after layout, before and after mending: overlapping tick-label pairs,
+    texts cut off at the edge, and what was done to mend them."""
+
+    overlaps_before: int = 0
+    clipped_before: int = 0
+    overlaps: int = 0
+    clipped: int = 0
+    actions: list[str] = field(default_factory=list)
+
+    @property
+    def clean(self) -> bool:
+        return self.overlaps == 0 and self.clipped == 0
+
+
+__all__ = ["LayoutReport"]
