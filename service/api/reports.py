@@ -18,7 +18,7 @@ from starlette.concurrency import run_in_threadpool
 from service.api import deps, docs, idempotency
 from service.api.deps import PackDep, PackId, PrincipalDep, ServicesDep
 from service.errors import NotFound
-from service.runner import jobs
+from service.runner import views as job_views
 from service.runner.services import Services
 from service.workflow import compare, drafts, lifecycle, views
 from service.workflow.keys import Principal
@@ -104,7 +104,7 @@ async def create_report(
 
         async def queue() -> idempotency.Answer:
             job = await services.jobs.start(principal, raw)
-            return 202, jobs.view(job).json_body(), f"/v1/jobs/{job.id}"
+            return 202, job_views.view(job).json_body(), f"/v1/jobs/{job.id}"
 
         return await idempotency.once(request, services, principal, raw, queue)
 
@@ -327,13 +327,16 @@ jobs_router = APIRouter(
 
 
 @jobs_router.get(
-    "/{job_id}", responses=_READ, response_model=jobs.JobView, response_model_exclude_unset=True
+    "/{job_id}",
+    responses=_READ,
+    response_model=job_views.JobView,
+    response_model_exclude_unset=True,
 )
 def get_job(
     job_id: Annotated[str, Path(pattern=r"^jb_[0-9a-f]{32}$")],
     services: ServicesDep,
     principal: PrincipalDep,
-) -> jobs.JobView:
+) -> job_views.JobView:
     """A background build: queued, running (stage, charts done of total), done (with the draft's
     id) or failed (with the problem). Only the key that posted it sees it."""
-    return jobs.view(services.jobs.get(principal, job_id))
+    return job_views.view(services.jobs.get(principal, job_id))

@@ -4,7 +4,7 @@
 - ``workers``: the service's render workers and the functions they run (``build_pack``);
 - ``jobs``: background builds — :class:`~service.runner.jobs.Jobs`, the interface both runners
   satisfy (``LocalJobs`` here; ``service.distributed.jobs.CeleryJobs`` on a queue), and the job
-  states (:class:`~service.runner.jobs.JobState`);
+  states (:class:`~service.runner.jobs.JobState`); ``views``: a job as its author sees it;
 - ``services``: what the HTTP routes and the review pages share (archive, store, workers, jobs)
   and the steps that need a worker (build a draft, sign off and seal, verify).
 

@@ -27,7 +27,6 @@ import uuid
 from enum import StrEnum
 from typing import Any, Protocol
 
-from pydantic import Field
 from sqlalchemy import update
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
@@ -40,7 +39,6 @@ from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy
 from service.runner.workers import Workers
 from service.workflow import drafts
 from service.workflow.keys import Principal, Role
-from service.workflow.views import View
 
 log = logging.getLogger("plumbline.jobs")
 
@@ -84,50 +82,6 @@ class Jobs(Protocol):
     async def close(self) -> None:
         """Stop taking jobs and release what the runner holds."""
         ...
-
-
-class JobProgress(View):
-    stage: str
-    done: int
-    total: int
-
-
-class JobLinks(View):
-    self_: str = Field(alias="self")
-    pack: str | None = None
-    """Once the job is done: the draft's address."""
-
-
-class JobView(View):
-    """A background build as its author sees it; ``pack`` once done, ``error`` once failed."""
-
-    id: str
-    status: JobState
-    progress: JobProgress
-    created_at: str
-    updated_at: str
-    links: JobLinks
-    pack: str | None = None
-    error: dict[str, Any] | None = None
-
-
-def view(row: JobRow) -> JobView:
-    """The job's answer; fields that do not apply are left unset (and out of the JSON)."""
-    links = JobLinks(self_=f"/v1/jobs/{row.id}")
-    out = JobView(
-        id=row.id,
-        status=JobState(row.status),
-        progress=JobProgress(stage=row.stage, done=row.done, total=row.total),
-        created_at=row.created_at.isoformat(),
-        updated_at=row.updated_at.isoformat(),
-        links=links,
-    )
-    if row.pack_id is not None:
-        out.pack = row.pack_id
-        links.pack = f"/v1/reports/{row.pack_id}"
-    if row.error is not None:
-        out.error = row.error
-    return out
 
 
 def queued(principal: Principal, definition_sha256: str) -> JobRow:
@@ -333,11 +287,9 @@ __all__ = [
     "STOPPED",
     "UNFINISHED",
     "JobState",
-    "JobView",
     "Jobs",
     "LocalJobs",
     "failure",
     "load",
     "queued",
-    "view",
 ]

@@ -161,7 +161,8 @@ def test_a_job_failing_with_a_foreign_exception_stores_an_incident_id_only(
     from service.archive import db
     from service.archive.db import JobRow
     from service.archive.files import Store
-    from service.runner.jobs import JobState, LocalJobs, view
+    from service.runner.jobs import JobState, LocalJobs
+    from service.runner.views import view
     from service.workflow.keys import Principal, Role
 
     class Breaking:
