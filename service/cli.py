@@ -311,10 +311,11 @@ def _blocked_message(blocked: bool, results: list[dict[str, Any]]) -> None:
 def _render(args: argparse.Namespace, settings: Settings) -> int:
     from service import pipeline
     from service.archive import files
+    from service.render.options import from_settings
 
     if args.workers is not None:
         settings = settings.model_copy(update={"render_workers": args.workers})
-    options = settings.render_options(cache=not args.no_cache)
+    options = from_settings(settings, cache=not args.no_cache)
     shown = sys.stderr.isatty() if args.progress is None else args.progress
     bar = ProgressBar(sys.stderr) if shown else None
     try:
@@ -376,6 +377,7 @@ class ProgressBar:
 
 def _verify(args: argparse.Namespace, settings: Settings) -> int:
     from service.archive import db
+    from service.render.options import from_settings
     from service.seal import keys, verify
     from service.workflow import sealing
 
@@ -385,7 +387,7 @@ def _verify(args: argparse.Namespace, settings: Settings) -> int:
         roots = [development]
     rerender = None
     if not args.no_rerender:
-        rerender = sealing.rerender(settings.limits, settings.render_options().workers)
+        rerender = sealing.rerender(settings.limits, from_settings(settings).workers)
     report = verify.verify(_read(args.pack), trust_roots=roots, rerender=rerender)
     if not args.no_archive:
         if db.exists(settings.database_url):
@@ -403,6 +405,7 @@ def _verify(args: argparse.Namespace, settings: Settings) -> int:
 
 def _walkthrough(args: argparse.Namespace, settings: Settings) -> int:
     from service.archive import db
+    from service.render.options import from_settings
     from service.seal import keys, verify
     from service.workflow import sealing, walkthrough
 
@@ -419,7 +422,7 @@ def _walkthrough(args: argparse.Namespace, settings: Settings) -> int:
     report = verify.verify(
         walked.sealed_pdf,
         trust_roots=roots,
-        rerender=sealing.rerender(settings.limits, settings.render_options().workers),
+        rerender=sealing.rerender(settings.limits, from_settings(settings).workers),
     )
     sealing.compare_with_archive(report, db.connect(settings.database_url))
     for step in report.steps:
@@ -429,13 +432,12 @@ def _walkthrough(args: argparse.Namespace, settings: Settings) -> int:
 
 
 def _worker(args: argparse.Namespace, settings: Settings) -> int:
-    from service.distributed.queue import run_worker
+    from service.app import worker
 
     if not settings.queue_url:
         print("error: set PLUMBLINE_QUEUE_URL (e.g. redis://127.0.0.1:6379/0)", file=sys.stderr)
         return EXIT_INVALID
-    run_worker(settings, args.celery_args)
-    return EXIT_OK
+    return worker(settings, args.celery_args)
 
 
 def _aware_time(text: str) -> datetime:
@@ -472,7 +474,7 @@ def _keys_revoke(args: argparse.Namespace, settings: Settings) -> int:
 
 
 def _serve(args: argparse.Namespace, settings: Settings) -> int:
-    from service.api.app import serve
+    from service.app import serve
 
     return serve(settings, host=args.host, port=args.port)
 

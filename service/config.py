@@ -5,13 +5,9 @@ from __future__ import annotations
 import os
 from functools import lru_cache
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 from pydantic import BaseModel, Field, SecretStr, model_validator
 from pydantic_settings import BaseSettings, SettingsConfigDict
-
-if TYPE_CHECKING:
-    from service.render.options import RenderOptions
 
 
 class Limits(BaseModel):
@@ -113,19 +109,6 @@ class Settings(BaseSettings):
     @property
     def store_dir(self) -> Path:
         return self.data_dir / "files"
-
-    def render_options(self, *, service: bool = False, cache: bool = True) -> RenderOptions:
-        """How to draw charts: ``service`` for inside the service's workers, ``cache`` off to
-        draw everything afresh (as verification must)."""
-        from service.render.options import RenderOptions
-
-        workers = self.render_workers or (1 if service else max(1, os.cpu_count() or 1))
-        folder = self.chart_cache_dir or self.data_dir / "chart-cache"
-        return RenderOptions(
-            workers=workers,
-            cache_dir=folder if cache and self.chart_cache else None,
-            cache_max_bytes=self.chart_cache_max_bytes,
-        )
 
 
 @lru_cache(maxsize=1)

@@ -17,10 +17,25 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
     │
     │   defined beside what raises them:
-    ├── api.pool.RenderMemory (422, render_memory)                   past PLUMBLINE_WORKER_MEMORY_MB
+    ├── runner.pool.RenderMemory (422, render_memory)                past PLUMBLINE_WORKER_MEMORY_MB
     ├── archive.db.DatabaseUnavailable (503, database_unavailable)   connection lost, or busy
     ├── archive.files.StorageFull (507, insufficient_storage)        the store's disk is full
-    └── archive.objects.StoreUnavailable (503, store_unavailable)    the object store cannot be reached
+    ├── archive.objects.StoreUnavailable (503, store_unavailable)    the object store cannot be reached
+    ├── archive.migrate.SchemaMismatch (500, schema_mismatch)        the database is of another version
+    ├── seal.keys.KeyProblem (500, seal_key)                         the signing key cannot be used
+    ├── seal.sign.NotSealed (422, not_sealed)                        the bytes are not a sealed pack
+    ├── runner.services.NotReady (503, not_ready)                    a part the service needs is down
+    ├── web.session.SessionSecretProblem (500, session_secret)       the pages' session secret is unusable
+    ├── distributed.options.QueueMisconfigured (500, queue_misconfigured)   PLUMBLINE_QUEUE_* is wrong
+    └── distributed.jobs.QueueUnavailable (503, queue_unavailable)   the broker did not take a job
+
+Every class has a stable ``code`` (the API answers it as ``code`` and as the problem's ``type``,
+``urn:plumbline:error:<code>``) and the ``status`` the API answers with; ``tests/unit/
+test_error_tree.py`` holds every exception class under ``service/`` to this tree. Errors cross
+process boundaries (worker processes, Celery) by pickling, which keeps every attribute.
+
+A 5xx answer never carries a foreign exception's text: the failure is logged under an opaque
+incident id (``service.logs.incident``) and the answer names the id (``incident``).
 
 Foreign exceptions are translated at the stage boundary (``raise RenderFailed(...) from exc``).
 """
@@ -82,10 +97,27 @@ def _short(value: Any, limit: int = 60) -> str:
 class PlumblineError(Exception):
     code = "internal_error"
     status = 500
+    incident: str | None = None
+    """The id a server-side failure was logged under, when it was logged where it happened."""
 
-    def __init__(self, message: str) -> None:
+    def __init__(self, message: str, *, incident: str | None = None) -> None:
         super().__init__(message)
         self.message = message
+        if incident is not None:
+            self.incident = incident
+
+    def __reduce__(self) -> tuple[Any, ...]:
+        # every attribute crosses a process boundary, whatever the subclass's __init__ takes
+        return (_rebuild, (type(self), self.args, self.__dict__))
+
+
+def _rebuild(
+    cls: type[PlumblineError], args: tuple[Any, ...], state: dict[str, Any]
+) -> PlumblineError:
+    error = cls.__new__(cls, *args)
+    error.args = args
+    error.__dict__.update(state)
+    return error
 
 
 class InvalidDefinition(PlumblineError):
@@ -96,9 +128,6 @@ class InvalidDefinition(PlumblineError):
         noun = "problem" if len(problems) == 1 else "problems"
         super().__init__(f"the report definition has {len(problems)} {noun}")
         self.problems = problems
-
-    def __reduce__(self) -> tuple[type[InvalidDefinition], tuple[list[Problem]]]:
-        return (InvalidDefinition, (self.problems,))  # crosses the worker-process boundary
 
 
 class PayloadTooLarge(PlumblineError):
@@ -113,13 +142,6 @@ class PayloadTooLarge(PlumblineError):
         )
         self.size = size
         self.limit = limit
-
-    def __reduce__(self) -> tuple[Any, ...]:
-        return (_payload_too_large, (self.size, self.limit))
-
-
-def _payload_too_large(size: int, limit: int) -> PayloadTooLarge:
-    return PayloadTooLarge(size=size, limit=limit)
 
 
 class Unreadable(PlumblineError):
@@ -173,10 +195,3 @@ class TooBusy(PlumblineError):
     def __init__(self, message: str, *, retry_after: int) -> None:
         super().__init__(message)
         self.retry_after = retry_after
-
-    def __reduce__(self) -> tuple[Any, ...]:
-        return (_too_busy, (self.message, self.retry_after))
-
-
-def _too_busy(message: str, retry_after: int) -> TooBusy:
-    return TooBusy(message, retry_after=retry_after)

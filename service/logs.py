@@ -33,7 +33,7 @@ _SANE_ID = re.compile(r"[A-Za-z0-9._-]{1,64}")
 ACCESS = "plumbline.access"
 """The logger of access lines: one per request, with method, path, status and duration_ms."""
 
-FIELDS = ("method", "path", "status", "duration_ms")
+FIELDS = ("method", "path", "status", "duration_ms", "incident")
 """Extra fields of a record (``log.info(..., extra={...})``) that are written out."""
 
 _SECRETS = (
@@ -103,6 +103,27 @@ class TextFormatter(logging.Formatter):
         return text
 
 
+def incident(
+    log: logging.Logger,
+    what: str,
+    *,
+    detail: str = "",
+    exc: BaseException | None = None,
+    found: str | None = None,
+) -> str:
+    """Log a server-side failure under an opaque id (``found``, or a new one) and return the id:
+    the answer names the id, the log holds the detail (a foreign exception's text and stack
+    never reach a client)."""
+    found = found or uuid.uuid4().hex[:12]
+    extra = {"incident": found}
+    if exc is not None:
+        text = f"{type(exc).__name__}: {exc}"
+        log.error("%s [%s]: %s", what, found, text, exc_info=exc, extra=extra)
+    else:
+        log.error("%s [%s]%s", what, found, f": {detail}" if detail else "", extra=extra)
+    return found
+
+
 class _Ours(logging.StreamHandler[TextIO]):
     """The handler ``setup`` installs (found again and replaced on a second call)."""
 
@@ -133,6 +154,7 @@ __all__ = [
     "JsonFormatter",
     "TextFormatter",
     "accept_request_id",
+    "incident",
     "redact",
     "request_id",
     "setup",

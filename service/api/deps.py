@@ -3,39 +3,19 @@
 from __future__ import annotations
 
 import hashlib
-from collections import OrderedDict
-from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Annotated, Any
+from typing import Annotated
 
 from fastapi import Depends, Path, Request
 from fastapi.dependencies.models import Dependant
 from fastapi.routing import APIRoute
 from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
-from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
-from service.api.jobs import Jobs
-from service.api.workers import Workers
-from service.archive.db import PackRow
-from service.archive.files import BlobStore
-from service.config import Settings
 from service.errors import InvalidRequest, Unauthorized
+from service.runner.services import Services
 from service.workflow import drafts, keys
+from service.workflow.drafts import Pack
 from service.workflow.keys import Principal
-
-if TYPE_CHECKING:
-    from service.distributed.jobs import CeleryJobs  # Celery loads only when configured
-
-
-@dataclass
-class Services:
-    settings: Settings
-    sessions: sessionmaker[Any]
-    store: BlobStore
-    workers: Workers
-    jobs: Jobs | CeleryJobs
-    known_keys: OrderedDict[bytes, str] = field(default_factory=OrderedDict)
-    """SHA-256 of a secret already checked with scrypt → its key id (most recent last)."""
 
 
 def _services(request: Request) -> Services:
@@ -82,11 +62,11 @@ async def _principal(
 PrincipalDep = Annotated[Principal, Depends(_principal)]
 
 
-def _pack(pack_id: PackId, services: ServicesDep, principal: PrincipalDep) -> PackRow:
+def _pack(pack_id: PackId, services: ServicesDep, principal: PrincipalDep) -> Pack:
     return drafts.visible(sessions=services.sessions, principal=principal, pack_id=pack_id)
 
 
-PackDep = Annotated[PackRow, Depends(_pack)]
+PackDep = Annotated[Pack, Depends(_pack)]
 
 
 def single_query_values(request: Request) -> None:

@@ -10,42 +10,61 @@ from __future__ import annotations
 
 from typing import Any
 
+from pydantic import BaseModel, Field
+
 PROBLEM_MEDIA_TYPE = "application/problem+json"
 
 _TEXT: dict[str, Any] = {"type": "string"}
 
-PROBLEM_SCHEMA: dict[str, Any] = {
-    "title": "Problem",
-    "description": "RFC 9457 problem details, with Plumbline's stable code; a definition's "
-    "problems are listed in `errors`, each with the path into the definition.",
-    "type": "object",
-    "required": ["type", "title", "status", "code", "detail"],
-    "properties": {
-        "type": {**_TEXT, "description": "urn:plumbline:error:<code>"},
-        "title": _TEXT,
-        "status": {"type": "integer", "minimum": 400, "maximum": 599},
-        "code": {**_TEXT, "description": "A stable code, e.g. invalid_definition, not_found."},
-        "detail": {**_TEXT, "description": "What is wrong, and how to put it right."},
-        "errors": {
-            "type": "array",
-            "description": "Every problem found, each where it is.",
-            "items": {
-                "type": "object",
-                "required": ["code", "path", "message"],
-                "properties": {
-                    "code": _TEXT,
-                    "path": {**_TEXT, "description": "e.g. sections[0].charts[1].measure"},
-                    "message": _TEXT,
-                    "hint": _TEXT,
-                    "value": {"description": "The offending value, when it helps."},
-                    "context": {"type": "object"},
-                },
-            },
-        },
-        "incident": {**_TEXT, "description": "The id under which a server error was logged."},
-        "request_id": {**_TEXT, "description": "The request's id, as in X-Request-ID."},
-    },
-}
+
+class ProblemItem(BaseModel):
+    """One problem found, where it is."""
+
+    code: str
+    path: str = Field(description="e.g. sections[0].charts[1].measure")
+    message: str
+    hint: str = ""
+    value: Any = Field(None, description="The offending value, when it helps.")
+    context: dict[str, Any] = Field(default_factory=dict)
+
+
+class Problem(BaseModel):
+    """RFC 9457 problem details, with Plumbline's stable code; a definition's problems are listed
+    in `errors`, each with the path into the definition."""
+
+    type: str = Field(description="urn:plumbline:error:<code>")
+    title: str
+    status: int = Field(ge=400, le=599)
+    code: str = Field(description="A stable code, e.g. invalid_definition, not_found.")
+    detail: str = Field(description="What is wrong, and how to put it right.")
+    errors: list[ProblemItem] = Field(
+        default_factory=list, description="Every problem found, each where it is."
+    )
+    incident: str = Field("", description="The id under which a server error was logged.")
+    request_id: str = Field("", description="The request's id, as in X-Request-ID.")
+
+
+def _inline(model: type[BaseModel]) -> dict[str, Any]:
+    """``model``'s JSON Schema with its nested models written in place (no references)."""
+    schema = model.model_json_schema()
+    defs = schema.pop("$defs", {})
+
+    def resolve(node: Any) -> Any:
+        if isinstance(node, dict):
+            ref = node.get("$ref", "")
+            if ref.startswith("#/$defs/"):
+                return resolve(defs[ref.removeprefix("#/$defs/")])
+            return {k: resolve(v) for k, v in node.items()}
+        if isinstance(node, list):
+            return [resolve(v) for v in node]
+        return node
+
+    resolved: dict[str, Any] = resolve(schema)
+    return resolved
+
+
+PROBLEM_SCHEMA: dict[str, Any] = _inline(Problem)
+"""The body of every error answer (``errors.problem`` writes it)."""
 
 _MEANING = {
     400: "The request body cannot be read (e.g. it is not UTF-8).",

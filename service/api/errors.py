@@ -8,7 +8,6 @@ answered 500 without internals.
 from __future__ import annotations
 
 import logging
-import uuid
 from typing import Any
 
 from fastapi import FastAPI, Request
@@ -16,6 +15,7 @@ from fastapi.exceptions import RequestValidationError
 from fastapi.responses import JSONResponse
 from starlette.exceptions import HTTPException
 
+from service import logs
 from service.definition import paths
 from service.errors import InvalidDefinition, PlumblineError, Problem, TooBusy
 
@@ -59,11 +59,9 @@ def install(app: FastAPI) -> None:
     @app.exception_handler(PlumblineError)
     async def _known(request: Request, exc: PlumblineError) -> JSONResponse:
         if exc.status >= 500:
-            incident = uuid.uuid4().hex[:12]
-            log.error("request failed [%s]: %s", incident, exc.message)
-            return problem(
-                exc.status, exc.code, f"{exc.message} (incident {incident})", incident=incident
-            )
+            incident = logs.incident(log, "request failed", detail=exc.message, found=exc.incident)
+            detail = exc.message if exc.incident else f"{exc.message} (incident {incident})"
+            return problem(exc.status, exc.code, detail, incident=incident)
         response = problem(exc.status, exc.code, exc.message)
         if exc.status == 401:
             response.headers["WWW-Authenticate"] = 'Bearer realm="plumbline"'
@@ -89,8 +87,7 @@ def install(app: FastAPI) -> None:
 
     @app.exception_handler(Exception)
     async def _last_resort(request: Request, exc: Exception) -> JSONResponse:
-        incident = uuid.uuid4().hex[:12]
-        log.exception("unhandled error [%s]", incident)
+        incident = logs.incident(log, "unhandled error", exc=exc)
         return problem(
             500,
             "internal_error",

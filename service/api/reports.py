@@ -15,12 +15,12 @@ from fastapi import APIRouter, Depends, Path, Query, Request, Response
 from pydantic import BaseModel, ConfigDict, Field
 from starlette.concurrency import run_in_threadpool
 
-from service.api import deps, docs, idempotency, jobs
-from service.api.deps import PackDep, PackId, PrincipalDep, Services, ServicesDep
-from service.archive import audit
-from service.archive.db import PackRow, SealRow, WaiverRow
-from service.errors import InvalidRequest, NotFound
-from service.workflow import compare, drafts, lifecycle, sealing
+from service.api import deps, docs, idempotency
+from service.api.deps import PackDep, PackId, PrincipalDep, ServicesDep
+from service.errors import NotFound
+from service.runner import views as job_views
+from service.runner.services import Services
+from service.workflow import compare, drafts, lifecycle, views
 from service.workflow.keys import Principal
 
 router = APIRouter(
@@ -38,7 +38,7 @@ _CREATED: dict[int | str, dict[str, Any]] = {
     },
     202: {
         "description": "With wait=false: the job that builds the draft (GET its Location).",
-        "content": {"application/json": {"schema": {"type": "object"}}},
+        "content": {"application/json": {"schema": {"$ref": "#/components/schemas/JobView"}}},
         "headers": {"Location": {"schema": {"type": "string"}}},
     },
     **docs.refusals(401, 403, 409, 413, 422, 429, 500),
@@ -68,99 +68,10 @@ class SignOffRequest(_Body):
     )
 
 
-def links(row: PackRow) -> dict[str, str]:
-    base = f"/v1/reports/{row.id}"
-    return {
-        "self": base,
-        "pdf": f"{base}/pdf",
-        "checks": f"{base}/checks",
-        "audit": f"{base}/audit",
-        "sealed": f"{base}/sealed",
-        "compare": f"{base}/compare/{{other_id}}",
-    }
-
-
-def pack_view(services: Services, row: PackRow, *, with_results: bool) -> dict[str, Any]:
-    """A pack as the API shows it: report, status, checks summary, review and seal."""
-    review = drafts.review(sessions=services.sessions, pack_id=row.id)
-    sealed = drafts.seal_of(sessions=services.sessions, pack_id=row.id)
-    view: dict[str, Any] = {
-        "id": row.id,
-        "report": {
-            "id": row.report_id,
-            "title": row.title,
-            "period": row.period,
-            "as_of": row.as_of,
-        },
-        "status": row.status,
-        "blocked": row.blocked,
-        "summary": row.summary,
-        "failed": [f"{r['check']} on {r['chart']}" for r in row.results if r["status"] == "failed"],
-        "unused_waivers": row.unused_waivers,
-        "pdf": {"sha256": row.pdf_sha256, "bytes": row.pdf_bytes},
-        "definition_sha256": row.definition_sha256,
-        "created_at": row.created_at.isoformat(),
-        "review": None
-        if review is None
-        else {
-            "authors": [a["name"] for a in review.authors],
-            "submitted_sha256": review.submitted_sha256,
-            "submitted_at": _iso(review.submitted_at),
-            "signed_off_by": review.signed_off_name,
-            "signed_off_at": _iso(review.signed_off_at),
-            "signed_off_sha256": review.signed_off_sha256,
-            "superseded_by": review.superseded_by,
-        },
-        "sealed": None if sealed is None else seal_view(sealed),
-        "links": links(row),
-    }
-    if with_results:
-        view["checks"] = row.results
-        view["waivers"] = [_waiver(w) for w in _waivers(services, row)]
-    return view
-
-
-def seal_view(sealed: SealRow) -> dict[str, Any]:
-    return {
-        "sha256": sealed.sha256,
-        "bytes": sealed.bytes,
-        "signer": sealed.signer,
-        "development_key": sealed.development_key,
-        "pdfa": sealed.pdfa,
-        "sealed_at": _iso(sealed.sealed_at),
-    }
-
-
-def _iso(moment: Any) -> str | None:
-    return None if moment is None else str(moment.isoformat())
-
-
-def _waivers(services: Services, row: PackRow) -> list[WaiverRow]:
-    from sqlalchemy import select
-
-    with services.sessions() as session:
-        return list(
-            session.scalars(
-                select(WaiverRow).where(WaiverRow.pack_id == row.id).order_by(WaiverRow.id)
-            ).all()
-        )
-
-
-def _waiver(w: WaiverRow) -> dict[str, Any]:
-    return {
-        "check": w.check,
-        "chart": w.chart,
-        "reason": w.reason,
-        "by": w.by_name,
-        "at": w.at.isoformat(),
-        "pdf_sha256": w.pdf_sha256,
-    }
-
-
 async def _view(services: Services, principal: Principal, pack_id: str) -> dict[str, Any]:
     def load() -> dict[str, Any]:
         row = drafts.visible(sessions=services.sessions, principal=principal, pack_id=pack_id)
-        return pack_view(services, row, with_results=True)
+        return views.pack_detail(services.sessions, row).json_body()
 
     return await run_in_threadpool(load)
 
@@ -170,6 +81,7 @@ async def _view(services: Services, principal: Principal, pack_id: str) -> dict[
     status_code=201,
     openapi_extra=docs.merged(docs.DEFINITION_BODY, docs.IDEMPOTENCY_KEY),
     responses=_CREATED,
+    response_model=views.PackDetail,
 )
 async def create_report(
     request: Request,
@@ -192,24 +104,16 @@ async def create_report(
 
         async def queue() -> idempotency.Answer:
             job = await services.jobs.start(principal, raw)
-            return 202, jobs.view(job), f"/v1/jobs/{job.id}"
+            return 202, job_views.view(job).json_body(), f"/v1/jobs/{job.id}"
 
-        return await idempotency.once(request, services.sessions, principal, raw, queue)
+        return await idempotency.once(request, services, principal, raw, queue)
 
     async def run() -> idempotency.Answer:
-        built = await services.workers.build(raw, services.settings.limits)
-        row = await run_in_threadpool(
-            drafts.create,
-            sessions=services.sessions,
-            store=services.store,
-            built=built,
-            definition=raw,
-            author=principal,
-        )
-        view = await run_in_threadpool(pack_view, services, row, with_results=True)
-        return 201, view, f"/v1/reports/{row.id}"
+        row = await services.build_draft(principal, raw)
+        view = await run_in_threadpool(views.pack_detail, services.sessions, row)
+        return 201, view.json_body(), f"/v1/reports/{row.id}"
 
-    return await idempotency.once(request, services.sessions, principal, raw, run)
+    return await idempotency.once(request, services, principal, raw, run)
 
 
 MAX_OFFSET = 1_000_000_000
@@ -218,7 +122,7 @@ beyond them was a 500)."""
 _STATUS_PATTERN = f"^({'|'.join(drafts.STATUSES)})$"
 
 
-@router.get("", responses=docs.refusals(401, 422))
+@router.get("", responses=docs.refusals(401, 422), response_model=views.PackList)
 def list_reports(
     *,
     services: ServicesDep,
@@ -232,54 +136,28 @@ def list_reports(
     signer: Annotated[str | None, Query(description="Part of the approver's name.")] = None,
     limit: Annotated[int, Query(ge=1, le=drafts.MAX_PAGE)] = 50,
     offset: Annotated[int, Query(ge=0, le=MAX_OFFSET)] = 0,
-) -> dict[str, Any]:
+) -> views.PackList:
     """The packs this key may see, newest first, narrowed by report, period, status and signer."""
     query = drafts.Query(report, period, status, signer, limit, offset)
-    rows, total = drafts.search(sessions=services.sessions, principal=principal, query=query)
-    return {
-        "total": total,
-        "limit": limit,
-        "offset": offset,
-        "packs": [pack_view(services, r, with_results=False) for r in rows],
-    }
+    return views.pack_list(services.sessions, principal, query)
 
 
-@router.get("/{pack_id}", responses=_READ)
-def get_report(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
+@router.get("/{pack_id}", responses=_READ, response_model=views.PackSummary)
+def get_report(pack: PackDep, services: ServicesDep) -> views.PackSummary:
     """A stored pack: its report, status, check summary, review, seal and links."""
-    return pack_view(services, pack, with_results=False)
+    return views.pack_summary(services.sessions, pack)
 
 
-@router.get("/{pack_id}/checks", responses=_READ)
-def get_checks(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
+@router.get("/{pack_id}/checks", responses=_READ, response_model=views.PackChecks)
+def get_checks(pack: PackDep, services: ServicesDep) -> views.PackChecks:
     """Every check result of a stored pack, and the waivers given in review."""
-    return {
-        "id": pack.id,
-        "blocked": pack.blocked,
-        "summary": pack.summary,
-        "checks": pack.results,
-        "waivers": [_waiver(w) for w in _waivers(services, pack)],
-    }
+    return views.pack_checks(services.sessions, pack)
 
 
-@router.get("/{pack_id}/audit", responses=_READ)
-def get_audit(pack: PackDep, services: ServicesDep) -> dict[str, Any]:
+@router.get("/{pack_id}/audit", responses=_READ, response_model=views.PackAudit)
+def get_audit(pack: PackDep, services: ServicesDep) -> views.PackAudit:
     """The pack's audit trail: every action on it, who, when, and the content hash it concerned."""
-    return {
-        "id": pack.id,
-        "entries": [
-            {
-                "seq": e.seq,
-                "at": e.at.isoformat(),
-                "key_id": e.key_id,
-                "name": e.name,
-                "action": e.action,
-                "content_hash": e.content_hash,
-                "detail": e.detail,
-            }
-            for e in audit.trail(services.sessions, pack.id)
-        ],
-    }
+    return views.pack_audit(services.sessions, pack)
 
 
 @router.get("/{pack_id}/compare/{other_id}", responses=docs.refusals(401, 404, 409, 422))
@@ -340,13 +218,14 @@ async def _act(
         await action()
         return 200, await _view(services, principal, pack_id), None
 
-    return await idempotency.once(request, services.sessions, principal, raw, run)
+    return await idempotency.once(request, services, principal, raw, run)
 
 
 @router.post(
     "/{pack_id}/submit",
     responses=docs.refusals(401, 403, 404, 409, 422),
     openapi_extra=docs.IDEMPOTENCY_KEY,
+    response_model=views.PackDetail,
 )
 async def submit(
     pack_id: str, request: Request, services: ServicesDep, principal: PrincipalDep
@@ -361,7 +240,12 @@ async def submit(
     return await _act(request, services, principal, pack_id, action)
 
 
-@router.post("/{pack_id}/request-changes", responses=_ACT, openapi_extra=docs.IDEMPOTENCY_KEY)
+@router.post(
+    "/{pack_id}/request-changes",
+    responses=_ACT,
+    openapi_extra=docs.IDEMPOTENCY_KEY,
+    response_model=views.PackDetail,
+)
 async def request_changes(
     pack_id: str,
     body: ChangesRequest,
@@ -383,7 +267,12 @@ async def request_changes(
     return await _act(request, services, principal, pack_id, action)
 
 
-@router.post("/{pack_id}/waivers", responses=_ACT, openapi_extra=docs.IDEMPOTENCY_KEY)
+@router.post(
+    "/{pack_id}/waivers",
+    responses=_ACT,
+    openapi_extra=docs.IDEMPOTENCY_KEY,
+    response_model=views.PackDetail,
+)
 async def waive(
     pack_id: str,
     body: WaiverRequest,
@@ -413,6 +302,7 @@ async def waive(
     "/{pack_id}/sign-off",
     responses={**_ACT, **docs.refusals(500)},
     openapi_extra=docs.IDEMPOTENCY_KEY,
+    response_model=views.PackDetail,
 )
 async def sign_off(
     pack_id: str,
@@ -426,26 +316,9 @@ async def sign_off(
     archived in the same step."""
 
     async def action() -> None:
-        await sign_off_and_seal(services, principal, pack_id, body.content_sha256)
+        await services.sign_off_and_seal(principal, pack_id, body.content_sha256)
 
     return await _act(request, services, principal, pack_id, action)
-
-
-async def sign_off_and_seal(
-    services: Services, principal: Principal, pack_id: str, content_sha256: str
-) -> SealRow:
-    """Sign off and seal a pack, sealing in a worker process (used by the API and the web pages)."""
-    if not content_sha256:
-        raise InvalidRequest("name the SHA-256 of the draft PDF that was reviewed")
-    return await run_in_threadpool(
-        sealing.sign_off_and_seal,
-        sessions=services.sessions,
-        store=services.store,
-        principal=principal,
-        pack_id=pack_id,
-        content_sha256=content_sha256,
-        sealer=services.workers.sealer(services.settings),
-    )
 
 
 jobs_router = APIRouter(
@@ -453,12 +326,17 @@ jobs_router = APIRouter(
 )
 
 
-@jobs_router.get("/{job_id}", responses=_READ)
+@jobs_router.get(
+    "/{job_id}",
+    responses=_READ,
+    response_model=job_views.JobView,
+    response_model_exclude_unset=True,
+)
 def get_job(
     job_id: Annotated[str, Path(pattern=r"^jb_[0-9a-f]{32}$")],
     services: ServicesDep,
     principal: PrincipalDep,
-) -> dict[str, Any]:
+) -> job_views.JobView:
     """A background build: queued, running (stage, charts done of total), done (with the draft's
     id) or failed (with the problem). Only the key that posted it sees it."""
-    return jobs.view(services.jobs.get(principal, job_id))
+    return job_views.view(services.jobs.get(principal, job_id))

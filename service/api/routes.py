@@ -6,6 +6,7 @@ from __future__ import annotations
 from typing import Any
 
 from fastapi import APIRouter, Depends, Request
+from pydantic import BaseModel
 from starlette.concurrency import run_in_threadpool
 
 from service import __version__, pipeline
@@ -13,15 +14,29 @@ from service.api import deps, docs
 from service.api.deps import PrincipalDep, ServicesDep
 from service.checks import registry
 from service.definition.schema import definition_schema
-from service.workflow import sealing
 
 router = APIRouter(prefix="/v1", dependencies=[Depends(deps.single_query_values)])
 
 
-@router.get("/health", tags=["service"])
-async def health() -> dict[str, str]:
+class Health(BaseModel):
+    status: str
+    version: str
+
+
+class CheckAnswer(BaseModel):
+    """A definition's checks, run without rendering or storing anything."""
+
+    report: str
+    blocked: bool
+    summary: dict[str, int]
+    checks: list[dict[str, Any]]
+    unused_waivers: list[str]
+
+
+@router.get("/health", tags=["service"], response_model=Health)
+async def health() -> Health:
     """The service is alive."""
-    return {"status": "ok", "version": __version__}
+    return Health(status="ok", version=__version__)
 
 
 @router.get("/schema", tags=["definitions"])
@@ -42,10 +57,11 @@ async def checks() -> list[dict[str, Any]]:
     tags=["checks"],
     openapi_extra=docs.DEFINITION_BODY,
     responses=docs.refusals(401, 413, 422),
+    response_model=CheckAnswer,
 )
 async def check_definition(
     request: Request, services: ServicesDep, principal: PrincipalDep
-) -> dict[str, Any]:
+) -> CheckAnswer:
     """Validate a definition and run its checks without rendering or storing anything."""
     raw = await request.body()
     checked = await run_in_threadpool(
@@ -53,13 +69,13 @@ async def check_definition(
     )
     from service.checks.results import summary
 
-    return {
-        "report": checked.definition.report.id,
-        "blocked": checked.blocked,
-        "summary": summary(checked.results),
-        "checks": [r.model_dump(mode="json") for r in checked.results],
-        "unused_waivers": checked.unused_waivers,
-    }
+    return CheckAnswer(
+        report=checked.definition.report.id,
+        blocked=checked.blocked,
+        summary=summary(checked.results),
+        checks=[r.model_dump(mode="json") for r in checked.results],
+        unused_waivers=checked.unused_waivers,
+    )
 
 
 @router.post(
@@ -76,16 +92,5 @@ async def verify_pack(
     gives the same bytes; the file is the one this archive sealed.
 
     Trusted: the organisation's certificate when configured, else the development certificate."""
-    from service.seal import keys
-
-    pdf = await request.body()
-    settings = services.settings
-    roots: list[bytes] = []
-    if settings.seal_cert is not None:
-        roots.append(settings.seal_cert.read_bytes())
-    development = keys.development_certificate(settings.data_dir / "keys")
-    if development is not None:
-        roots.append(development)
-    report = await services.workers.verify(pdf, roots, settings.limits)
-    await run_in_threadpool(sealing.compare_with_archive, report, services.sessions)
+    report = await services.verify(await request.body())
     return report.as_dict()

@@ -12,6 +12,7 @@ by the database, so nothing half-written is left and the same request can simply
 
 from __future__ import annotations
 
+import logging
 from datetime import UTC, datetime
 from pathlib import Path
 from typing import Any
@@ -31,8 +32,11 @@ from sqlalchemy import (
 from sqlalchemy.engine import Engine, ExceptionContext, make_url
 from sqlalchemy.orm import DeclarativeBase, Mapped, Session, mapped_column, sessionmaker
 
+from service import logs
 from service.archive.files import StorageFull
 from service.errors import PlumblineError
+
+log = logging.getLogger("plumbline.archive")
 
 
 class DatabaseUnavailable(PlumblineError):
@@ -113,9 +117,11 @@ def _translate(context: ExceptionContext) -> None:
     message = str(original).lower()
     sqlite = context.dialect is not None and context.dialect.name == "sqlite"
     if context.is_disconnect:
+        what = "the connection to the archive database was lost in the middle of the request"
+        incident = logs.incident(log, what, exc=original)
         raise DatabaseUnavailable(
-            "the connection to the archive database was lost in the middle of the request "
-            f"({_first_line(original)}); nothing was saved, send the request again"
+            f"{what} (incident {incident}); nothing was saved, send the request again",
+            incident=incident,
         )
     if sqlite and any(text in message for text in _SQLITE_FULL):
         raise StorageFull(
@@ -127,11 +133,6 @@ def _translate(context: ExceptionContext) -> None:
             "the archive database stayed busy with other writes for longer than its wait "
             "limit; nothing was saved, send the request again in a moment"
         )
-
-
-def _first_line(error: BaseException) -> str:
-    lines = str(error).strip().splitlines()
-    return lines[0] if lines else type(error).__name__
 
 
 def _sqlite_pragmas(connection: Any, _record: Any) -> None:

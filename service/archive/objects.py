@@ -14,11 +14,13 @@ from __future__ import annotations
 
 import base64
 import hashlib
+import logging
 import os
 from pathlib import Path
 from typing import Any
 from urllib.parse import urlsplit
 
+from service import logs
 from service.archive.files import BlobStore, Store
 from service.config import Settings
 from service.errors import NotFound, PlumblineError
@@ -26,6 +28,9 @@ from service.errors import NotFound, PlumblineError
 _HEX = frozenset("0123456789abcdef")
 _MISSING = {"404", "NoSuchKey", "NotFound"}
 _ALREADY_THERE = {"PreconditionFailed", "ConditionalRequestConflict"}
+
+
+log = logging.getLogger("plumbline.store")
 
 
 class StoreUnavailable(PlumblineError):
@@ -115,7 +120,10 @@ class ObjectStore:
             hint = "check the AWS credentials in the environment and the bucket's policy"
         else:
             hint = "check PLUMBLINE_S3_ENDPOINT_URL and that the object store is running"
-        return StoreUnavailable(f"could not {action} {where}: {type(exc).__name__}: {exc}; {hint}")
+        incident = logs.incident(log, f"could not {action} {where}", exc=exc)
+        return StoreUnavailable(
+            f"could not {action} {where} (incident {incident}); {hint}", incident=incident
+        )
 
 
 def _code(exc: Exception) -> str:

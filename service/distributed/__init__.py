@@ -1,6 +1,6 @@
 """Background builds on more than one machine: jobs on Celery workers through a Redis broker.
 
-The embedded path (``service.api.jobs.Jobs``: the service's own worker processes, SQLite, local
+The embedded path (``service.runner.jobs.LocalJobs``: the service's own worker processes, SQLite, local
 files) needs no set-up and stays the default. With ``PLUMBLINE_QUEUE_URL=redis://…`` the service
 records the job and sends its id to the broker (``jobs.CeleryJobs``); any number of workers
 (``plumbline worker``, or ``celery -A service.distributed.app worker``) build it (``tasks``),

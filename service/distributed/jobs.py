@@ -1,5 +1,5 @@
-"""Background builds through the broker: the same interface as ``service.api.jobs.Jobs``, for a
-service whose builds run on Celery workers (``PLUMBLINE_QUEUE_URL`` set).
+"""Background builds through the broker: the runner's ``Jobs`` interface (``service.runner.jobs``)
+for a service whose builds run on Celery workers (``PLUMBLINE_QUEUE_URL`` set).
 
 ``start`` stores the definition, records the job *queued* and sends its id; a worker does the
 rest (``service.distributed.tasks``). Unlike the embedded pool, a job outlives the service that
@@ -11,6 +11,7 @@ message for a job that is still on its way costs only a look at its row.
 
 from __future__ import annotations
 
+import logging
 from datetime import timedelta
 from typing import Any
 
@@ -18,14 +19,17 @@ from sqlalchemy import select, update
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
-from service.api.jobs import FAILED, QUEUED, RUNNING, queued
+from service import logs
 from service.archive.db import JobRow, now, utc
 from service.archive.objects import BlobStore
 from service.config import Settings
 from service.distributed.options import QueueOptions
 from service.distributed.queue import TASK, make_app
-from service.errors import NotFound, PlumblineError
+from service.errors import PlumblineError
+from service.runner.jobs import UNFINISHED, JobState, load, queued
 from service.workflow.keys import Principal, Role
+
+log = logging.getLogger("plumbline.jobs")
 
 
 class QueueUnavailable(PlumblineError):
@@ -51,7 +55,7 @@ class CeleryJobs:
         stale = now() - timedelta(seconds=self.options.visibility_timeout_s)
         with self.sessions() as session:
             rows = session.execute(
-                select(JobRow.id, JobRow.updated_at).where(JobRow.status.in_((QUEUED, RUNNING)))
+                select(JobRow.id, JobRow.updated_at).where(JobRow.status.in_(UNFINISHED))
             ).all()
         lost = [job_id for job_id, updated in rows if utc(updated) < stale]
         for job_id in lost:
@@ -76,8 +80,8 @@ class CeleryJobs:
             with self.sessions.begin() as session:
                 session.execute(
                     update(JobRow)
-                    .where(JobRow.id == row.id, JobRow.status == QUEUED)
-                    .values(status=FAILED, stage="failed", error=error, updated_at=now())
+                    .where(JobRow.id == row.id, JobRow.status == JobState.QUEUED)
+                    .values(status=JobState.FAILED, stage="failed", error=error, updated_at=now())
                 )
             raise
 
@@ -85,18 +89,24 @@ class CeleryJobs:
         try:
             self.app.send_task(TASK, args=[job_id], retry=True)
         except Exception as exc:  # kombu's connection errors are translated here
+            incident = logs.incident(log, "the build queue did not take a job", exc=exc)
             raise QueueUnavailable(
                 f"the build queue at {_safe(self.options.url)} did not take the job "
-                f"({type(exc).__name__}: {exc}); check that Redis is running and "
-                "PLUMBLINE_QUEUE_URL, then post the definition again"
+                f"(incident {incident}); check that Redis is running and "
+                "PLUMBLINE_QUEUE_URL, then post the definition again",
+                incident=incident,
             ) from exc
 
     def get(self, principal: Principal, job_id: str) -> JobRow:
-        with self.sessions() as session:
-            row: JobRow | None = session.get(JobRow, job_id)
-        if row is None or row.key_id != principal.key_id:
-            raise NotFound(f"there is no job '{job_id}'")
-        return row
+        return load(self.sessions, principal, job_id)
+
+    def ping(self, timeout: float) -> None:
+        """Reach the broker (Redis: PING); raises if it does not answer."""
+        with self.app.connection_for_write() as connection:
+            connection.ensure_connection(max_retries=1, interval_start=0, timeout=timeout)
+            client = getattr(connection.default_channel, "client", None)
+            if client is not None:
+                client.ping()  # redis: PING
 
     async def close(self) -> None:
         """Release the broker connections; queued jobs stay with the broker."""

@@ -85,7 +85,7 @@ def _connect_signals(settings: Settings) -> None:
 
 def run_worker(settings: Settings, argv: Sequence[str] = ()) -> None:
     """Run a worker in this process until it is stopped: one build at a time (the render itself
-    runs in a child process with its deadline, ``service.api.pool``)."""
+    runs in a child process with its deadline, ``service.runner.pool``)."""
     app = make_app(settings)
     app.worker_main(
         [

@@ -3,7 +3,7 @@
 1. A job that ended (*done* or *failed*) is left as it is: this is a redelivery of finished work.
 2. Otherwise the definition is read from the store by its SHA-256, the author rebuilt from the
    job's key (revoked or expired since: the job fails), and the pack built in a render process
-   with the render budget (``service.api.pool``), progress written to the job row.
+   with the render budget (``service.runner.pool``), progress written to the job row.
 3. The draft and the job's *done* (with the draft's id) are committed in one transaction, and the
    job's update is conditional on it being unfinished and without a draft: of two deliveries that
    both built (a redelivery while the first was still finishing), one commits and the other's
@@ -23,9 +23,6 @@ from typing import Any, cast
 from sqlalchemy import event, update
 from sqlalchemy.orm import Session, sessionmaker
 
-from service.api.jobs import DONE, FAILED, QUEUED, RUNNING
-from service.api.pool import Pool
-from service.api.workers import build_pack
 from service.archive import db
 from service.archive.db import JobRow, PackRow, now
 from service.archive.files import Store
@@ -33,16 +30,17 @@ from service.archive.objects import BlobStore, open_store
 from service.config import Limits, Settings
 from service.distributed.fanout import SharedGroups, draw_offered
 from service.distributed.render import warm
-from service.errors import InvalidDefinition, PlumblineError
 from service.pipeline import Built
-from service.render.options import RenderOptions
+from service.render.options import RenderOptions, from_settings
+from service.runner.jobs import UNFINISHED, JobState, failure
+from service.runner.pool import Pool
+from service.runner.workers import build_pack
 from service.workflow import drafts
 from service.workflow.keys import Principal, principal_for
 
 log = logging.getLogger("plumbline.worker")
 
 _THROTTLE_S = 0.5
-UNFINISHED = (QUEUED, RUNNING)
 
 
 @dataclass
@@ -78,7 +76,7 @@ def context(settings: Settings) -> Context:
                 pool=Pool(1, initializer=warm, timeout=settings.render_timeout_s),
                 limits=settings.limits,
                 render=replace(
-                    settings.render_options(service=True),
+                    from_settings(settings, service=True),
                     share=SharedGroups(settings.queue_url) if settings.fan_out_charts else None,
                 ),
                 queue_url=settings.queue_url,
@@ -106,7 +104,7 @@ def build(ctx: Context, job_id: str) -> str:
         return "finished-already"
     log.info("job %s: building (it was %s)", job_id, row.status)
     try:
-        _set(ctx, job_id, status=RUNNING, stage="started")
+        _set(ctx, job_id, status=JobState.RUNNING, stage="started")
         author = principal_for(ctx.sessions, row.key_id)
         raw = ctx.store.get(row.definition_sha256)
         built: Built = ctx.pool.run(
@@ -116,16 +114,8 @@ def build(ctx: Context, job_id: str) -> str:
             log.info("job %s was finished by another delivery; this draft is dropped", job_id)
             return "finished-already"
         log.info("job %s: done", job_id)
-    except PlumblineError as exc:
-        error: dict[str, Any] = {"code": exc.code, "status": exc.status, "detail": exc.message}
-        if isinstance(exc, InvalidDefinition):
-            error["errors"] = [p.as_dict() for p in exc.problems]
-        _set(ctx, job_id, status=FAILED, stage="failed", error=error)
-        return "failed"
-    except Exception as exc:  # a job must end, and say how
-        log.exception("job %s failed inside Plumbline", job_id)
-        error = {"code": "internal_error", "detail": f"{type(exc).__name__}: {exc}"}
-        _set(ctx, job_id, status=FAILED, stage="failed", error=error)
+    except Exception as exc:  # noqa: BLE001 - a job must end, and say how (failure logs it)
+        _set(ctx, job_id, status=JobState.FAILED, stage="failed", error=failure(exc))
         return "failed"
     return "done"
 
@@ -152,7 +142,7 @@ def store_draft(
                 JobRow.status.in_(UNFINISHED),
                 JobRow.pack_id.is_(None),
             )
-            .values(status=DONE, stage="done", pack_id=packs[0].id, updated_at=now())
+            .values(status=JobState.DONE, stage="done", pack_id=packs[0].id, updated_at=now())
         )
         if int(getattr(result, "rowcount", 0) or 0) != 1:
             raise _FinishedElsewhere(job_id)
@@ -199,7 +189,7 @@ def _progress(ctx: Context, job_id: str) -> Any:
         moment = time.monotonic()
         if stage != last[1] or moment - last[0] >= _THROTTLE_S or done == total:
             last[0], last[1] = moment, stage
-            _set(ctx, job_id, status=RUNNING, stage=stage, done=done, total=total)
+            _set(ctx, job_id, status=JobState.RUNNING, stage=stage, done=done, total=total)
 
     return progress
 

@@ -6,6 +6,7 @@ them); the defaults keep drawing serial, in this process, with no cache.
 
 from __future__ import annotations
 
+import os
 from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
@@ -14,6 +15,7 @@ from typing import TYPE_CHECKING, Protocol
 from service.errors import InvalidRequest
 
 if TYPE_CHECKING:
+    from service.config import Settings
     from service.intents.plan import ChartPlan
     from service.render.measured import LayoutReport
 
@@ -65,3 +67,17 @@ class RenderOptions:
                 f"chart_cache_max_bytes is {self.cache_max_bytes}: set "
                 "PLUMBLINE_CHART_CACHE_MAX_BYTES to a positive number of bytes"
             )
+
+
+def from_settings(
+    settings: Settings, *, service: bool = False, cache: bool = True
+) -> RenderOptions:
+    """How to draw charts, from the settings: ``service`` for inside the service's workers,
+    ``cache`` off to draw everything afresh (as verification must)."""
+    workers = settings.render_workers or (1 if service else max(1, os.cpu_count() or 1))
+    folder = settings.chart_cache_dir or settings.data_dir / "chart-cache"
+    return RenderOptions(
+        workers=workers,
+        cache_dir=folder if cache and settings.chart_cache else None,
+        cache_max_bytes=settings.chart_cache_max_bytes,
+    )

@@ -21,6 +21,7 @@ from cryptography.hazmat.primitives.asymmetric import rsa
 from cryptography.x509.oid import NameOID
 
 from service.archive.files import write_once
+from service.errors import PlumblineError
 
 DEVELOPMENT_ORGANISATION = "Plumbline development key (not an organisational seal)"
 DEVELOPMENT_FILE = "development-seal.pem"
@@ -50,8 +51,11 @@ class SigningKey:
         return f"SigningKey({kind}, subject={self.subject!r})"
 
 
-class KeyProblem(ValueError):
+class KeyProblem(PlumblineError, ValueError):
     """The configured key or certificate cannot be used for sealing."""
+
+    code = "seal_key"
+    status = 500
 
 
 def load(

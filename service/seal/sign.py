@@ -20,6 +20,7 @@ from pyhanko.pdf_utils.reader import PdfFileReader
 from pyhanko.sign import fields, signers
 from pyhanko_certvalidator.registry import SimpleCertificateStore
 
+from service.errors import PlumblineError
 from service.seal.keys import SigningKey
 
 FIELD_NAME = "PlumblineSeal"
@@ -55,8 +56,11 @@ def sign(pdf_bytes: bytes, key: SigningKey, *, reason: str | None = None) -> byt
     return signed
 
 
-class NotSealed(ValueError):
+class NotSealed(PlumblineError, ValueError):
     """The bytes are not a sealed pack: no readable first revision."""
+
+    code = "not_sealed"
+    status = 422
 
 
 def unsigned_part(signed_bytes: bytes) -> bytes:

@@ -5,7 +5,8 @@ waive, request changes, submit or sign off with plain HTML forms (no script is n
 action). Sessions are signed cookies; every form carries a CSRF token (``session``, ``visit``).
 
 This package sits beside ``service.api`` at the edge of the service: it calls the workflow library
-and the API's sign-off helper, and nothing imports it but the application factory.
+and the runner's services (``service.runner.services``), never the API, and nothing imports it but
+the composition root (``service.app``).
 """
 
 from __future__ import annotations

@@ -11,19 +11,17 @@ from __future__ import annotations
 
 import logging
 import re
-import uuid
 from typing import Annotated, Any
 
 from fastapi import APIRouter, Depends, Request
 from starlette.concurrency import run_in_threadpool
 from starlette.responses import Response
 
-from service.api import reports
+from service import logs
 from service.errors import InvalidRequest, NotFound, PlumblineError, Unauthorized
-from service.web import views
 from service.web.pages import FLASH, Stop, html, redirect
 from service.web.visit import Visit, form, refuse, safe_next, signed_in, visit
-from service.workflow import compare, drafts, keys, lifecycle
+from service.workflow import compare, drafts, keys, lifecycle, review
 
 log = logging.getLogger("plumbline.web")
 router = APIRouter(prefix="/review", include_in_schema=False)
@@ -61,9 +59,8 @@ def _not_found(current: Visit, pack_id: str) -> Stop:
 def _reason(exc: PlumblineError) -> str:
     if exc.status < 500:
         return exc.message
-    incident = uuid.uuid4().hex[:12]
-    log.error("review action failed [%s]: %s", incident, exc.message)
-    return f"{exc.message} (incident {incident})"
+    incident = logs.incident(log, "review action failed", detail=exc.message, found=exc.incident)
+    return exc.message if exc.incident else f"{exc.message} (incident {incident})"
 
 
 # --- signing in and out --------------------------------------------------------------------------
@@ -111,7 +108,7 @@ async def sign_out(request: Request, current: VisitDep) -> Response:
 async def queue(request: Request, current: VisitDep, done: str | None = None) -> Response:
     principal = signed_in(request, current)
     services = current.services
-    lists = await run_in_threadpool(views.queue, sessions=services.sessions, principal=principal)
+    lists = await run_in_threadpool(review.queue, sessions=services.sessions, principal=principal)
     return current.finish(html("queue.html", current.context(flash=_flash(done), **lists)))
 
 
@@ -129,7 +126,7 @@ async def _show_pack(
     services = current.services
     try:
         page = await run_in_threadpool(
-            views.pack_page,
+            review.pack_page,
             sessions=services.sessions,
             store=services.store,
             principal=principal,
@@ -138,7 +135,7 @@ async def _show_pack(
     except NotFound:
         raise _not_found(current, pack_id) from None
     context = current.context(
-        page=page, flash=flash, refused=refused, entered=entered or {}, moment=views.moment
+        page=page, flash=flash, refused=refused, entered=entered or {}, moment=review.moment
     )
     return current.finish(html("pack.html", context, status=status))
 
@@ -235,7 +232,7 @@ async def sign_off(request: Request, pack_id: str, current: VisitDep) -> Respons
                 "the form must name the SHA-256 of the draft PDF you reviewed (64 hex digits); "
                 "reload the page and sign off from there"
             )
-        await reports.sign_off_and_seal(current.services, principal, pack_id, digest)
+        await current.services.sign_off_and_seal(principal, pack_id, digest)
 
     return await _act(request, current, pack_id, action, "signed_off")
 
@@ -293,7 +290,7 @@ async def sealed_pdf(request: Request, pack_id: str, current: VisitDep) -> Respo
             current,
             404,
             "No sealed file",
-            f"The pack '{row.id}' has no sealed file: it is {views.STATUS_NAMES[row.status]}. "
+            f"The pack '{row.id}' has no sealed file: it is {review.STATUS_NAMES[row.status]}. "
             "A pack is sealed when an approver signs it off.",
         )
     data = await run_in_threadpool(current.services.store.get, sealed.sha256)

@@ -13,8 +13,8 @@ from fastapi import Request
 from starlette.concurrency import run_in_threadpool
 from starlette.responses import Response
 
-from service.api.deps import Services
 from service.errors import Unauthorized
+from service.runner.services import Services
 from service.web import session as cookies
 from service.web.pages import Stop, html, redirect
 from service.workflow import keys

@@ -11,11 +11,14 @@ from sqlalchemy import ColumnElement, false, func, or_, select
 from sqlalchemy.orm import sessionmaker
 
 from service.archive import audit
-from service.archive.db import PackRow, ReviewRow, SealRow, now
+from service.archive.db import PackRow, ReviewRow, SealRow, WaiverRow, now
 from service.archive.files import BlobStore
 from service.errors import Forbidden, InvalidRequest, NotFound
 from service.pipeline import Built
 from service.workflow.keys import Principal, Role, can_see
+
+Pack = PackRow
+"""A stored pack, as the edges name it (they do not import the archive's tables)."""
 
 DRAFT = "draft"
 STATUSES = ("draft", "in_review", "signed_off", "superseded")
@@ -101,6 +104,16 @@ def review(*, sessions: sessionmaker[Any], pack_id: str) -> ReviewRow | None:
     with sessions() as session:
         found: ReviewRow | None = session.get(ReviewRow, pack_id)
     return found
+
+
+def waivers_of(*, sessions: sessionmaker[Any], pack_id: str) -> list[WaiverRow]:
+    """The waivers given in review of a pack, in the order they were given."""
+    with sessions() as session:
+        return list(
+            session.scalars(
+                select(WaiverRow).where(WaiverRow.pack_id == pack_id).order_by(WaiverRow.id)
+            ).all()
+        )
 
 
 @dataclass(frozen=True)

@@ -81,6 +81,40 @@ def refusal(state: str, action: str) -> str:
     return REFUSALS.get((state, action), f"cannot {action.replace('_', ' ')} a pack in {state}")
 
 
+@dataclass(frozen=True)
+class Allowed:
+    """What a key may do to a pack now: the forms a page offers (each action applies every rule
+    again, so a forged form is still refused)."""
+
+    is_author: bool
+    submit: bool
+    waive: bool
+    request_changes: bool
+    sign_off: bool
+
+
+def allowed(
+    principal: Principal,
+    row: PackRow,
+    review: ReviewRow | None,
+    *,
+    waivable: bool,
+    blocked: bool,
+) -> Allowed:
+    """``waivable``: the pack has a failed check or standing waiver a reviewer may waive or
+    confirm; ``blocked``: one is still open."""
+    is_author = review is not None and review.is_author(principal.key_id, principal.name)
+    in_review = row.status == IN_REVIEW
+    roles = principal.roles
+    return Allowed(
+        is_author=is_author,
+        submit=Role.author in roles and row.status == DRAFT,
+        waive=Role.reviewer in roles and in_review and not is_author and waivable,
+        request_changes=bool(roles & {Role.reviewer, Role.approver}) and in_review,
+        sign_off=Role.approver in roles and in_review and not is_author and not blocked,
+    )
+
+
 def record_author(*, sessions: sessionmaker[Any], principal: Principal, pack_id: str) -> None:
     """Name the key that built a draft as its author (call when the draft is created)."""
     principal.require(Role.author)

@@ -19,6 +19,7 @@ from service.archive import db
 from service.archive.db import PackRow, SealRow, failed_checks, standing_waived_checks
 from service.archive.files import Store
 from service.config import Settings
+from service.render.options import from_settings
 from service.workflow import drafts, keys, lifecycle, sealing
 from service.workflow.keys import Principal, Role
 
@@ -51,7 +52,7 @@ def review_and_seal(
     store = Store(settings.store_dir)
     report_id = str(pipeline.intake(definition, settings.limits).definition.report.id)
     people = {role: _key(sessions, name, role, report_id) for role, name in PEOPLE.items()}
-    options = settings.render_options()
+    options = from_settings(settings)
     built = pipeline.build(definition, settings.limits, options=options)
     row = drafts.create(
         sessions=sessions,

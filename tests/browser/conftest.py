@@ -32,7 +32,7 @@ CHROMIUM_ARGS = [
 SERVE = (
     "import sys, uvicorn\n"
     "from service import web\n"
-    "from service.api.app import create_app\n"
+    "from service.app import create_app\n"
     "app = create_app()\n"
     "web.install(app)\n"
     "uvicorn.run(app, host='127.0.0.1', port=int(sys.argv[1]), log_level='info')\n"

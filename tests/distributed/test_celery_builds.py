@@ -17,11 +17,11 @@ from factories import make_definition, make_trend_chart
 from sqlalchemy import func, select
 
 from service import pipeline
-from service.api.jobs import FAILED, QUEUED
 from service.archive.db import AuditRow, JobRow, PackRow, ReviewRow, now
 from service.distributed import tasks
 from service.distributed.jobs import CeleryJobs
 from service.render.options import RenderOptions
+from service.runner.jobs import JobState
 from service.workflow.keys import Principal
 
 DEMO = Path(__file__).parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
@@ -74,7 +74,7 @@ def test_a_job_posted_to_the_queue_ends_done_with_its_pdf_in_the_object_store(
     raw = DEMO.read_bytes()
     began = time.monotonic()
     job = start(jobs, author, raw)
-    assert job.status == QUEUED
+    assert job.status == JobState.QUEUED
     ended = wait_until_ended(stack, job.id)
     took = time.monotonic() - began
     assert ended.status == "done", ended.error
@@ -146,7 +146,7 @@ def test_an_invalid_definition_ends_failed_with_every_problem(stack: Any) -> Non
     definition = json.loads(DEMO.read_text())
     definition["sections"][0]["charts"][0]["dataset"] = "no-such-dataset"
     ended = wait_until_ended(stack, start(jobs, author, json.dumps(definition).encode()).id)
-    assert ended.status == FAILED
+    assert ended.status == JobState.FAILED
     assert ended.pack_id is None
     assert ended.error is not None
     assert ended.error["code"] == "invalid_definition"
@@ -169,7 +169,7 @@ def test_recover_sends_a_lost_job_again(stack: Any) -> None:
                 JobRow(
                     id=job_id,
                     key_id=author.key_id,
-                    status=QUEUED,
+                    status=JobState.QUEUED,
                     stage="queued",
                     done=0,
                     total=0,
@@ -183,7 +183,7 @@ def test_recover_sends_a_lost_job_again(stack: Any) -> None:
     assert jobs.recover() == 1  # the recent one may still be on its way: left alone
     stack.start_worker("w1")
     assert wait_until_ended(stack, "jb_lost").status == "done"
-    assert job_of(stack, "jb_recent").status == QUEUED
+    assert job_of(stack, "jb_recent").status == JobState.QUEUED
     asyncio.run(jobs.close())
 
 
@@ -234,7 +234,7 @@ def test_of_two_deliveries_that_both_built_only_one_stores_a_pack(stack: Any) ->
             == 1
         )
     # and a failure reported late never overwrites the done
-    tasks._set(ctx, "jb_twice", status=FAILED, stage="failed", error={"code": "late"})
+    tasks._set(ctx, "jb_twice", status=JobState.FAILED, stage="failed", error={"code": "late"})
     assert job_of(stack, "jb_twice").status == "done"
 
 

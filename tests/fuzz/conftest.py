@@ -16,7 +16,7 @@ from anyio.from_thread import start_blocking_portal
 from fastapi import FastAPI
 from fuzz_kit import REQUEST_TIMEOUT_S, Api
 
-from service.api.app import create_app
+from service.app import create_app
 from service.archive.db import connect, engine_of
 from service.config import Settings
 from service.workflow.keys import Role, create

@@ -37,7 +37,7 @@ from fastapi.routing import APIRoute
 from harness import serving_app
 from starlette.routing import Mount, Route
 
-from service.api.app import create_app
+from service.app import create_app
 from service.config import Settings
 from service.workflow import keys
 from service.workflow.keys import Role

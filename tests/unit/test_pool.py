@@ -12,8 +12,8 @@ from typing import Any
 
 import pytest
 
-from service.api.pool import Pool, RenderMemory
 from service.errors import InvalidRequest, RenderFailed, RenderTimeout
+from service.runner.pool import Pool, RenderMemory
 
 
 def counts_to(n: int, *, progress: Callable[[str, int, int], None]) -> int:
@@ -81,11 +81,21 @@ def test_progress_reaches_the_caller_in_order(pool: Pool) -> None:
     assert seen == [("counting", 1, 3), ("counting", 2, 3), ("counting", 3, 3)]
 
 
-def test_product_errors_travel_and_foreign_ones_become_render_failures(pool: Pool) -> None:
+def test_product_errors_travel_and_foreign_ones_become_render_failures(
+    pool: Pool, caplog: pytest.LogCaptureFixture
+) -> None:
     with pytest.raises(InvalidRequest, match="refuses on purpose"):
         pool.run(refuses)
-    with pytest.raises(RenderFailed, match="ZeroDivisionError: a fault inside the job"):
+    with pytest.raises(
+        RenderFailed, match=r"render worker failed \(incident [0-9a-f]{12}\)"
+    ) as got:
         pool.run(breaks)
+    # the caller learns the incident id only; the log holds the foreign text under that id
+    assert "ZeroDivision" not in got.value.message
+    assert "a fault inside the job" not in got.value.message
+    logged = [r for r in caplog.records if getattr(r, "incident", None) == got.value.incident]
+    assert logged, "no log line with the incident id"
+    assert "ZeroDivisionError: a fault inside the job" in logged[0].getMessage()
     first = pool.run(pid)
     assert pool.run(pid) == first  # an error is not a crash: the worker is kept
 

@@ -19,9 +19,9 @@ from factories import make_compare_definition, make_report, make_waiver
 from fastapi import FastAPI
 
 from service import web
-from service.api.app import create_app
-from service.api.deps import Services
+from service.app import create_app
 from service.config import Settings
+from service.runner.services import Services
 from service.workflow.keys import Role
 
 FAMILY = "hollin-vale"

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import contextlib
 import errno
+import logging
 import multiprocessing
 import queue
 import resource
@@ -34,7 +35,10 @@ from dataclasses import dataclass
 from multiprocessing.connection import Connection
 from typing import Any
 
+from service import logs
 from service.errors import PlumblineError, RenderFailed, RenderTimeout
+
+log = logging.getLogger("plumbline.runner")
 
 Progress = Callable[[str, int, int], None]
 
@@ -62,6 +66,13 @@ def memory_problem(memory_mb: int) -> RenderMemory:
     )
 
 
+def foreign_failure(detail: str) -> RenderFailed:
+    """A job that failed with a foreign exception: logged (with ``detail``, its traceback) under
+    an incident id, which is all the caller is told."""
+    incident = logs.incident(log, "the render worker failed", detail=detail)
+    return RenderFailed(f"the render worker failed (incident {incident})", incident=incident)
+
+
 def _limit_memory(memory_mb: int | None) -> None:
     """Cap this process's address space; never above a hard limit set from outside."""
     if not memory_mb:
@@ -76,8 +87,9 @@ def _limit_memory(memory_mb: int | None) -> None:
 def _serve(
     conn: Connection, initializer: Callable[[], None] | None, memory_mb: int | None = None
 ) -> None:
-    """A worker's loop: run each job it is sent, answer ("ok", value), ("error", exc), or
-    ("fatal", exc) for an error after which the worker must be replaced."""
+    """A worker's loop: run each job it is sent, answer ("ok", value), ("error", exc) for a
+    product error, ("foreign", traceback text) for any other, or ("fatal", exc) for an error
+    after which the worker must be replaced."""
     if initializer is not None:
         initializer()
     # after the initializer: native libraries it loads reserve memory as they start (OpenBLAS
@@ -105,9 +117,9 @@ def _serve(
                 with contextlib.suppress(Exception):
                     conn.send(("fatal", memory_problem(memory_mb or 0)))
                 return
-            if not isinstance(exc, PlumblineError):
-                detail = "".join(traceback.format_exception_only(type(exc), exc)).strip()
-                exc = RenderFailed(f"the render worker failed: {detail}")
+            if not isinstance(exc, PlumblineError):  # its text goes to the log, not the caller
+                conn.send(("foreign", "".join(traceback.format_exception(exc)).strip()))
+                continue
             conn.send(("error", exc))
 
 
@@ -213,6 +225,8 @@ class Pool:
             healthy = kind != "fatal"
             if kind in ("error", "fatal"):
                 raise value
+            if kind == "foreign":
+                raise foreign_failure(value)
             return value
         except (EOFError, OSError):
             raise self._died(worker, _peak_bytes(worker.process.pid)) from None

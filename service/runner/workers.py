@@ -1,5 +1,5 @@
 """Worker processes for rendering: matplotlib is not thread-safe and rendering is CPU-bound, so a
-pack is built in a separate process (``service.api.pool``) and the event loop only awaits it. Every
+pack is built in a separate process (``service.runner.pool``) and the event loop only awaits it. Every
 job has the configured time budget; past it the worker is killed and the job fails with that reason.
 """
 
@@ -14,10 +14,10 @@ from typing import Any, TypeVar
 from starlette.concurrency import run_in_threadpool
 
 from service import pipeline
-from service.api.pool import Pool, Progress
 from service.config import Limits, Settings
 from service.render import style
 from service.render.options import RenderOptions
+from service.runner.pool import Pool, Progress
 from service.seal.verify import VerifyReport
 from service.workflow import sealing
 

@@ -1,8 +1,8 @@
-"""What the review pages show of a pack, worked out from the archive and plain enough for a template.
+"""What the review pages show of a pack and of the queue, worked out from the archive and plain
+enough for a template.
 
-Everything here reads; nothing changes a pack. The rules of what a key may do live in
-``service.workflow.lifecycle``: this module only decides which forms to offer, and the library
-refuses whatever a forged form asks for.
+Everything here reads; nothing changes a pack. What a key may do to a pack now is
+``lifecycle.allowed`` (the forms a page offers), and every action applies the rules again.
 """
 
 from __future__ import annotations
@@ -12,15 +12,14 @@ from dataclasses import dataclass, field
 from datetime import datetime
 from typing import Any
 
-from sqlalchemy import select
 from sqlalchemy.orm import sessionmaker
 
 from service.archive import audit
-from service.archive.db import PackRow, ReviewRow, SealRow, WaiverRow, utc
+from service.archive.db import PackRow, ReviewRow, SealRow, utc
 from service.archive.files import BlobStore
 from service.checks import CHECKS
 from service.workflow import drafts, lifecycle
-from service.workflow.keys import Principal, Role
+from service.workflow.keys import Principal
 
 STATUS_NAMES = {
     lifecycle.DRAFT: "Draft",
@@ -104,15 +103,6 @@ def charts_of(store: BlobStore, row: PackRow) -> dict[str, tuple[str, str]]:
     return found
 
 
-def waivers_of(sessions: sessionmaker[Any], pack_id: str) -> list[WaiverRow]:
-    with sessions() as session:
-        return list(
-            session.scalars(
-                select(WaiverRow).where(WaiverRow.pack_id == pack_id).order_by(WaiverRow.id)
-            ).all()
-        )
-
-
 def pack_page(
     *, sessions: sessionmaker[Any], store: BlobStore, principal: Principal, pack_id: str
 ) -> PackPage:
@@ -121,9 +111,8 @@ def pack_page(
     review = drafts.review(sessions=sessions, pack_id=row.id)
     sealed = drafts.seal_of(sessions=sessions, pack_id=row.id)
     charts = charts_of(store, row)
-    given = waivers_of(sessions, row.id)
+    given = drafts.waivers_of(sessions=sessions, pack_id=row.id)
     current = {(w.check, w.chart): w for w in given if w.pdf_sha256 == row.pdf_sha256}
-    is_author = review is not None and review.is_author(principal.key_id, principal.name)
 
     rows: list[tuple[int, int, CheckRow]] = []
     open_failures: list[str] = []
@@ -184,8 +173,7 @@ def pack_page(
 
     blockers = [f"Failed and not waived: {item}" for item in open_failures]
     blockers += [f"Standing waiver not confirmed: {item}" for item in unconfirmed]
-    in_review = row.status == lifecycle.IN_REVIEW
-    roles = principal.roles
+    may = lifecycle.allowed(principal, row, review, waivable=bool(options), blocked=bool(blockers))
     return PackPage(
         row=row,
         status_name=STATUS_NAMES.get(row.status, row.status),
@@ -217,11 +205,11 @@ def pack_page(
         ],
         waive_options=sorted(options, key=lambda o: o.confirm),
         blockers=blockers,
-        is_author=is_author,
-        can_submit=Role.author in roles and row.status == lifecycle.DRAFT,
-        can_waive=Role.reviewer in roles and in_review and not is_author and bool(options),
-        can_request_changes=bool(roles & {Role.reviewer, Role.approver}) and in_review,
-        can_sign_off=Role.approver in roles and in_review and not is_author and not blockers,
+        is_author=may.is_author,
+        can_submit=may.submit,
+        can_waive=may.waive,
+        can_request_changes=may.request_changes,
+        can_sign_off=may.sign_off,
         previous_signed=previous_signed(sessions=sessions, principal=principal, row=row),
     )
 

@@ -1,6 +1,9 @@
 """Background builds: ``POST /v1/reports?wait=false`` answers 202 with a job at once; the job builds
 the draft in a worker process and ends *done* (with the draft's id) or *failed* (with the problem).
 
+:class:`Jobs` is what the routes need of a runner; :class:`LocalJobs` (the service's own worker
+processes) and ``service.distributed.jobs.CeleryJobs`` (workers behind a queue) both satisfy it.
+
 The job's state lives in the ``jobs`` table, so any process of the service can answer
 ``GET /v1/jobs/{id}``; progress of a running job is kept in the memory of the process that runs it.
 A job left *queued* or *running* by a process that stopped is marked failed when the service
@@ -19,23 +22,37 @@ from __future__ import annotations
 
 import asyncio
 import hashlib
+import logging
 import uuid
-from typing import Any
+from enum import StrEnum
+from typing import Any, Protocol
 
 from sqlalchemy import update
 from sqlalchemy.orm import sessionmaker
 from starlette.concurrency import run_in_threadpool
 
-from service.api.workers import Workers
+from service import logs
 from service.archive.db import JobRow, now
 from service.archive.files import BlobStore
 from service.config import Settings
 from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy
+from service.runner.workers import Workers
 from service.workflow import drafts
 from service.workflow.keys import Principal, Role
 
-QUEUED, RUNNING, DONE, FAILED = "queued", "running", "done", "failed"
-UNFINISHED = (QUEUED, RUNNING)
+log = logging.getLogger("plumbline.jobs")
+
+
+class JobState(StrEnum):
+    """A job's state; the values are what the ``jobs`` table and the API hold."""
+
+    QUEUED = "queued"
+    RUNNING = "running"
+    DONE = "done"
+    FAILED = "failed"
+
+
+UNFINISHED = (JobState.QUEUED, JobState.RUNNING)
 
 STOPPED = {
     "code": "shutdown",
@@ -43,21 +60,28 @@ STOPPED = {
 }
 
 
-def view(row: JobRow) -> dict[str, Any]:
-    out: dict[str, Any] = {
-        "id": row.id,
-        "status": row.status,
-        "progress": {"stage": row.stage, "done": row.done, "total": row.total},
-        "created_at": row.created_at.isoformat(),
-        "updated_at": row.updated_at.isoformat(),
-        "links": {"self": f"/v1/jobs/{row.id}"},
-    }
-    if row.pack_id is not None:
-        out["pack"] = row.pack_id
-        out["links"]["pack"] = f"/v1/reports/{row.pack_id}"
-    if row.error is not None:
-        out["error"] = row.error
-    return out
+class Jobs(Protocol):
+    """Background builds, as the routes use them (a local runner or a queue-backed one)."""
+
+    def recover(self) -> int:
+        """Deal with jobs a stopped process left unfinished; returns how many."""
+        ...
+
+    async def start(self, principal: Principal, raw: bytes) -> JobRow:
+        """Record a queued job and start it; answers before any work is done."""
+        ...
+
+    def get(self, principal: Principal, job_id: str) -> JobRow:
+        """The job, if it is this key's (else :class:`NotFound`)."""
+        ...
+
+    def ping(self, timeout: float) -> None:
+        """Raise if the runner cannot take jobs now (readiness)."""
+        ...
+
+    async def close(self) -> None:
+        """Stop taking jobs and release what the runner holds."""
+        ...
 
 
 def queued(principal: Principal, definition_sha256: str) -> JobRow:
@@ -66,7 +90,7 @@ def queued(principal: Principal, definition_sha256: str) -> JobRow:
     return JobRow(
         id=f"jb_{uuid.uuid4().hex}",
         key_id=principal.key_id,
-        status=QUEUED,
+        status=JobState.QUEUED,
         stage="queued",
         done=0,
         total=0,
@@ -78,9 +102,47 @@ def queued(principal: Principal, definition_sha256: str) -> JobRow:
     )
 
 
-class Jobs:
+def failure(exc: Exception) -> dict[str, Any]:
+    """What a failed job stores as its ``error``, which its author reads: a product error's code,
+    status and detail (and a definition's problems); a server-side failure also its incident id,
+    under which it is logged. A foreign exception is an internal error whose text and stack go
+    to the log only."""
+    if not isinstance(exc, PlumblineError):
+        incident = logs.incident(log, "a job failed inside Plumbline", exc=exc)
+        return {
+            "code": "internal_error",
+            "detail": f"something went wrong on our side (incident {incident})",
+            "incident": incident,
+        }
+    error: dict[str, Any] = {"code": exc.code, "status": exc.status, "detail": exc.message}
+    if isinstance(exc, InvalidDefinition):
+        error["errors"] = [p.as_dict() for p in exc.problems]
+    if exc.status >= 500:
+        error["incident"] = logs.incident(
+            log, "a job failed", detail=exc.message, found=exc.incident
+        )
+    return error
+
+
+def load(sessions: sessionmaker[Any], principal: Principal, job_id: str) -> JobRow:
+    """The job, if it is ``principal``'s."""
+    with sessions() as session:
+        row: JobRow | None = session.get(JobRow, job_id)
+    if row is None or row.key_id != principal.key_id:
+        raise NotFound(f"there is no job '{job_id}'")
+    return row
+
+
+class LocalJobs:
+    """Background builds in this service's own worker processes."""
+
     def __init__(
-        self, *, sessions: sessionmaker[Any], store: BlobStore, workers: Workers, settings: Settings
+        self,
+        *,
+        sessions: sessionmaker[Any],
+        store: BlobStore,
+        workers: Workers,
+        settings: Settings,
     ) -> None:
         self.sessions, self.store, self.workers, self.settings = sessions, store, workers, settings
         self._tasks: dict[str, asyncio.Task[None]] = {}
@@ -98,9 +160,9 @@ class Jobs:
         with self.sessions.begin() as session:
             result = session.execute(
                 update(JobRow)
-                .where(JobRow.status.in_((QUEUED, RUNNING)))
+                .where(JobRow.status.in_(UNFINISHED))
                 .values(
-                    status=FAILED,
+                    status=JobState.FAILED,
                     updated_at=now(),
                     error={
                         "code": "interrupted",
@@ -109,6 +171,9 @@ class Jobs:
                 )
             )
         return int(getattr(result, "rowcount", 0) or 0)
+
+    def ping(self, timeout: float) -> None:
+        """Local workers need no queue: always ready."""
 
     async def start(self, principal: Principal, raw: bytes) -> JobRow:
         """Record a queued job and start it; answers before any work is done."""
@@ -147,12 +212,9 @@ class Jobs:
             session.add(row)
 
     def get(self, principal: Principal, job_id: str) -> JobRow:
-        with self.sessions() as session:
-            row: JobRow | None = session.get(JobRow, job_id)
-        if row is None or row.key_id != principal.key_id:
-            raise NotFound(f"there is no job '{job_id}'")
+        row = load(self.sessions, principal, job_id)
         live = self._live.get(job_id)
-        if live is not None and row.status == RUNNING:
+        if live is not None and row.status == JobState.RUNNING:
             row.stage, row.done, row.total = live
         return row
 
@@ -168,7 +230,7 @@ class Jobs:
     async def _run(self, job_id: str, principal: Principal, raw: bytes) -> None:
         def progress(stage: str, done: int, total: int) -> None:  # called in a worker thread
             if job_id not in self._live:  # the one write: the job has a worker now
-                self._set(job_id, status=RUNNING, stage=stage, done=done, total=total)
+                self._set(job_id, status=JobState.RUNNING, stage=stage, done=done, total=total)
             self._live[job_id] = (stage, done, total)
 
         if self._gate is None:
@@ -186,15 +248,13 @@ class Jobs:
                     author=principal,
                 )
             )
-            await run_in_threadpool(self._set, job_id, status=DONE, stage="done", pack_id=row.id)
-        except PlumblineError as exc:
-            error: dict[str, Any] = {"code": exc.code, "status": exc.status, "detail": exc.message}
-            if isinstance(exc, InvalidDefinition):
-                error["errors"] = [p.as_dict() for p in exc.problems]
-            await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=error)
+            await run_in_threadpool(
+                self._set, job_id, status=JobState.DONE, stage="done", pack_id=row.id
+            )
         except Exception as exc:  # noqa: BLE001 - a job must end, and say how
-            error = {"code": "internal_error", "detail": f"{type(exc).__name__}: {exc}"}
-            await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=error)
+            await run_in_threadpool(
+                self._set, job_id, status=JobState.FAILED, stage="failed", error=failure(exc)
+            )
         finally:
             self._waiting.discard(job_id)
             self._live.pop(job_id, None)
@@ -218,7 +278,18 @@ class Jobs:
         if tasks:
             await asyncio.gather(*tasks, return_exceptions=True)
         for job_id in ids:
-            await run_in_threadpool(self._set, job_id, status=FAILED, stage="failed", error=STOPPED)
+            await run_in_threadpool(
+                self._set, job_id, status=JobState.FAILED, stage="failed", error=STOPPED
+            )
 
 
-__all__ = ["DONE", "FAILED", "QUEUED", "RUNNING", "STOPPED", "Jobs", "view"]
+__all__ = [
+    "STOPPED",
+    "UNFINISHED",
+    "JobState",
+    "Jobs",
+    "LocalJobs",
+    "failure",
+    "load",
+    "queued",
+]
