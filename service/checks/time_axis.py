@@ -17,7 +17,8 @@ import itertools
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
 from service.definition.model import INTENTS
-from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan, Scale, all_series
+from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
+from service.intents.plan import ChartPlan, Scale, all_series
 from service.intents.trend import LOG_NOTE
 
 _TIME_FORMS = frozenset({"lines", "panels", "control"})

@@ -31,11 +31,7 @@ from service.definition.model import ChartBase
 Form = Literal[
     "bars", "dots", "deviation", "pie", "lines", "control", "panels", "histogram", "box", "scatter"
 ]
-
-#: Forms whose marks encode value by length or area: they must start at zero.
-LENGTH_FORMS = frozenset({"bars", "deviation", "pie", "histogram"})
-#: Forms whose marks encode value by position: a non-zero scale is allowed if the chart says so.
-POSITION_FORMS = frozenset({"dots", "lines", "control", "panels", "box", "scatter"})
+"""Every form a plan can take; ``forms.FORMS`` says what each encodes, its size and key figures."""
 
 
 class Frozen(BaseModel):

@@ -28,7 +28,8 @@ from service import intents
 from service.checks import CHECKS, missing, partial, registry
 from service.checks.results import Status
 from service.definition.model import INTENTS
-from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, PartialMark
+from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
+from service.intents.plan import PartialMark
 from service.render.registry import DRAWERS
 
 POSITION_OR_LENGTH = LENGTH_FORMS | POSITION_FORMS

@@ -10,7 +10,6 @@ import json
 import statistics
 import subprocess
 import sys
-import typing
 import uuid
 from pathlib import Path
 from typing import Any
@@ -25,7 +24,6 @@ from service.archive.db import PackRow, ReviewRow, WaiverRow, connect, utc
 from service.archive.files import Store
 from service.config import Limits
 from service.errors import Conflict, InvalidRequest, NotFound
-from service.intents.plan import Form
 from service.workflow import compare, drafts, lifecycle
 from service.workflow.compare import Figure, Outcome, SignedPack, Waiver
 from service.workflow.keys import Principal, Role
@@ -505,11 +503,6 @@ def test_a_series_with_only_a_partial_period_gives_that_period_marked(limits: Li
     )
     (figure,) = compare.key_figures(json.dumps(definition).encode(), limits)["boardings-trend"]
     assert (figure.value, figure.period, figure.partial) == (15480.0, "Nov 2026", True)
-
-
-def test_every_form_gives_key_figures() -> None:
-    """A new chart form must say which figures a reader takes from it."""
-    assert set(typing.get_args(Form)) == compare.FORMS
 
 
 def test_key_figures_never_load_the_drawing_stack() -> None:
