@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from service import formatting
 from service.checks.registry import CheckSpec, Context, Finding, register
-from service.intents import scales
+from service.intents import intents_drawing, scales
 from service.intents.compare import truncation_note
 from service.intents.plan import ChartPlan
 
@@ -34,12 +34,16 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     return plan.model_copy(update={"bar_base": 0.0, "value_axis": axis, "notes": notes})
 
 
+#: The forms drawn with bars from a zero line.
+_BARS = frozenset({"bars", "deviation", "histogram"})
+
+
 SPEC = register(
     CheckSpec(
         id="bar-zero-baseline",
         title="Bars start at zero",
-        intents=frozenset({"compare", "share", "target", "distribution"}),
-        forms=frozenset({"bars", "deviation", "histogram"}),
+        intents=intents_drawing(_BARS),
+        forms=_BARS,
         measures="where the bars start on the value axis",
         threshold="0",
         source="Tufte (1983), p. 57; Correll, Bertini & Franconeri, 'Truncating the Y-Axis: Threat or "
