@@ -15,7 +15,7 @@ from matplotlib.ticker import FixedLocator
 from service import formatting
 from service.intents.plan import ChartPlan
 from service.render import common, style
-from service.render.registry import drawer
+from service.render.drawer import drawer
 
 #: Characters per line of the guide at its font size across the chart's width.
 GUIDE_CHARS = 110

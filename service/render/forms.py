@@ -13,7 +13,7 @@ from matplotlib.ticker import FixedLocator, NullFormatter
 from service import formatting
 from service.intents.plan import ChartPlan, Scale, Series
 from service.render import common, style
-from service.render.registry import Drawer, drawer
+from service.render.drawer import Drawer, drawer
 
 
 def draw_bars(ax: Axes, plan: ChartPlan) -> None:
