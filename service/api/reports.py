@@ -20,7 +20,7 @@ from service.api.deps import PackDep, PackId, PrincipalDep, Services, ServicesDe
 from service.archive import audit
 from service.archive.db import PackRow, SealRow, WaiverRow
 from service.errors import InvalidRequest, NotFound
-from service.workflow import compare, drafts, lifecycle, sealing
+from service.workflow import drafts, lifecycle, month_over_month, sealing
 from service.workflow.keys import Principal
 
 router = APIRouter(
@@ -288,7 +288,7 @@ def compare_packs(
 ) -> dict[str, Any]:
     """Month over month: two signed packs of one report — which checks changed outcome, which
     waivers are new or dropped, which key figures moved (the older pack is ``earlier``)."""
-    return compare.compare(
+    return month_over_month.compare(
         sessions=services.sessions,
         store=services.store,
         principal=principal,

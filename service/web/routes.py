@@ -23,7 +23,8 @@ from service.errors import InvalidRequest, NotFound, PlumblineError, Unauthorize
 from service.web import views
 from service.web.pages import FLASH, Stop, html, redirect
 from service.web.visit import Visit, form, refuse, safe_next, signed_in, visit
-from service.workflow import compare, drafts, keys, lifecycle
+from service.workflow import drafts, keys, lifecycle
+from service.workflow.month_over_month import compare
 
 log = logging.getLogger("plumbline.web")
 router = APIRouter(prefix="/review", include_in_schema=False)
@@ -313,7 +314,7 @@ async def month_over_month(
     try:
         # compare re-runs the checks without drawing (matplotlib stays unloaded)
         result = await run_in_threadpool(
-            compare.compare,
+            compare,
             sessions=services.sessions,
             store=services.store,
             principal=principal,
