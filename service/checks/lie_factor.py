@@ -45,7 +45,7 @@ def worst(values: list[float], shown: list[float]) -> float | None:
 
 def drawn_lengths(plan: ChartPlan) -> tuple[list[float], list[float]]:
     """The values the marks stand for, and the lengths drawn for them."""
-    base = plan.bar_base or 0.0
+    base = plan.baseline or 0.0
     if plan.form == "histogram":
         counts = [float(b.count) for b in plan.bins]
         return counts, [c - base for c in counts]

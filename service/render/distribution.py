@@ -42,7 +42,7 @@ def show_guide(figure: Figure, plan: ChartPlan) -> None:
 @drawer("histogram")
 def draw_histogram(figure: Figure, plan: ChartPlan) -> None:
     ax = figure.add_subplot()
-    base = plan.bar_base or 0.0
+    base = plan.baseline or 0.0
     for b in plan.bins:
         ax.bar(
             b.lo,
