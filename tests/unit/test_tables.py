@@ -127,14 +127,16 @@ def test_every_form_gives_key_figures(form: str) -> None:
     assert all(np.isfinite(f.value) and f.unit for f in figures), form
 
 
-@pytest.mark.parametrize("form", sorted(get_args(Form)))
-def test_every_form_has_a_size_and_draws(form: str) -> None:
-    plan, _ = one_of_each_form()[form]
-    width, height = size_in(plan)
-    assert 0 < height <= 9.0 < width * 2
-    figure = charts.figure_for(plan)
-    assert figure.axes, form
-    assert tuple(figure.get_size_inches()) == pytest.approx((width, height))
+@pytest.mark.parametrize("intent", INTENTS)
+def test_every_intent_renders_in_each_generated_form_at_its_size(intent: str) -> None:
+    plans = [plan for plan, _ in generated().values() if plan.intent == intent]
+    assert plans, intent
+    for plan in plans:
+        width, height = size_in(plan)
+        assert 0 < height <= 9.0 < width * 2
+        figure = charts.figure_for(plan)
+        assert figure.axes, plan.chart_id
+        assert tuple(figure.get_size_inches()) == pytest.approx((width, height))
 
 
 def test_an_over_time_intent_plans_periods() -> None:
