@@ -20,7 +20,7 @@ from service.api.deps import PackDep, PackId, PrincipalDep, ServicesDep
 from service.errors import NotFound
 from service.runner import views as job_views
 from service.runner.services import Services
-from service.workflow import compare, drafts, lifecycle, views
+from service.workflow import drafts, lifecycle, month_over_month, views
 from service.workflow.keys import Principal
 
 router = APIRouter(
@@ -166,7 +166,7 @@ def compare_packs(
 ) -> dict[str, Any]:
     """Month over month: two signed packs of one report — which checks changed outcome, which
     waivers are new or dropped, which key figures moved (the older pack is ``earlier``)."""
-    return compare.compare(
+    return month_over_month.compare(
         sessions=services.sessions,
         store=services.store,
         principal=principal,

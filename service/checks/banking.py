@@ -23,6 +23,7 @@ import numpy as np
 
 from service import formatting
 from service.checks.registry import CheckSpec, Context, Finding, register
+from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, Scale, Series
 
 #: The drawn aspect may be this factor above or below the suggestion before advice is given.
@@ -150,7 +151,7 @@ SPEC = register(
     CheckSpec(
         id="aspect-banking",
         title="The aspect ratio banks the lines near 45°",
-        intents=frozenset({"trend", "relative_change", "movement"}),
+        intents=OVER_TIME,
         forms=frozenset({"lines", "panels", "control"}),
         measures="the aspect ratio (height/width) that banks the median absolute slope to 45° "
         "(range(y): the drawn value axis), against the drawn figure's",

@@ -4,13 +4,13 @@ from __future__ import annotations
 
 from service import formatting
 from service.checks.registry import CheckSpec, Context, Finding, register
-from service.intents import scales
+from service.intents import intents_drawing, scales
 from service.intents.compare import truncation_note
 from service.intents.plan import ChartPlan
 
 
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
-    base = plan.bar_base or 0.0
+    base = plan.baseline or 0.0
     if base == 0.0:
         return Finding(True, 0.0, "Bars start at zero.", "0")
     shown = formatting.with_unit(base, plan.value_axis.unit, ctx.locale)
@@ -29,17 +29,21 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     values += [c.target for c in plan.categories if c.target is not None]
     lo, hi = scales.fit(values, include_zero=True)
     axis = plan.value_axis.model_copy(update={"lo": lo, "hi": hi})
-    note = truncation_note(plan.bar_base or 0.0, axis.unit, plan.locale)
+    note = truncation_note(plan.baseline or 0.0, axis.unit, plan.locale)
     notes = [n for n in plan.notes if n != note]
-    return plan.model_copy(update={"bar_base": 0.0, "value_axis": axis, "notes": notes})
+    return plan.model_copy(update={"baseline": 0.0, "value_axis": axis, "notes": notes})
+
+
+#: The forms drawn with bars from a zero line.
+_BARS = frozenset({"bars", "deviation", "histogram"})
 
 
 SPEC = register(
     CheckSpec(
         id="bar-zero-baseline",
         title="Bars start at zero",
-        intents=frozenset({"compare", "share", "target", "distribution"}),
-        forms=frozenset({"bars", "deviation", "histogram"}),
+        intents=intents_drawing(_BARS),
+        forms=_BARS,
         measures="where the bars start on the value axis",
         threshold="0",
         source="Tufte (1983), p. 57; Correll, Bertini & Franconeri, 'Truncating the Y-Axis: Threat or "

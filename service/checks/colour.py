@@ -14,7 +14,8 @@ from service import colour_math
 from service import palette as house
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS
-from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan, Series
+from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
+from service.intents.plan import ChartPlan, Series
 
 _ALL_INTENTS = frozenset(INTENTS)
 _ALL_FORMS = LENGTH_FORMS | POSITION_FORMS

@@ -25,6 +25,7 @@ import numpy.typing as npt
 from service.checks.missing import measures_of
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
+from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, all_series
 
 MIN_POINTS = 8
@@ -220,7 +221,7 @@ SPEC = register(
     CheckSpec(
         id="window-cycle",
         title="The window and comparison respect the data's cycle",
-        intents=frozenset({"trend", "relative_change", "movement"}),
+        intents=OVER_TIME,
         forms=frozenset({"lines", "panels", "control"}),
         measures="the dominant cycle of the history (first autocorrelation peak at lag ≥ 2 above "
         "the Bonferroni-adjusted white-noise band), against the periods shown and the periods "

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from service.checks.missing import measures_of
 from service.checks.registry import CheckSpec, Context, Finding, register
+from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, Series, all_series
 from service.intents.trend import estimates_note as note_for
 
@@ -59,7 +60,7 @@ SPEC = register(
     CheckSpec(
         id="estimates-distinct",
         title="Estimates look different from actuals",
-        intents=frozenset({"trend", "relative_change", "movement"}),
+        intents=OVER_TIME,
         forms=frozenset({"lines", "panels", "control"}),
         measures="series declared as estimates or projected, and whether each is drawn dashed, "
         "labelled, listed and kept apart from the actuals",

@@ -15,7 +15,8 @@ from typing import Protocol
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.checks.results import CheckResult, Status, WaiverRecord
 from service.definition.model import INTENTS, Waiver
-from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan
+from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
+from service.intents.plan import ChartPlan
 
 
 class DrawnLabels(Protocol):

@@ -11,6 +11,7 @@ import numpy as np
 
 from service import formatting
 from service.checks.registry import CheckSpec, Context, Finding, register
+from service.intents import intents_drawing
 from service.intents.plan import ChartPlan
 
 LOW, HIGH = 0.95, 1.05
@@ -44,7 +45,7 @@ def worst(values: list[float], shown: list[float]) -> float | None:
 
 def drawn_lengths(plan: ChartPlan) -> tuple[list[float], list[float]]:
     """The values the marks stand for, and the lengths drawn for them."""
-    base = plan.bar_base or 0.0
+    base = plan.baseline or 0.0
     if plan.form == "histogram":
         counts = [float(b.count) for b in plan.bins]
         return counts, [c - base for c in counts]
@@ -76,12 +77,16 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     )
 
 
+#: The forms drawn with bars from a zero line.
+_BARS = frozenset({"bars", "deviation", "histogram"})
+
+
 SPEC = register(
     CheckSpec(
         id="lie-factor",
         title="Lie factor of drawn lengths",
-        intents=frozenset({"compare", "share", "target", "distribution"}),
-        forms=frozenset({"bars", "deviation", "histogram"}),
+        intents=intents_drawing(_BARS),
+        forms=_BARS,
         measures="the worst ratio, over every pair of bars, of the change shown by the drawn lengths "
         "to the change in the data",
         threshold="0.95 to 1.05",

@@ -9,7 +9,13 @@ from __future__ import annotations
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
-from service.definition.model import AnyChart, MovementChart, RelativeChangeChart, TrendChart
+from service.definition.model import (
+    OVER_TIME,
+    AnyChart,
+    MovementChart,
+    RelativeChangeChart,
+    TrendChart,
+)
 from service.intents import trend
 from service.intents.plan import ChartPlan, Gap, Series, all_series
 
@@ -109,7 +115,7 @@ SPEC = register(
     CheckSpec(
         id="missing-periods",
         title="Missing periods are shown as gaps",
-        intents=frozenset({"trend", "relative_change", "movement"}),
+        intents=OVER_TIME,
         forms=frozenset({"lines", "panels", "control"}),
         measures="periods the declared frequency expects between the first and last row that have no "
         "value, and whether each is drawn as a marked gap",

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
+from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, PartialMark
 
 
@@ -60,7 +61,7 @@ SPEC = register(
     CheckSpec(
         id="partial-period",
         title="A partial last period is marked",
-        intents=frozenset({"trend", "relative_change", "movement"}),
+        intents=OVER_TIME,
         forms=frozenset({"lines", "panels", "control"}),
         measures="the share of the last period elapsed at as_of (whole days)",
         threshold="a period under 100 % elapsed is drawn hollow and labelled",

@@ -18,6 +18,7 @@ import numpy.typing as npt
 
 from service import formatting
 from service.checks.registry import CheckSpec, Context, Finding, register
+from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, Reduction, Series, all_series
 
 #: The stated output resolution: print, 300 dots per inch.
@@ -175,7 +176,7 @@ SPEC = register(
     CheckSpec(
         id="many-points",
         title="No more points than the output can show",
-        intents=frozenset({"trend", "relative_change", "movement"}),
+        intents=OVER_TIME,
         forms=frozenset({"lines", "panels", "control"}),
         measures="points per series, against the pixel columns of the plot width at print "
         f"resolution (page width × {PLOT_SHARE} at {DPI} dpi, about 1,606 px)",

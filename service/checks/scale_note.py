@@ -4,7 +4,9 @@ from __future__ import annotations
 
 from service import formatting
 from service.checks.registry import CheckSpec, Context, Finding, register
+from service.intents import intents_drawing
 from service.intents.compare import scale_note
+from service.intents.forms import POSITION_FORMS
 from service.intents.plan import ChartPlan, Scale
 
 
@@ -49,10 +51,8 @@ SPEC = register(
     CheckSpec(
         id="nonzero-scale-noted",
         title="A scale that does not start at zero is marked",
-        intents=frozenset(
-            {"compare", "trend", "relative_change", "movement", "distribution", "relationship"}
-        ),
-        forms=frozenset({"dots", "lines", "panels", "control", "box", "scatter"}),
+        intents=intents_drawing(POSITION_FORMS),
+        forms=POSITION_FORMS,
         measures="where the value axis starts, and whether the chart states it",
         threshold="axis includes 0, or a note on the chart",
         source="common practice (no source)",

@@ -8,7 +8,7 @@ can tell apart.
 from __future__ import annotations
 
 from service.checks.registry import CheckSpec, Context, Finding, register
-from service.definition.model import RelativeChangeChart, TrendChart
+from service.definition.model import INTENTS, RelativeChangeChart, TrendChart
 from service.intents import relative_change
 from service.intents.compare import scale_note
 from service.intents.plan import ChartPlan, Panel, Series
@@ -160,18 +160,7 @@ NO_DUAL_AXIS = register(
     CheckSpec(
         id="no-dual-axis",
         title="Never two value axes on one chart",
-        intents=frozenset(
-            {
-                "trend",
-                "relative_change",
-                "movement",
-                "compare",
-                "target",
-                "distribution",
-                "relationship",
-                "share",
-            }
-        ),
+        intents=frozenset(INTENTS),
         forms=frozenset(
             {
                 "lines",

@@ -235,7 +235,7 @@ def _pie_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     categories = share.sorted_parts(plan.categories)
     axis = share.bars_axis(categories, plan.value_axis.unit, plan.value_axis.label)
     return plan.model_copy(
-        update={"form": "bars", "bar_base": 0.0, "categories": categories, "value_axis": axis}
+        update={"form": "bars", "baseline": 0.0, "categories": categories, "value_axis": axis}
     )
 
 

@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS
-from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan
+from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
+from service.intents.plan import ChartPlan
 
 _ALL_INTENTS = frozenset(INTENTS)
 _ALL_FORMS = LENGTH_FORMS | POSITION_FORMS

@@ -16,12 +16,12 @@ import itertools
 
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
-from service.definition.model import INTENTS
-from service.intents.plan import LENGTH_FORMS, POSITION_FORMS, ChartPlan, Scale, all_series
+from service.definition.model import INTENTS, OVER_TIME
+from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
+from service.intents.plan import ChartPlan, Scale, all_series
 from service.intents.trend import LOG_NOTE
 
 _TIME_FORMS = frozenset({"lines", "panels", "control"})
-_TIME_INTENTS = frozenset({"trend", "relative_change", "movement"})
 
 
 def expected_labels(ctx: Context) -> list[str]:
@@ -81,7 +81,7 @@ SPEC_PROPORTIONAL = register(
     CheckSpec(
         id="time-proportional",
         title="The time axis is proportional to time",
-        intents=_TIME_INTENTS,
+        intents=OVER_TIME,
         forms=_TIME_FORMS,
         measures="whether the x axis holds every period the declared frequency expects, each at its "
         "index, and every line's points in time order",

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from datetime import date, datetime
 from enum import StrEnum
-from typing import Annotated, Any, Literal
+from typing import Annotated, Any, ClassVar, Literal, get_args
 
 from pydantic import AwareDatetime, Field, model_validator
 
@@ -132,6 +132,10 @@ class Precision(Input):
 
 
 class ChartBase(Input):
+    over_time: ClassVar[bool] = False
+    """The intent draws values over time: its dataset needs a time column, and the checks of
+    periods (missing, partial, estimates, cycles, banking, points) apply to it."""
+
     id: Id
     intent: str
     title: Label
@@ -216,6 +220,7 @@ class Projection(Input):
 class TrendChart(ChartBase):
     """One or more measures over time (sharing one unit)."""
 
+    over_time = True
     intent: Literal["trend"]
     measures: list[Name] = Field(min_length=1)
     from_zero: bool = Field(
@@ -262,6 +267,7 @@ class ShareChart(ChartBase):
 class RelativeChangeChart(ChartBase):
     """Two or more measures over time, usually in different units: indexed, or aligned panels."""
 
+    over_time = True
     intent: Literal["relative_change"]
     measures: list[Name] = Field(min_length=2)
     form: Literal["index", "panels"] = "index"
@@ -277,6 +283,7 @@ class RelativeChangeChart(ChartBase):
 class MovementChart(ChartBase):
     """A KPI's latest change judged against its own history (individuals and moving-range chart)."""
 
+    over_time = True
     intent: Literal["movement"]
     measure: Name
     run_length: Annotated[int, Field(ge=6, le=12)] = Field(
@@ -351,16 +358,19 @@ AnyChart = (
 )
 Chart = Annotated[AnyChart, Field(discriminator="intent")]
 
-INTENTS = (
-    "compare",
-    "trend",
-    "share",
-    "relative_change",
-    "movement",
-    "target",
-    "distribution",
-    "relationship",
-)
+CHART_MODELS: tuple[type[ChartBase], ...] = get_args(AnyChart)
+"""One model per intent: the one list of intents (an intent is added here and in ``AnyChart``)."""
+
+
+def intent_of(model: type[ChartBase]) -> str:
+    """The intent a chart model stands for (its ``intent`` literal)."""
+    (intent,) = get_args(model.model_fields["intent"].annotation)
+    return str(intent)
+
+
+INTENTS = tuple(intent_of(model) for model in CHART_MODELS)
+#: Intents that draw values over time (``ChartBase.over_time``).
+OVER_TIME = frozenset(intent_of(model) for model in CHART_MODELS if model.over_time)
 
 
 class Table(Input):

@@ -4,19 +4,10 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
+from service.definition.model import INTENTS
+
 #: Tags of the chart union, which pydantic inserts into error locations after the list index.
-_UNION_TAGS = frozenset(
-    {
-        "compare",
-        "trend",
-        "share",
-        "relative_change",
-        "movement",
-        "target",
-        "distribution",
-        "relationship",
-    }
-)
+_UNION_TAGS = frozenset(INTENTS)
 
 
 def join(loc: Iterable[int | str]) -> str:

@@ -473,14 +473,10 @@ def _role_problems(
         )
 
 
-#: Intents that draw values over time, and so need a dataset with a time column.
-_OVER_TIME = frozenset({"trend", "relative_change", "movement"})
-
-
 def _chart_problems(path: str, chart: AnyChart, dataset: Dataset) -> Iterable[Problem]:
     for field, name, role in chart.columns():
         yield from _role_problems(f"{path}.{field}", dataset, name, role, chart.intent)
-    if chart.intent in _OVER_TIME and dataset.time_column is None:
+    if chart.over_time and dataset.time_column is None:
         yield Problem(
             "time_column_missing",
             f"{path}.dataset",

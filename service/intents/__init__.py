@@ -14,4 +14,10 @@ from service.intents.registry import ENCODERS, Encoder, Env
 for _intent in INTENTS:
     import_module(f"service.intents.{_intent}")
 
-__all__ = ["ENCODERS", "Encoder", "Env"]
+
+def intents_drawing(forms: frozenset[str]) -> frozenset[str]:
+    """The intents whose encoder can produce one of ``forms`` (e.g. every intent that draws bars)."""
+    return frozenset(intent for intent, encoder in ENCODERS.items() if encoder.forms & forms)
+
+
+__all__ = ["ENCODERS", "Encoder", "Env", "intents_drawing"]

@@ -149,7 +149,7 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
         **heading(chart, locale, table.source),
         form="bars",
         value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label),
-        bar_base=base,
+        baseline=base,
         categories=categories,
         notes=[] if base == 0.0 else [truncation_note(base, unit, locale)],
     )

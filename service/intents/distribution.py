@@ -199,7 +199,7 @@ def encode(chart: DistributionChart, table: Table, env: Env) -> ChartPlan:
             lo=0.0, hi=top, unit="observations", label=f"number of {chart.measure} values"
         ),
         x_axis=Scale(lo=float(edges[0]), hi=float(edges[-1]), unit=unit, label=label),
-        bar_base=0.0,
+        baseline=0.0,
         bins=bins,
         guide=histogram_guide(chart.measure, int(values.size), env.locale),
         notes=notes,

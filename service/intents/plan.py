@@ -7,8 +7,8 @@ One plan type serves every form; each form uses the fields it needs and leaves t
 
 | form | fields |
 |---|---|
-| bars, dots | categories (value, optional interval lo/hi, target, percent), bar_base |
-| deviation | categories (value = actual − target), bar_base 0, references |
+| bars, dots | categories (value, optional interval lo/hi, target, percent), baseline |
+| deviation | categories (value = actual − target), baseline 0, references |
 | pie | categories (value, percent) |
 | lines | periods, series, gaps, partial, references |
 | control | lines fields, plus references (centre line, limits) and verdicts |
@@ -31,11 +31,7 @@ from service.definition.model import ChartBase
 Form = Literal[
     "bars", "dots", "deviation", "pie", "lines", "control", "panels", "histogram", "box", "scatter"
 ]
-
-#: Forms whose marks encode value by length or area: they must start at zero.
-LENGTH_FORMS = frozenset({"bars", "deviation", "pie", "histogram"})
-#: Forms whose marks encode value by position: a non-zero scale is allowed if the chart says so.
-POSITION_FORMS = frozenset({"dots", "lines", "control", "panels", "box", "scatter"})
+"""Every form a plan can take; ``forms.FORMS`` says what each encodes, its size and key figures."""
 
 
 class Frozen(BaseModel):
@@ -237,7 +233,7 @@ class ChartPlan(Frozen):
     locale: str = "en-GB"
     value_axis: Scale
     x_axis: Scale | None = None
-    bar_base: float | None = None
+    baseline: float | None = None
     """Where bars start on the value axis (bars only)."""
     categories: list[Category] = []
     periods: list[str] = []

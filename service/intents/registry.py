@@ -9,6 +9,7 @@ from typing import Any
 
 from service.config import Limits
 from service.data.frames import Table
+from service.definition.model import OVER_TIME
 from service.errors import Problem
 from service.intents.plan import ChartPlan
 
@@ -32,6 +33,11 @@ class Encoder:
     encode: Callable[[Any, Table, Env], ChartPlan]
     forms: frozenset[str]
     """Every form the encoder can produce (each needs a drawer in ``render``)."""
+
+    @property
+    def over_time(self) -> bool:
+        """The intent draws values over time (``definition.model.ChartBase.over_time``)."""
+        return self.intent in OVER_TIME
 
 
 ENCODERS: dict[str, Encoder] = {}

@@ -231,7 +231,7 @@ def encode(chart: ShareChart, table: Table, env: Env) -> ChartPlan:
         **heading(chart, env.locale, table.source),
         form="pie" if pie else "bars",
         value_axis=bars_axis(categories, unit, formatting.titled(chart.measure, unit)),
-        bar_base=None if pie else 0.0,
+        baseline=None if pie else 0.0,
         categories=categories,
         palette=list(env.palette or []),
         notes=[note] if note else [],

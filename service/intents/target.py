@@ -118,7 +118,7 @@ def _bars(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> ChartP
         value_axis=Scale(
             lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=formatting.titled(chart.actual, unit)
         ),
-        bar_base=0.0,
+        baseline=0.0,
         categories=categories,
         references=references,
         notes=notes,
@@ -144,7 +144,7 @@ def _deviation(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> C
             unit=unit,
             label=formatting.titled(f"{chart.actual} minus target", unit),
         ),
-        bar_base=0.0,
+        baseline=0.0,
         categories=categories,
         references=[Reference(value=0.0, label=ON_TARGET, kind="target")],
         notes=[note],

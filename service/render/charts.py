@@ -6,7 +6,6 @@ import io
 import textwrap
 import warnings
 from collections.abc import Callable
-from importlib import import_module
 from typing import Any
 
 from matplotlib.backend_bases import GraphicsContextBase, RendererBase
@@ -21,12 +20,6 @@ from service.intents.plan import ChartPlan
 from service.render import layout, style
 from service.render.measured import LayoutReport
 from service.render.registry import DRAWERS
-
-#: Modules that register drawers (see ``render.registry``), loaded by name so no tool drops them.
-DRAWER_MODULES = ("forms", "pie", "control", "panels", "deviation", "distribution", "scatter")
-for _name in DRAWER_MODULES:
-    import_module(f"service.render.{_name}")
-
 
 #: OpenType features switched off for every text on a chart.
 NO_LIGATURES = ("-liga", "-clig")

@@ -14,7 +14,7 @@ from matplotlib.figure import Figure
 from service import formatting
 from service.intents.plan import ChartPlan
 from service.render import common, style
-from service.render.registry import drawer
+from service.render.drawer import drawer
 
 #: Room beside the axis range for the value labels of the longest bars, as a share of the span.
 LABEL_ROOM = 0.14

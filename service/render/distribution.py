@@ -15,7 +15,7 @@ from matplotlib.ticker import FixedLocator
 from service import formatting
 from service.intents.plan import ChartPlan
 from service.render import common, style
-from service.render.registry import drawer
+from service.render.drawer import drawer
 
 #: Characters per line of the guide at its font size across the chart's width.
 GUIDE_CHARS = 110
@@ -42,7 +42,7 @@ def show_guide(figure: Figure, plan: ChartPlan) -> None:
 @drawer("histogram")
 def draw_histogram(figure: Figure, plan: ChartPlan) -> None:
     ax = figure.add_subplot()
-    base = plan.bar_base or 0.0
+    base = plan.baseline or 0.0
     for b in plan.bins:
         ax.bar(
             b.lo,

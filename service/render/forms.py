@@ -13,11 +13,11 @@ from matplotlib.ticker import FixedLocator, NullFormatter
 from service import formatting
 from service.intents.plan import ChartPlan, Scale, Series
 from service.render import common, style
-from service.render.registry import Drawer, drawer
+from service.render.drawer import Drawer, drawer
 
 
 def draw_bars(ax: Axes, plan: ChartPlan) -> None:
-    base = plan.bar_base or 0.0
+    base = plan.baseline or 0.0
     rows = list(range(len(plan.categories)))[::-1]
     axis = plan.value_axis
     span = axis.hi - axis.lo

@@ -17,7 +17,7 @@ from matplotlib.patches import Wedge
 
 from service.intents.plan import Category, ChartPlan
 from service.render import common, style
-from service.render.registry import drawer
+from service.render.drawer import drawer
 
 #: Where labels sit (radius 1 is the pie's edge) and their least vertical distance apart.
 LABEL_RADIUS = 1.14

@@ -1,24 +1,20 @@
-"""One drawing function per plan form. Each form module registers its drawers on import."""
+"""The drawer column of the form table (``intents.forms.FORMS``): one drawing function per form.
+
+Each module of ``MODULES`` registers its drawers with ``@drawer(form)`` (``render.drawer``) when it
+is loaded, and this module loads them all, so whoever imports the registry finds every drawer. A
+test holds ``MODULES`` to the modules on disk that register drawers, and ``DRAWERS`` to the forms
+of the table.
+"""
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from importlib import import_module
 
-from matplotlib.figure import Figure
+from service.render.drawer import DRAWERS, Drawer
 
-from service.intents.plan import ChartPlan
+#: The modules that register drawers, loaded by name so that no import sorter can drop one.
+MODULES = ("forms", "pie", "control", "panels", "deviation", "distribution", "scatter")
+for _name in MODULES:
+    import_module(f"service.render.{_name}")
 
-Drawer = Callable[[Figure, ChartPlan], None]
-"""Draws ``plan`` into an empty figure (it adds its own axes)."""
-
-DRAWERS: dict[str, Drawer] = {}
-
-
-def drawer(form: str) -> Callable[[Drawer], Drawer]:
-    def register(function: Drawer) -> Drawer:
-        if form in DRAWERS:
-            raise ValueError(f"form {form!r} has two drawers")
-        DRAWERS[form] = function
-        return function
-
-    return register
+__all__ = ["DRAWERS", "MODULES", "Drawer"]

@@ -11,7 +11,7 @@ from matplotlib.figure import Figure
 from service.intents.plan import ChartPlan
 from service.render import common, style
 from service.render.distribution import show_guide
-from service.render.registry import drawer
+from service.render.drawer import drawer
 
 
 @drawer("scatter")

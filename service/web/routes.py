@@ -21,7 +21,8 @@ from service import logs
 from service.errors import InvalidRequest, NotFound, PlumblineError, Unauthorized
 from service.web.pages import FLASH, Stop, html, redirect
 from service.web.visit import Visit, form, refuse, safe_next, signed_in, visit
-from service.workflow import compare, drafts, keys, lifecycle, review
+from service.workflow import drafts, keys, lifecycle, review
+from service.workflow.month_over_month import compare
 
 log = logging.getLogger("plumbline.web")
 router = APIRouter(prefix="/review", include_in_schema=False)
@@ -310,7 +311,7 @@ async def month_over_month(
     try:
         # compare re-runs the checks without drawing (matplotlib stays unloaded)
         result = await run_in_threadpool(
-            compare.compare,
+            compare,
             sessions=services.sessions,
             store=services.store,
             principal=principal,

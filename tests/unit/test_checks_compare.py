@@ -38,7 +38,7 @@ def test_baseline_request_is_corrected_to_zero() -> None:
     )
     assert found.waiver is None
     plan = only_chart(checked).plan
-    assert plan.bar_base == 0.0
+    assert plan.baseline == 0.0
     assert plan.value_axis.lo == 0.0
     assert plan.notes == []
 
@@ -48,7 +48,7 @@ def test_baseline_measure_on_a_plan() -> None:
     ctx = context_for(intake(definition))
     plan = plan_of(definition)
     assert baseline.SPEC.measure(plan, ctx).ok
-    assert not baseline.SPEC.measure(plan.model_copy(update={"bar_base": 80.0}), ctx).ok
+    assert not baseline.SPEC.measure(plan.model_copy(update={"baseline": 80.0}), ctx).ok
 
 
 def test_waived_baseline_is_kept() -> None:
@@ -60,7 +60,7 @@ def test_waived_baseline_is_kept() -> None:
     assert (found.waiver.reason, found.waiver.by) == (waiver["reason"], waiver["by"])
     assert found.explanation.endswith("Waived by Head of operations.")
     plan = only_chart(checked).plan
-    assert plan.bar_base == 85.0
+    assert plan.baseline == 85.0
     assert plan.notes == ["Bars start at 85%, not zero: their lengths exaggerate the differences."]
     assert checked.unused_waivers == []
 
@@ -75,7 +75,7 @@ def test_waiver_expiry_against_as_of(expires: str, status: Status, base: float) 
     found = result_of(checked, "bar-zero-baseline")
     assert found.status is status
     assert ("expired on 2026-11-08" in found.explanation) is (status is Status.corrected)
-    assert only_chart(checked).plan.bar_base == base
+    assert only_chart(checked).plan.baseline == base
 
 
 def test_waiver_not_needed_is_reported_unused() -> None:

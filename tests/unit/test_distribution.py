@@ -93,7 +93,7 @@ def test_histogram_bins_are_numpys() -> None:
     assert [b.count for b in plan.bins] == counts.tolist()
     assert [b.lo for b in plan.bins] == edges[:-1].tolist()
     assert [b.hi for b in plan.bins] == edges[1:].tolist()
-    assert plan.bar_base == 0.0
+    assert plan.baseline == 0.0
     assert (plan.value_axis.lo, plan.value_axis.unit) == (0.0, "observations")
     assert plan.value_axis.hi >= max(counts)
     assert plan.value_axis.label == "number of commute values"

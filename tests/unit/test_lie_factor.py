@@ -24,7 +24,7 @@ def bars(values: list[float], base: float) -> ChartPlan:
         form="bars",
         title="t",
         value_axis=Scale(lo=min(base, 0.0), hi=max(values) * 1.1, unit="%", label="on_time (%)"),
-        bar_base=base,
+        baseline=base,
         categories=[Category(label=f"r{i}", value=v) for i, v in enumerate(values)],
     )
 
@@ -127,7 +127,7 @@ def test_waived_truncated_baseline_fails_lie_factor_end_to_end() -> None:
     assert factor.measured == pytest.approx(10.0)
     assert factor.measured_text == "10.00"
     plan = checked.charts[0].plan
-    assert plan.bar_base == 45.0
+    assert plan.baseline == 45.0
     assert any(flag.startswith("lie-factor:") for flag in plan.flags)
     assert checked.blocked
 
@@ -138,5 +138,5 @@ def test_unwaived_truncated_baseline_is_corrected_and_honest() -> None:
     factor = result_of(checked, "lie-factor")
     assert factor.status is Status.passed
     assert factor.measured == pytest.approx(1.0)
-    assert checked.charts[0].plan.bar_base == 0.0
+    assert checked.charts[0].plan.baseline == 0.0
     assert not checked.blocked

@@ -113,7 +113,7 @@ def test_pie_rule(values: list[float], readable: bool) -> None:
 def test_default_form_is_sorted_zero_based_bars_with_shares() -> None:
     plan = plan_of(share_definition({"Roads": 300.0, "Parks": 0.0, "Schools": 500.0, "Art": 200.0}))
     assert plan.form == "bars"
-    assert plan.bar_base == 0.0
+    assert plan.baseline == 0.0
     assert plan.value_axis.lo == 0.0
     assert plan.value_axis.unit == "GBP"
     assert [c.label for c in plan.categories] == ["Schools", "Roads", "Art", "Parks"]

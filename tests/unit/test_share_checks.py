@@ -207,7 +207,7 @@ def test_six_parts_are_drawn_as_bars() -> None:
     assert found.corrected_to.startswith("bars; 6 parts")
     assert "6 parts, more than 5" in found.explanation
     plan = only_chart(checked).plan
-    assert (plan.form, plan.bar_base, plan.value_axis.lo) == ("bars", 0.0, 0.0)
+    assert (plan.form, plan.baseline, plan.value_axis.lo) == ("bars", 0.0, 0.0)
     assert [c.label for c in plan.categories] == list(parts)  # largest first
 
 

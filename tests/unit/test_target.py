@@ -72,7 +72,7 @@ def target_definition(dataset: Json | None = None, **chart: Any) -> Json:
 
 def test_bars_carry_actuals_and_per_category_targets_from_zero() -> None:
     plan = plan_of(target_definition())
-    assert (plan.form, plan.bar_base) == ("bars", 0.0)
+    assert (plan.form, plan.baseline) == ("bars", 0.0)
     assert [(c.label, c.value, c.target) for c in plan.categories] == [
         ("North", 12000.0, 10800.0),
         ("South", 9700.0, 10000.0),
@@ -107,7 +107,7 @@ def test_axis_is_fitted_to_targets_above_every_actual() -> None:
 def test_deviation_is_actual_minus_target_around_a_labelled_zero() -> None:
     definition = target_definition(form="deviation")
     plan = plan_of(definition)
-    assert (plan.form, plan.bar_base) == ("deviation", 0.0)
+    assert (plan.form, plan.baseline) == ("deviation", 0.0)
     assert [(c.label, c.value) for c in plan.categories] == [
         ("North", 1200.0),  # 12,000 − 10,800
         ("South", -300.0),  # 9,700 − 10,000

@@ -156,7 +156,7 @@ def test_bars_on_a_log_axis_fail() -> None:
     plan = plan_of(definition)
     assert plan.form == "bars"
     axis = plan.value_axis.model_copy(update={"lo": 1.0, "hi": 10_000.0, "log": True})
-    broken = plan.model_copy(update={"value_axis": axis, "bar_base": 1.0})
+    broken = plan.model_copy(update={"value_axis": axis, "baseline": 1.0})
     finding = time_axis.SPEC_LOG.measure(broken, context_for(intake(definition)))
     assert not finding.ok
     assert "length of a bar on a log axis" in finding.detail

@@ -21,7 +21,7 @@ import math
 from collections.abc import Iterable
 from dataclasses import asdict, dataclass, replace
 from datetime import datetime
-from typing import Any, Literal, TypeGuard
+from typing import Any, Literal
 
 import numpy as np
 from sqlalchemy import select
@@ -33,7 +33,8 @@ from service.archive.files import BlobStore
 from service.config import Limits
 from service.definition.model import DistributionChart
 from service.errors import Conflict, InvalidDefinition, InvalidRequest, NotFound
-from service.intents.plan import ChartPlan, Series
+from service.intents.forms import FORMS
+from service.intents.plan import ChartPlan
 from service.workflow.keys import Principal, can_see
 from service.workflow.lifecycle import SIGNED_OFF, SUPERSEDED
 
@@ -41,29 +42,20 @@ REL_TOL = 1e-9
 """Two figures within this relative difference are the same figure (float noise, not movement)."""
 
 SIGNED = frozenset({SIGNED_OFF, SUPERSEDED})
-CATEGORY_FORMS = frozenset({"bars", "dots", "deviation", "pie"})
-SERIES_FORMS = frozenset({"lines", "control", "panels"})
-SUMMARY_FORMS = frozenset({"histogram", "box", "scatter"})
-FORMS = CATEGORY_FORMS | SERIES_FORMS | SUMMARY_FORMS
-"""Every chart form key figures are read from (a test holds it to ``plan.Form``)."""
 
 
 @dataclass(frozen=True)
 class Figure:
-    """One figure a reader takes from a chart: a bar's value, a line's latest point, a count."""
+    """A chart's key figure (``intents.forms.KeyFigure``, whose fields it repeats) with its chart."""
 
     chart: str
     title: str
     label: str
-    """The category, the series, or what a summary figure is (``n``, ``median``)."""
     value: float
     unit: str
     period: str | None = None
-    """The period label of a series' value (``Oct 2026``); ``None`` for other figures."""
     estimate: bool = False
-    """The value of an estimate or projection series, not a measured one."""
     partial: bool = False
-    """The value of a period only partly elapsed at ``as_of`` (only when no complete one exists)."""
 
     @property
     def key(self) -> tuple[str, str]:
@@ -170,76 +162,8 @@ def key_figures(definition: bytes, limits: Limits) -> dict[str, list[Figure]]:
 
 
 def _figures(plan: ChartPlan, measure: np.ndarray[Any, Any] | None) -> list[Figure]:
-    def figure(label: str, value: float, unit: str, **extra: Any) -> Figure:
-        return Figure(plan.chart_id, plan.title, label, float(value), unit, **extra)
-
-    if plan.form in CATEGORY_FORMS:
-        unit = plan.value_axis.unit
-        return [figure(c.label, c.value, unit) for c in plan.categories if _number(c.value)]
-    if plan.form in SERIES_FORMS:
-        drawn = [(s, plan.value_axis.unit, s.name) for s in plan.series]
-        drawn += [
-            (s, panel.value_axis.unit, f"{panel.title}: {s.name}")
-            for panel in plan.panels
-            for s in panel.series
-        ]
-        found = []
-        for series, axis_unit, label in drawn:
-            latest = _latest(series, plan)
-            if latest is None:
-                continue
-            index, value = latest
-            partial = plan.partial is not None and index == plan.partial.index
-            found.append(
-                figure(
-                    label,
-                    value,
-                    series.unit or axis_unit,
-                    period=plan.periods[index],
-                    estimate=series.estimate,
-                    partial=partial and not series.estimate,
-                )
-            )
-        return found
-    if plan.form == "histogram":
-        assert plan.x_axis is not None
-        found = [figure("n", sum(b.count for b in plan.bins), "observations")]
-        if measure is not None and measure.size:
-            median = float(np.percentile(measure, 50))
-            found.append(figure("median", median, plan.x_axis.unit))
-        return found
-    if plan.form == "box":
-        found = []
-        for box in plan.boxes:
-            found.append(figure(f"{box.label}: n", box.n, "observations"))
-            found.append(figure(f"{box.label}: median", box.median, plan.value_axis.unit))
-        return found
-    if plan.form == "scatter":
-        found = [figure("n", len(plan.points), "points")]
-        if plan.fit is not None and plan.x_axis is not None:
-            unit = f"{plan.value_axis.unit} per {plan.x_axis.unit}"
-            found.append(figure("slope of the fitted line", plan.fit.slope, unit))
-        return found
-    return []  # a form not in FORMS: nothing read yet (test_every_form_gives_key_figures)
-
-
-def _latest(series: Series, plan: ChartPlan) -> tuple[int, float] | None:
-    """The period index and value of the series' latest drawn value (see :func:`key_figures`)."""
-    points = [
-        (x, float(v)) for x, v in zip(series.positions(), series.values, strict=True) if _number(v)
-    ]
-    if not points:
-        return None
-    partial = None if plan.partial is None or series.estimate else plan.partial.index
-    complete = [p for p in points if p[0] != partial]
-    return max(complete or points)
-
-
-def _number(value: float | None) -> TypeGuard[float]:
-    return value is not None and math.isfinite(value)
-
-
-# --- comparison ----------------------------------------------------------------------------------
+    read = FORMS[plan.form].key_figures(plan, measure)
+    return [Figure(plan.chart_id, plan.title, **asdict(k)) for k in read]
 
 
 def compare_packs(earlier: SignedPack, later: SignedPack) -> dict[str, Any]:

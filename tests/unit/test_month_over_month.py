@@ -10,7 +10,6 @@ import json
 import statistics
 import subprocess
 import sys
-import typing
 import uuid
 from pathlib import Path
 from typing import Any
@@ -25,10 +24,9 @@ from service.archive.db import PackRow, ReviewRow, WaiverRow, connect, utc
 from service.archive.files import Store
 from service.config import Limits
 from service.errors import Conflict, InvalidRequest, NotFound
-from service.intents.plan import Form
-from service.workflow import compare, drafts, lifecycle
-from service.workflow.compare import Figure, Outcome, SignedPack, Waiver
+from service.workflow import drafts, lifecycle, month_over_month
 from service.workflow.keys import Principal, Role
+from service.workflow.month_over_month import Figure, Outcome, SignedPack, Waiver
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO = ROOT / "sample_requests" / "bus-cooperative-monthly.json"
@@ -140,7 +138,7 @@ class World:
         return row
 
     def compare(self, a: str, b: str, who: Principal | None = None) -> dict[str, Any]:
-        return compare.compare(
+        return month_over_month.compare(
             sessions=self.sessions,
             store=self.store,
             principal=who or self.ada,
@@ -415,7 +413,7 @@ def test_a_pack_is_not_compared_with_itself(w: World) -> None:
 
 
 def test_key_figures_of_the_demo(built: Built) -> None:
-    figures = compare.key_figures(built.raw["earlier"], Limits())
+    figures = month_over_month.key_figures(built.raw["earlier"], Limits())
     demo = json.loads(built.raw["earlier"])
     datasets = {d["name"]: d for d in demo["datasets"]}
     charts = [c["id"] for s in demo["sections"] for c in s["charts"]]
@@ -503,13 +501,10 @@ def test_a_series_with_only_a_partial_period_gives_that_period_marked(limits: Li
         ],
         report=make_report(period={"start": "2026-10-01", "end": "2026-11-30"}),
     )
-    (figure,) = compare.key_figures(json.dumps(definition).encode(), limits)["boardings-trend"]
+    (figure,) = month_over_month.key_figures(json.dumps(definition).encode(), limits)[
+        "boardings-trend"
+    ]
     assert (figure.value, figure.period, figure.partial) == (15480.0, "Nov 2026", True)
-
-
-def test_every_form_gives_key_figures() -> None:
-    """A new chart form must say which figures a reader takes from it."""
-    assert set(typing.get_args(Form)) == compare.FORMS
 
 
 def test_key_figures_never_load_the_drawing_stack() -> None:
@@ -528,9 +523,9 @@ def test_key_figures_never_load_the_drawing_stack() -> None:
         "import sys\n"
         "from pathlib import Path\n"
         "from service.config import Limits\n"
-        "from service.workflow import compare\n"
+        "from service.workflow import month_over_month\n"
         f"raw = Path({str(DEMO)!r}).read_bytes()\n"
-        "assert compare.key_figures(raw, Limits())['boardings-trend']\n"
+        "assert month_over_month.key_figures(raw, Limits())['boardings-trend']\n"
         f"print(sorted(m for m in sys.modules if m.startswith({drawing!r})))\n"
     )
     done = subprocess.run(
@@ -570,10 +565,10 @@ def test_float_noise_is_not_movement() -> None:
     value = 0.1 + 0.2  # 0.30000000000000004
     noisy = pack([fig("a", 0.3), fig("b", 1000.0), fig("c", 0.0)])
     rebuilt = pack([fig("a", value), fig("b", 1000.0 * (1 + 5e-10)), fig("c", 0.0)])
-    out = compare.compare_packs(noisy, rebuilt)
+    out = month_over_month.compare_packs(noisy, rebuilt)
     assert out["figures_moved"] == []
     moved = pack([fig("a", 0.3), fig("b", 1000.0 * (1 + 2e-9)), fig("c", 0.0)])
-    (entry,) = compare.compare_packs(noisy, moved)["figures_moved"]
+    (entry,) = month_over_month.compare_packs(noisy, moved)["figures_moved"]
     assert entry["label"] == "b"
     assert entry["change_pct"] == pytest.approx(2e-7, rel=1e-6)  # 2e-9 relative is 2e-7 %
 
@@ -581,7 +576,7 @@ def test_float_noise_is_not_movement() -> None:
 def test_moves_are_sorted_by_relative_change_and_a_move_from_zero_leads() -> None:
     before = pack([fig("small", 200.0), fig("big", 10.0), fig("zero", 0.0), fig("down", -40.0)])
     after = pack([fig("small", 210.0), fig("big", 15.0), fig("zero", 3.0), fig("down", -50.0)])
-    out = compare.compare_packs(before, after)
+    out = month_over_month.compare_packs(before, after)
     assert [(m["label"], m["change"], m["change_pct"]) for m in out["figures_moved"]] == [
         ("zero", 3.0, None),  # no relative change from zero
         ("big", 5.0, 50.0),  # (15 − 10) / 10
@@ -604,7 +599,7 @@ def test_charts_checks_and_figures_present_in_one_pack_only() -> None:
         outcomes=[kept, came],
         waivers=[Waiver("precision", "new-chart", "standing", "Head of operations", "s" * 20)],
     )
-    out = compare.compare_packs(before, after)
+    out = month_over_month.compare_packs(before, after)
     assert out["checks_changed"] == []
     assert out["checks_added"] == [
         {"check": "precision", "chart": "new-chart", "status": "failed", "measured": 3}
@@ -634,5 +629,5 @@ def test_a_waiver_kept_under_another_kind_is_neither_new_nor_dropped() -> None:
     """Waivers are matched by check and chart: a standing waiver replacing a reviewer's is kept."""
     review = Waiver("lie-factor", "c", "review", "Rui Reviewer", "r" * 20, at="t")
     standing = Waiver("lie-factor", "c", "standing", "Head of operations", "s" * 20)
-    out = compare.compare_packs(pack([], waivers=[review]), pack([], waivers=[standing]))
+    out = month_over_month.compare_packs(pack([], waivers=[review]), pack([], waivers=[standing]))
     assert (out["waivers_new"], out["waivers_dropped"]) == ([], [])
