@@ -44,7 +44,7 @@ def palette_of(plan: ChartPlan) -> list[str]:
 
 
 def _series_colours(palette: list[str], series: list[Series]) -> list[str]:
-    """As ``render.forms.draw_series`` colours them: by position, muted series in one grey."""
+    """As ``render.basic.draw_series`` colours them: by position, muted series in one grey."""
     coloured = [palette[i % len(palette)] for i, s in enumerate(series) if not s.muted]
     return coloured + ([house.MUTED.lower()] if any(s.muted for s in series) else [])
 

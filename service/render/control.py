@@ -15,8 +15,8 @@ from matplotlib.figure import Figure
 
 from service.intents.plan import ChartPlan, Reference
 from service.render import style
+from service.render.basic import draw_gaps, draw_series, label_partial, time_axis, value_axis
 from service.render.drawer import drawer
-from service.render.forms import draw_gaps, draw_series, label_partial, time_axis, value_axis
 
 DASHED = (0, (4, 3))
 LABEL_PT = 8.0

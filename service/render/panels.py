@@ -17,8 +17,8 @@ from matplotlib.figure import Figure
 
 from service.intents.plan import ChartPlan, Panel
 from service.render import style
+from service.render.basic import Ends, draw_gaps, draw_series, label_partial, time_axis, value_axis
 from service.render.drawer import drawer
-from service.render.forms import Ends, draw_gaps, draw_series, label_partial, time_axis, value_axis
 
 
 def _own_gaps(plan: ChartPlan, panel: Panel) -> ChartPlan:

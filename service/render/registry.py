@@ -13,7 +13,7 @@ from importlib import import_module
 from service.render.drawer import DRAWERS, Drawer
 
 #: The modules that register drawers, loaded by name so that no import sorter can drop one.
-MODULES = ("forms", "pie", "control", "panels", "deviation", "distribution", "scatter")
+MODULES = ("basic", "pie", "control", "panels", "deviation", "distribution", "scatter")
 for _name in MODULES:
     import_module(f"service.render.{_name}")
 
