@@ -63,6 +63,14 @@ class Services:
         if self.store.get(digest) != PROBE:
             raise NotReady("the store gave back different bytes than were written")
 
+    def probe_workers(self) -> None:
+        """Every render worker is alive (one that died is being replaced)."""
+        missing = self.workers.missing()
+        if missing:
+            raise NotReady(
+                f"{missing} of {self.workers.size} render workers stopped and are being replaced"
+            )
+
     async def build_draft(self, principal: Principal, raw: bytes) -> PackRow:
         """Build the definition in a worker and store the draft, ``principal`` its author."""
         built = await self.workers.build(raw, self.settings.limits)
