@@ -99,7 +99,7 @@ class Services:
             sealer=self.workers.sealer(self.settings),
         )
 
-    async def verify(self, pdf: bytes) -> VerifyReport:
+    async def verify(self, pdf: bytes, principal: Principal | None = None) -> VerifyReport:
         """Verify a sealed pack in a worker, trusting the organisation's certificate when one is
         configured and the development certificate when there is one, then look it up in the
         archive."""
@@ -113,7 +113,7 @@ class Services:
         if development is not None:
             roots.append(development)
         report = await self.workers.verify(pdf, roots, settings.limits)
-        await run_in_threadpool(sealing.compare_with_archive, report, self.sessions)
+        await run_in_threadpool(sealing.compare_with_archive, report, self.sessions, principal)
         return report
 
 
