@@ -207,6 +207,11 @@ def _keys_actions(p: argparse.ArgumentParser) -> None:
         "--family", action="append", required=True, help="a report-id prefix, or '*'; repeatable"
     )
     c.add_argument("--expires", type=_aware_time, help="ISO 8601 time with a zone")
+    c.add_argument(
+        "--allow-expired",
+        action="store_true",
+        help="make the key even if --expires has passed (refused otherwise)",
+    )
     c.set_defaults(run=_keys_create)
     r = actions.add_parser(
         "revoke", help="revoke a key", description="Revoke an API key.", formatter_class=_Formatter
@@ -458,6 +463,7 @@ def _keys_create(args: argparse.Namespace, settings: Settings) -> int:
         roles={keys.Role(v) for v in args.role},
         families=set(args.family),
         expires=args.expires,
+        allow_expired=args.allow_expired,
     )
     print(f"key {key_id}")
     print(f"secret (shown once; store it now): {secret}")

@@ -42,6 +42,7 @@ Foreign exceptions are translated at the stage boundary (``raise RenderFailed(..
 
 from __future__ import annotations
 
+import logging
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -177,6 +178,15 @@ class NotFound(PlumblineError):
 class RenderFailed(PlumblineError):
     code = "render_failed"
     status = 500
+
+    @classmethod
+    def logged(cls, sentence: str, exc: BaseException) -> RenderFailed:
+        """``sentence`` and an incident id; the foreign exception's text (its class, message,
+        memory addresses) goes to the log under that id, never into the answer."""
+        from service import logs  # here: the log module is not needed to define the tree
+
+        incident = logs.incident(logging.getLogger("plumbline.render"), sentence, exc=exc)
+        return cls(f"{sentence} (incident {incident})", incident=incident)
 
 
 class RenderTimeout(PlumblineError):

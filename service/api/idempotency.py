@@ -2,7 +2,7 @@
 
 A client that may retry sends a unique key with the request. The first request with a key is
 carried out and its answer stored; a retry with the same key and the same request (method, path,
-body) gets the stored answer again, with ``Idempotent-Replayed: true``; the same key with a
+query string, body) gets the stored answer again, with ``Idempotent-Replayed: true``; the same key with a
 different request is refused with 422; a retry while the first is still running gets 409.
 
 Keys are scoped to the API key that sent them, so two clients cannot collide or read each other's
@@ -43,8 +43,9 @@ async def once(
     key = key.strip().strip('"')
     if not 1 <= len(key) <= MAX_KEY or not key.isprintable():
         raise InvalidRequest(f"an {HEADER} is 1 to {MAX_KEY} printable characters")
+    target = request.url.path + ("?" + request.url.query if request.url.query else "")
     fingerprint = hashlib.sha256(
-        request.method.encode() + b" " + request.url.path.encode() + b"\n" + body
+        request.method.encode() + b" " + target.encode() + b"\n" + body
     ).hexdigest()
     sessions = services.sessions
     stored = await run_in_threadpool(

@@ -33,11 +33,13 @@ router = APIRouter(prefix="/v1", tags=["service"])
 )
 async def ready(services: ServicesDep) -> JSONResponse:
     """Whether the service can do its work: the database answers ``SELECT 1``, the store takes a
-    write and gives it back, and the build queue (if ``PLUMBLINE_QUEUE_URL`` is set) answers.
+    write and gives it back, every render worker is alive, and the build queue (if
+    ``PLUMBLINE_QUEUE_URL`` is set) answers.
     ``/v1/health`` only says the process is alive."""
     probes: dict[str, Callable[[], None]] = {
         "database": services.probe_database,
         "store": services.probe_store,
+        "workers": services.probe_workers,
     }
     if services.settings.queue_url:
         probes["queue"] = lambda: services.jobs.ping(PROBE_TIMEOUT_S)

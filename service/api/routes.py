@@ -92,5 +92,5 @@ async def verify_pack(
     gives the same bytes; the file is the one this archive sealed.
 
     Trusted: the organisation's certificate when configured, else the development certificate."""
-    report = await services.verify(await request.body())
+    report = await services.verify(await request.body(), principal)
     return report.as_dict()

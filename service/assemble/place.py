@@ -46,7 +46,7 @@ def place(
                 page.contents_add(pikepdf.Stream(pdf, placement), prepend=False)
             return _save(pdf)
     except (pikepdf.PdfError, KeyError, IndexError) as exc:
-        raise RenderFailed(f"the charts could not be placed in the pack: {exc}") from exc
+        raise RenderFailed.logged("the charts could not be placed in the pack", exc) from exc
 
 
 def _tidy(document: bytes) -> bytes:

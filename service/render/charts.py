@@ -109,7 +109,7 @@ def figure_for(plan: ChartPlan) -> Figure:
                 parse_math=False,
             )
     except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
-        raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
+        raise RenderFailed.logged(f"chart '{plan.chart_id}' could not be drawn", exc) from exc
     for text in figure.findobj(Text):
         # Ligature glyphs (ff, fi) land in a second font subset at code 0, which PDF/A checks
         # read as .notdef; spelt out, they stay in the first subset. matplotlib applies these to
@@ -139,7 +139,7 @@ def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
                     warnings.filterwarnings("ignore", "constrained_layout not applied")
                     pages.savefig(figure)
     except (ValueError, RuntimeError, OverflowError) as exc:
-        raise RenderFailed(f"the charts could not be drawn: {exc}") from exc
+        raise RenderFailed.logged("the charts could not be drawn", exc) from exc
     return buffer.getvalue(), reports
 
 
@@ -152,7 +152,7 @@ def draw(plan: ChartPlan) -> bytes:
             buffer, format="pdf", metadata={"CreationDate": None, "Creator": "Plumbline"}
         )
     except (ValueError, RuntimeError, OverflowError) as exc:
-        raise RenderFailed(f"chart '{plan.chart_id}' could not be drawn: {exc}") from exc
+        raise RenderFailed.logged(f"chart '{plan.chart_id}' could not be drawn", exc) from exc
     return buffer.getvalue()
 
 

@@ -4,7 +4,9 @@ stopped by killing its process (matplotlib cannot be interrupted from outside), 
 Why not ``ProcessPoolExecutor``: it cannot cancel a running task or kill one worker, and a killed
 worker breaks the whole pool (every job in flight fails). Here each worker is a spawned process (no
 fork of a threaded server) serving one job at a time over its own pipe; a job sends progress
-messages while it runs. A worker that dies or overruns fails only its own job.
+messages while it runs. A worker that dies or overruns fails only its own job. A worker that dies
+while idle is noticed at once by a watcher thread waiting on every worker's sentinel, and replaced;
+until then ``missing`` says the pool is short (``GET /v1/ready`` reports it).
 
 Jobs are plain picklable callables; a job that wants to report progress takes a ``progress``
 keyword argument, a callable ``(stage, done, total)``.
@@ -24,6 +26,7 @@ import contextlib
 import errno
 import logging
 import multiprocessing
+import multiprocessing.connection
 import queue
 import resource
 import signal
@@ -179,6 +182,48 @@ class Pool:
         self._closed = False
         for _ in range(size):
             self._idle.put(self._start())
+        self._wake_r, self._wake_w = _CONTEXT.Pipe(duplex=False)
+        self._watcher = threading.Thread(
+            target=self._watch, name="plumbline-pool-watcher", daemon=True
+        )
+        self._watcher.start()
+
+    def _watch(self) -> None:
+        """Replace idle workers that die (a busy one's death is its job's ``run`` to handle)."""
+        while not self._closed:
+            with self._lock:
+                sentinels = {w.process.sentinel: w for w in self._all}
+            ready = multiprocessing.connection.wait([*sentinels, self._wake_r], timeout=5)
+            for sentinel in ready:
+                worker = sentinels.get(sentinel)
+                if worker is None or self._closed or not self._take_idle(worker):
+                    continue
+                log.warning(
+                    "an idle render worker stopped (exit %s); replacing it", worker.process.exitcode
+                )
+                self._retire(worker)
+                if not self._closed:
+                    self._idle.put(self._start())
+            if any(r is self._wake_r for r in ready):
+                return
+
+    def _take_idle(self, worker: _Worker) -> bool:
+        """Take ``worker`` out of the idle queue; False if a job holds it."""
+        with self._idle.mutex:
+            try:
+                self._idle.queue.remove(worker)
+            except ValueError:
+                return False
+            return True
+
+    def live_pids(self) -> set[int]:
+        """The process ids of the workers alive now."""
+        with self._lock:
+            return {w.process.pid for w in self._all if w.process.is_alive()}
+
+    def missing(self) -> int:
+        """How many workers the pool is short of its size (dead and not replaced yet)."""
+        return max(0, self.size - len(self.live_pids()))
 
     def _start(self) -> _Worker:
         ours, theirs = _CONTEXT.Pipe(duplex=True)
@@ -217,6 +262,9 @@ class Pool:
         if self._closed:
             raise RenderFailed("the service is shutting down; try again shortly")
         worker = self._idle.get()
+        if not worker.process.is_alive():  # died idle a moment ago, before the watcher saw it
+            self._retire(worker)
+            worker = self._start()
         limit = self.timeout if timeout is None else timeout
         healthy = False
         try:
@@ -289,6 +337,10 @@ class Pool:
     def close(self) -> None:
         """Stop every worker: idle ones are asked to leave, busy ones are killed."""
         self._closed = True
+        with contextlib.suppress(Exception):
+            self._wake_w.send(None)
+        if self._watcher is not threading.current_thread():
+            self._watcher.join(timeout=30)  # it starts no worker once it has seen the wake-up
         with self._lock:
             workers = list(self._all)
         for worker in workers:

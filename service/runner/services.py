@@ -63,6 +63,14 @@ class Services:
         if self.store.get(digest) != PROBE:
             raise NotReady("the store gave back different bytes than were written")
 
+    def probe_workers(self) -> None:
+        """Every render worker is alive (one that died is being replaced)."""
+        missing = self.workers.missing()
+        if missing:
+            raise NotReady(
+                f"{missing} of {self.workers.size} render workers stopped and are being replaced"
+            )
+
     async def build_draft(self, principal: Principal, raw: bytes) -> PackRow:
         """Build the definition in a worker and store the draft, ``principal`` its author."""
         built = await self.workers.build(raw, self.settings.limits)
@@ -91,7 +99,7 @@ class Services:
             sealer=self.workers.sealer(self.settings),
         )
 
-    async def verify(self, pdf: bytes) -> VerifyReport:
+    async def verify(self, pdf: bytes, principal: Principal | None = None) -> VerifyReport:
         """Verify a sealed pack in a worker, trusting the organisation's certificate when one is
         configured and the development certificate when there is one, then look it up in the
         archive."""
@@ -105,7 +113,7 @@ class Services:
         if development is not None:
             roots.append(development)
         report = await self.workers.verify(pdf, roots, settings.limits)
-        await run_in_threadpool(sealing.compare_with_archive, report, self.sessions)
+        await run_in_threadpool(sealing.compare_with_archive, report, self.sessions, principal)
         return report
 
 

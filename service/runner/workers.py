@@ -105,5 +105,9 @@ class Workers:
     async def verify(self, pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
         return await self._run(verify_pack, pdf, roots, limits)
 
+    def missing(self) -> int:
+        """How many render workers are dead and not replaced yet (0 when the pool is full)."""
+        return self._pool.missing()
+
     def close(self) -> None:
         self._pool.close()

@@ -72,14 +72,22 @@ def create(
     families: set[str],
     expires: datetime | None,
     by: Principal | None = None,
+    allow_expired: bool = False,
 ) -> tuple[str, str]:
     """A new key: returns ``(key_id, secret)``; the secret cannot be recovered later.
 
     ``by`` is the admin making it, or ``None`` from the command line (the operator's own console).
+    A key that would be expired already is refused unless ``allow_expired`` (a key made to test
+    refusals).
     """
     if by is not None:
         by.require(Role.admin)
     _validate(name=name, roles=roles, families=families, expires=expires)
+    if expires is not None and not allow_expired and utc(expires) <= now():
+        raise InvalidRequest(
+            f"the expiry time {utc(expires).isoformat()} has passed: the key could never be used; "
+            "give a future time (or allow it explicitly: --allow-expired)"
+        )
     key_id = f"key_{uuid.uuid4().hex[:16]}"
     secret = f"{key_id}.{secrets.token_urlsafe(32)}"
     salt = secrets.token_bytes(16)

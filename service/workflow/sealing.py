@@ -42,6 +42,7 @@ from service.seal import keys
 from service.seal.verify import VerifyReport
 from service.workflow import lifecycle
 from service.workflow.keys import Principal
+from service.workflow.keys import can_see as keys_can_see
 
 REVIEW = "review.json"
 """The attachment name of the sign-off record."""
@@ -198,8 +199,14 @@ __all__ = [
 ]
 
 
-def compare_with_archive(report: VerifyReport, sessions: sessionmaker[Any]) -> None:
-    """Add the step that compares the file's SHA-256 with the archive's record of sealed packs."""
+def compare_with_archive(
+    report: VerifyReport, sessions: sessionmaker[Any], principal: Principal | None = None
+) -> None:
+    """Add the step that compares the file's SHA-256 with the archive's record of sealed packs.
+
+    ``principal`` is the key asking (``None``: the operator's own console). A key whose families do
+    not cover the pack's report learns only that a sealed pack matches, not which one, nor who
+    signed it off."""
     with sessions() as session:
         found = session.scalars(select(SealRow).where(SealRow.sha256 == report.sha256)).first()
         pack = session.get(PackRow, found.pack_id) if found is not None else None
@@ -210,6 +217,9 @@ def compare_with_archive(report: VerifyReport, sessions: sessionmaker[Any]) -> N
             f"the archive holds no sealed pack with SHA-256 {report.sha256}: this is not the "
             "file that was signed off, or it was signed off in another archive",
         )
+        return
+    if principal is not None and not keys_can_see(principal, pack.report_id):
+        report.add("archived", True, "a sealed pack in the archive matches this file's SHA-256")
         return
     signed_at = found.record.get("signed_off_at", "")
     report.add(

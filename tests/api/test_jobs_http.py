@@ -77,6 +77,24 @@ def test_a_retried_background_post_gets_the_same_job(people: Clients) -> None:
     assert wait_for(author, first.headers["Location"])["status"] == "done"
 
 
+def test_the_same_key_with_another_query_is_a_different_request(people: Clients) -> None:
+    """The fingerprint covers method, path and query: ``?wait=true`` after ``?wait=false`` with the
+    same key is refused like a different body, not answered with the stored 202."""
+    author = people("author")
+    headers = {"content-type": "application/json", "Idempotency-Key": uuid.uuid4().hex}
+    first = author.post(
+        "/v1/reports", params={"wait": "false"}, content=DEMO.read_bytes(), headers=headers
+    )
+    assert first.status_code == 202, first.text
+    other = author.post(
+        "/v1/reports", params={"wait": "true"}, content=DEMO.read_bytes(), headers=headers
+    )
+    assert other.status_code == 422, other.text
+    assert "different request" in other.json()["detail"]
+    assert "Idempotent-Replayed" not in other.headers
+    assert wait_for(author, first.headers["Location"])["status"] == "done"
+
+
 def test_only_authors_start_jobs_and_job_ids_are_checked(people: Clients) -> None:
     refused = people("reviewer").post(
         "/v1/reports", params={"wait": "false"}, content=DEMO.read_bytes()

@@ -170,6 +170,11 @@ def test_review_sign_off_seal_and_verify(people: Clients) -> None:
     assert steps["archived"]["ok"]
     assert pid in steps["archived"]["detail"]
     assert steps["re-render matches"]["ok"]
+    # a key not granted the report's family learns only that a sealed pack matches
+    outsider = people("stranger").post("/v1/verify", content=sealed.content, headers=headers)
+    archived = {s["name"]: s for s in outsider.json()["steps"]}["archived"]
+    assert archived["ok"]
+    assert archived["detail"] == "a sealed pack in the archive matches this file's SHA-256"
     datasets = {f"data/{d['name']}.csv" for d in definition()["datasets"]}
     assert set(report["attachments"]) == {"definition.json", "review.json"} | datasets
 

@@ -130,7 +130,12 @@ def site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Site]:
         for who, (name, roles, families) in PEOPLE.items():
             expires = datetime.now(UTC) - timedelta(hours=1) if who == "expired" else None
             key_id, secrets[who] = keys.create(
-                sessions, name=name, roles=roles, families=families, expires=expires
+                sessions,
+                name=name,
+                roles=roles,
+                families=families,
+                expires=expires,
+                allow_expired=True,
             )
             if who == "revoked":
                 keys.revoke(sessions, key_id=key_id)

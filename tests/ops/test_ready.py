@@ -1,5 +1,5 @@
-"""``GET /v1/ready``: 200 when the database, the store and (if configured) the build queue answer;
-503 naming the one that does not. ``/v1/health`` only says the process is alive."""
+"""``GET /v1/ready``: 200 when the database, the store, the render workers and (if configured)
+the build queue answer; 503 naming the one that does not. ``/v1/health`` only says the process is alive."""
 
 from __future__ import annotations
 
@@ -15,7 +15,10 @@ def test_ready_when_everything_answers(start_server: Start) -> None:
     server = start_server()
     answer = httpx.get(f"{server.base}/v1/ready")
     assert answer.status_code == 200
-    assert answer.json() == {"status": "ready", "checks": {"database": "ok", "store": "ok"}}
+    assert answer.json() == {
+        "status": "ready",
+        "checks": {"database": "ok", "store": "ok", "workers": "ok"},
+    }
 
 
 def test_not_ready_when_the_sqlite_folder_is_removed(start_server: Start, tmp_path: Path) -> None:

@@ -153,8 +153,14 @@ def test_an_expired_key_is_refused(sessions: sessionmaker[Any]) -> None:
         authenticate(sessions, secret, at=issued + timedelta(days=1))
 
 
+def test_a_key_cannot_be_made_already_expired_unless_allowed(sessions: sessionmaker[Any]) -> None:
+    with pytest.raises(InvalidRequest, match="has passed"):
+        _key(sessions, expires=datetime.now(UTC) - timedelta(seconds=1))
+
+
 def test_an_already_expired_key_is_refused_on_the_real_clock(sessions: sessionmaker[Any]) -> None:
-    _, secret = _key(sessions, expires=datetime.now(UTC) - timedelta(seconds=1))
+    past = datetime.now(UTC) - timedelta(seconds=1)
+    _, secret = _key(sessions, expires=past, allow_expired=True)
     with pytest.raises(Unauthorized, match="expired"):
         authenticate(sessions, secret)
 

@@ -166,3 +166,43 @@ def test_a_worker_that_aborts_under_a_memory_limit_is_reported_as_out_of_memory(
             unlimited.run(aborts)  # without a limit, memory is not blamed
     finally:
         unlimited.close()
+
+
+def test_an_idle_worker_killed_is_replaced_before_a_job_reaches_it() -> None:
+    """A worker that dies while idle is noticed and replaced within seconds; the pool says it is
+    short meanwhile, and the next job runs as usual (no failure, no memory hint)."""
+    import signal
+
+    workers = Pool(2, timeout=30)
+    try:
+        first = workers.run(pid)
+        assert workers.missing() == 0
+        os.kill(first, signal.SIGKILL)
+        deadline = time.monotonic() + 10
+        while time.monotonic() < deadline and workers.live_pids() & {first}:
+            time.sleep(0.05)
+        assert first not in workers.live_pids()
+        while time.monotonic() < deadline and workers.missing():
+            time.sleep(0.05)
+        assert workers.missing() == 0
+        assert len(workers.live_pids()) == 2
+        for _ in range(3):
+            assert workers.run(pid) != first
+    finally:
+        workers.close()
+
+
+def test_a_short_pool_is_reported_and_makes_the_service_not_ready() -> None:
+    from types import SimpleNamespace
+    from typing import cast
+
+    from service.runner.services import NotReady, Services
+
+    workers = Pool(1, timeout=30)
+    workers.close()
+    assert workers.missing() == 1
+    services = cast(
+        Services, SimpleNamespace(workers=SimpleNamespace(size=1, missing=workers.missing))
+    )
+    with pytest.raises(NotReady, match="1 of 1 render workers stopped"):
+        Services.probe_workers(services)
