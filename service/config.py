@@ -26,6 +26,13 @@ class Limits(BaseModel):
     max_table_rows: int = Field(200, ge=1)
     max_text_chars: int = Field(5_000, ge=10)
     max_label_chars: int = Field(200, ge=10)
+    max_periods: int | None = Field(None, ge=1)
+    """The periods a time series may span from its first row to its last, counting the ones
+    without a row (every check and chart works period by period); default twice ``max_rows``."""
+
+    @property
+    def periods_limit(self) -> int:
+        return self.max_periods or 2 * self.max_rows
 
 
 class Settings(BaseSettings):
