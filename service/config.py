@@ -49,6 +49,10 @@ class Settings(BaseSettings):
     max_queued_jobs: int = Field(200, ge=1, le=100_000)
     """PLUMBLINE_MAX_QUEUED_JOBS: background builds waiting or running in one process; past it a
     new one is refused with 429 and Retry-After."""
+    max_waiting_requests: int = Field(32, ge=0, le=100_000)
+    """PLUMBLINE_MAX_WAITING_REQUESTS: requests that wait for their answer (``POST /v1/reports``,
+    ``POST /v1/check``) and wait for a worker in one process; past it a new one is refused with
+    429 and Retry-After (a malformed definition is answered 422 first, without waiting)."""
     store_url: str = ""
     """PLUMBLINE_STORE_URL: where PDFs and definitions live — unset: files under the data folder;
     ``s3://bucket/prefix``: an S3-compatible object store; ``file:///path``: files there."""

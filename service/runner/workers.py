@@ -1,6 +1,11 @@
 """Worker processes for rendering: matplotlib is not thread-safe and rendering is CPU-bound, so a
 pack is built in a separate process (``service.runner.pool``) and the event loop only awaits it. Every
 job has the configured time budget; past it the worker is killed and the job fails with that reason.
+
+A request that waits for its answer (a build with ``wait=true``, a check, a verification) is parsed
+and validated before it waits for a worker, so a malformed one is answered at once; and at most
+``max_waiting`` such requests wait for a worker: past that a new one is refused with
+:class:`~service.errors.TooBusy` (429 with Retry-After), like the background queue.
 """
 
 from __future__ import annotations
@@ -15,6 +20,8 @@ from starlette.concurrency import run_in_threadpool
 
 from service import pipeline
 from service.config import Limits, Settings
+from service.definition import validate
+from service.errors import TooBusy
 from service.render import style
 from service.render.options import RenderOptions
 from service.runner.pool import Pool, Progress
@@ -48,6 +55,43 @@ def build_pack(
     return pipeline.build(raw, limits, options=options, progress=progress)
 
 
+def check_definition(raw: bytes, limits: Limits) -> dict[str, Any]:
+    """``pipeline.check`` in a worker, answered as plain data: the report's id, whether it is
+    blocked, the summary, every check's result and the waivers that were not needed."""
+    from service.checks.results import summary
+
+    checked = pipeline.check(pipeline.intake(raw, limits))
+    return {
+        "report": checked.definition.report.id,
+        "blocked": checked.blocked,
+        "summary": summary(checked.results),
+        "checks": [r.model_dump(mode="json") for r in checked.results],
+        "unused_waivers": checked.unused_waivers,
+    }
+
+
+def run_alone(
+    job: Callable[..., T],
+    *args: Any,
+    timeout: float,
+    memory_mb: int,
+    progress: Progress | None = None,
+    **kwargs: Any,
+) -> T:
+    """Run one job in a worker process of its own under a time budget (0: none) and a memory
+    limit in MiB (0: none), as the service runs its jobs; without either, in this process."""
+    if not timeout and not memory_mb:
+        if progress is not None:
+            kwargs["progress"] = progress
+        return job(*args, **kwargs)
+    pool = Pool(1, initializer=_start_worker, timeout=timeout or float("inf"), memory_mb=memory_mb)
+    try:
+        result: T = pool.run(job, *args, progress=progress, **kwargs)
+    finally:
+        pool.close()
+    return result
+
+
 def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
     """Verify a sealed pack in a worker: the re-render draws, so it must not run on the loop."""
     from service.seal import verify
@@ -63,8 +107,12 @@ class Workers:
         timeout: float = 300.0,
         render: RenderOptions | None = None,
         memory_mb: int | None = None,
+        max_waiting: int | None = None,
     ) -> None:
         self.size = size
+        self.max_waiting = max_waiting
+        """Requests waiting for their answer that may wait for a worker at once (None: any)."""
+        self._waiting = 0
         self.render = render or RenderOptions()
         """How each worker draws a pack's charts (its own helper processes, the chart cache)."""
         self._pool = Pool(size, initializer=_start_worker, timeout=timeout, memory_mb=memory_mb)
@@ -78,6 +126,38 @@ class Workers:
         async with self._slots:
             result: T = await run_in_threadpool(partial(self._pool.run, job, *args, **kwargs))
         return result
+
+    async def _answer(self, raw: bytes, limits: Limits, job: Callable[..., T], *args: Any) -> T:
+        """Run ``job(raw, *args)`` for a request that waits for its answer: the definition is
+        parsed and validated first (its shape problems are answered without a worker), then the
+        request waits for a worker unless ``max_waiting`` requests already do."""
+        await run_in_threadpool(validate.parse, raw, limits)
+        if self.max_waiting is not None and self._waiting >= self.max_waiting:
+            raise TooBusy(
+                f"{self._waiting} requests are waiting for a worker, the most this service "
+                "lets wait (PLUMBLINE_MAX_WAITING_REQUESTS); retry after the time given, or "
+                "post with wait=false to queue a build",
+                retry_after=max(1, self._waiting // max(1, self.size)),
+            )
+        if self._slots is None:
+            self._slots = asyncio.Semaphore(self.size)
+        self._waiting += 1  # counted before the first await, so concurrent requests see it
+        try:
+            await self._slots.acquire()
+        finally:
+            self._waiting -= 1
+        try:
+            return await run_in_threadpool(partial(self._pool.run, job, raw, *args))
+        finally:
+            self._slots.release()
+
+    async def build_now(self, raw: bytes, limits: Limits) -> pipeline.Built:
+        """Build a definition for a request that waits for the draft (see :meth:`_answer`)."""
+        return await self._answer(raw, limits, partial(build_pack, options=self.render), limits)
+
+    async def check(self, raw: bytes, limits: Limits) -> dict[str, Any]:
+        """Check a definition in a worker, under the render budget (see :meth:`_answer`)."""
+        return await self._answer(raw, limits, check_definition, limits)
 
     async def build(
         self, raw: bytes, limits: Limits, progress: Progress | None = None
