@@ -57,8 +57,9 @@ def build_pack(
 
 def check_definition(raw: bytes, limits: Limits) -> dict[str, Any]:
     """``pipeline.check`` in a worker, answered as plain data: the report's id, whether it is
-    blocked, the summary, every check's result and the waivers that were not needed."""
-    from service.checks.results import summary
+    blocked, the summary, every check's result, the waivers that were not needed, and the
+    summary as the command line prints it (``line``)."""
+    from service.checks.results import summary, summary_line
 
     checked = pipeline.check(pipeline.intake(raw, limits))
     return {
@@ -67,6 +68,7 @@ def check_definition(raw: bytes, limits: Limits) -> dict[str, Any]:
         "summary": summary(checked.results),
         "checks": [r.model_dump(mode="json") for r in checked.results],
         "unused_waivers": checked.unused_waivers,
+        "line": summary_line(checked.results),
     }
 
 

@@ -12,14 +12,7 @@ import time
 from collections.abc import Iterator
 
 import pytest
-from factories import (
-    encode,
-    make_column,
-    make_dataset,
-    make_definition,
-    make_report,
-    make_trend_chart,
-)
+from factories import encode, make_daily, make_definition
 
 from service.config import Limits
 from service.errors import InvalidDefinition, RenderTimeout, TooBusy
@@ -74,20 +67,7 @@ def test_a_malformed_body_is_answered_at_once_and_excess_requests_are_refused(
 def test_a_slow_check_is_stopped_at_the_time_budget_in_its_worker() -> None:
     """Ten thousand years of days, let through by a raised ``max_periods``, once took minutes and
     gigabytes inside the service's own process; in a worker it is stopped at the budget."""
-    days = ["0001-01-01", "9999-12-30"]
-    definition = make_definition(
-        datasets=[
-            make_dataset(
-                name="readings",
-                columns=[make_column("day", "date"), make_column("level", "number", "m")],
-                time_column="day",
-                frequency="day",
-                rows=[{"day": d, "level": 1.0} for d in days],
-            )
-        ],
-        charts=[make_trend_chart(dataset="readings", measures=["level"])],
-        report=make_report(period={"start": days[0], "end": days[1]}, as_of=f"{days[1]}T12:00:00Z"),
-    )
+    definition = make_daily("0001-01-01", "9999-12-30")
     pool = Workers(1, timeout=3, memory_mb=2048)
     try:
         started = time.monotonic()
