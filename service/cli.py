@@ -21,11 +21,13 @@ from pydantic import ValidationError
 from service import __version__
 from service.config import Settings, get_settings
 from service.errors import (
+    MAX_LISTED_PROBLEMS,
     InvalidDefinition,
     PayloadTooLarge,
     PlumblineError,
     RenderTimeout,
     Unreadable,
+    listing,
 )
 
 EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID, EXIT_INTERNAL = 0, 1, 2, 3
@@ -276,12 +278,18 @@ def _read(path: Path) -> bytes:
 
 
 def _invalid(exc: InvalidDefinition, *, json_out: bool) -> int:
+    listed = listing(exc.problems)
     if json_out:
-        print(json.dumps({"errors": [p.as_dict() for p in exc.problems]}, indent=2, default=str))
+        print(json.dumps(listed, indent=2, default=str))
     else:
         print(f"invalid definition: {exc.message}", file=sys.stderr)
-        for problem in exc.problems:
+        for problem in exc.problems[:MAX_LISTED_PROBLEMS]:
             print(f"  {problem.line()}", file=sys.stderr)
+        if listed["problems_truncated"]:
+            more = len(exc.problems) - MAX_LISTED_PROBLEMS
+            print(
+                f"  … and {more} more (the first {MAX_LISTED_PROBLEMS} are listed)", file=sys.stderr
+            )
     return EXIT_INVALID
 
 
