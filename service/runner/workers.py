@@ -2,9 +2,9 @@
 pack is built in a separate process (``service.runner.pool``) and the event loop only awaits it. Every
 job has the configured time budget; past it the worker is killed and the job fails with that reason.
 
-A request that waits for its answer (a build with ``wait=true``, a check, a verification) is parsed
-and validated before it waits for a worker, so a malformed one is answered at once; and at most
-``max_waiting`` such requests wait for a worker: past that a new one is refused with
+A request that waits for its answer (a build with ``wait=true``, a check) is parsed and validated
+before it waits for a worker, so a malformed one is answered at once; and at most ``max_waiting``
+such requests wait while every worker is busy: past that a new one is refused with
 :class:`~service.errors.TooBusy` (429 with Retry-After), like the background queue.
 """
 
@@ -113,7 +113,8 @@ class Workers:
     ) -> None:
         self.size = size
         self.max_waiting = max_waiting
-        """Requests waiting for their answer that may wait for a worker at once (None: any)."""
+        """Requests waiting for their answer that may wait while every worker is busy (None:
+        any; 0: none)."""
         self._waiting = 0
         self.render = render or RenderOptions()
         """How each worker draws a pack's charts (its own helper processes, the chart cache)."""
@@ -134,15 +135,15 @@ class Workers:
         parsed and validated first (its shape problems are answered without a worker), then the
         request waits for a worker unless ``max_waiting`` requests already do."""
         await run_in_threadpool(validate.parse, raw, limits)
-        if self.max_waiting is not None and self._waiting >= self.max_waiting:
-            raise TooBusy(
-                f"{self._waiting} requests are waiting for a worker, the most this service "
-                "lets wait (PLUMBLINE_MAX_WAITING_REQUESTS); retry after the time given, or "
-                "post with wait=false to queue a build",
-                retry_after=max(1, self._waiting // max(1, self.size)),
-            )
         if self._slots is None:
             self._slots = asyncio.Semaphore(self.size)
+        full = self.max_waiting is not None and self._waiting >= self.max_waiting
+        if full and self._slots.locked():
+            raise TooBusy(
+                f"{self._waiting} requests are waiting for a worker, the most this service "
+                "lets wait (PLUMBLINE_MAX_WAITING_REQUESTS); retry after the time given",
+                retry_after=max(1, self._waiting // max(1, self.size)),
+            )
         self._waiting += 1  # counted before the first await, so concurrent requests see it
         try:
             await self._slots.acquire()
