@@ -222,8 +222,8 @@ def _within_budget(
 ) -> T:
     """Run ``job`` in a process of its own under the command's time and memory budget, as the
     service runs its jobs; past either it is stopped (exit 2), with a message naming the flag."""
+    from service.runner.budget import run_alone
     from service.runner.pool import RenderMemory
-    from service.runner.workers import run_alone
 
     seconds = settings.render_timeout_s if args.time_limit is None else args.time_limit
     megabytes = settings.worker_memory_mb if args.memory_limit is None else args.memory_limit
@@ -334,7 +334,7 @@ def _report(checked_results: list[dict[str, Any]], summary: str, unused: list[st
 
 
 def _check(args: argparse.Namespace, settings: Settings) -> int:
-    from service.runner.workers import check_definition
+    from service.runner.budget import check_definition
 
     raw = _read(args.definition)
     checked = _within_budget(args, settings, check_definition, raw, settings.limits)

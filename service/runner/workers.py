@@ -11,7 +11,6 @@ such requests wait while every worker is busy: past that a new one is refused wi
 from __future__ import annotations
 
 import asyncio
-import os
 from collections.abc import Callable
 from functools import partial
 from typing import Any, TypeVar
@@ -22,26 +21,13 @@ from service import pipeline
 from service.config import Limits, Settings
 from service.definition import validate
 from service.errors import TooBusy
-from service.render import style
 from service.render.options import RenderOptions
+from service.runner.budget import check_definition, start_worker
 from service.runner.pool import Pool, Progress
 from service.seal.verify import VerifyReport
 from service.workflow import sealing
 
 T = TypeVar("T")
-
-
-WORKER_NICENESS = 5
-"""Render workers run at a lower CPU priority than the process answering requests, so accepting
-a job or answering a status query stays quick while every core is drawing."""
-
-
-def _start_worker() -> None:
-    os.nice(WORKER_NICENESS)
-    style.install()
-    # Loaded here, before the worker's memory limit applies: scipy's OpenBLAS reserves its
-    # buffers as it loads and, refused, retries in a loop or exits instead of raising.
-    from scipy import special  # noqa: F401
 
 
 def build_pack(
@@ -53,45 +39,6 @@ def build_pack(
 ) -> pipeline.Built:
     """``pipeline.build`` in a worker, saying how many charts are drawn as it goes."""
     return pipeline.build(raw, limits, options=options, progress=progress)
-
-
-def check_definition(raw: bytes, limits: Limits) -> dict[str, Any]:
-    """``pipeline.check`` in a worker, answered as plain data: the report's id, whether it is
-    blocked, the summary, every check's result, the waivers that were not needed, and the
-    summary as the command line prints it (``line``)."""
-    from service.checks.results import summary, summary_line
-
-    checked = pipeline.check(pipeline.intake(raw, limits))
-    return {
-        "report": checked.definition.report.id,
-        "blocked": checked.blocked,
-        "summary": summary(checked.results),
-        "checks": [r.model_dump(mode="json") for r in checked.results],
-        "unused_waivers": checked.unused_waivers,
-        "line": summary_line(checked.results),
-    }
-
-
-def run_alone(
-    job: Callable[..., T],
-    *args: Any,
-    timeout: float,
-    memory_mb: int,
-    progress: Progress | None = None,
-    **kwargs: Any,
-) -> T:
-    """Run one job in a worker process of its own under a time budget (0: none) and a memory
-    limit in MiB (0: none), as the service runs its jobs; without either, in this process."""
-    if not timeout and not memory_mb:
-        if progress is not None:
-            kwargs["progress"] = progress
-        return job(*args, **kwargs)
-    pool = Pool(1, initializer=_start_worker, timeout=timeout or float("inf"), memory_mb=memory_mb)
-    try:
-        result: T = pool.run(job, *args, progress=progress, **kwargs)
-    finally:
-        pool.close()
-    return result
 
 
 def verify_pack(pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
@@ -118,7 +65,7 @@ class Workers:
         self._waiting = 0
         self.render = render or RenderOptions()
         """How each worker draws a pack's charts (its own helper processes, the chart cache)."""
-        self._pool = Pool(size, initializer=_start_worker, timeout=timeout, memory_mb=memory_mb)
+        self._pool = Pool(size, initializer=start_worker, timeout=timeout, memory_mb=memory_mb)
         self._slots: asyncio.Semaphore | None = None
 
     async def _run(self, job: Callable[..., T], *args: Any, **kwargs: Any) -> T:

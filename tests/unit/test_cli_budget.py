@@ -57,7 +57,7 @@ def test_past_the_time_limit_the_command_stops_with_exit_2(
 
 def test_past_the_memory_limit_the_command_stops_with_exit_2(ages: Path, tmp_path: Path) -> None:
     done = plumbline(
-        "check", str(ages), "--time-limit", "0", "--memory-limit", "800", data_dir=tmp_path
+        "check", str(ages), "--time-limit", "60", "--memory-limit", "800", data_dir=tmp_path
     )
     assert done.returncode == 2, done.stderr
     assert "memory limit of 800 MB" in done.stderr
