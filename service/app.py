@@ -43,6 +43,7 @@ def create_app(settings: Settings | None = None) -> FastAPI:
             timeout=settings.render_timeout_s,
             render=from_settings(settings, service=True),
             memory_mb=settings.worker_memory_mb,
+            max_waiting=settings.max_waiting_requests,
         )
         sessions = db.connect(settings.database_url)
         store = open_store(settings)

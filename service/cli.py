@@ -11,17 +11,28 @@ import argparse
 import json
 import sys
 import uuid
+from collections.abc import Callable
 from datetime import datetime
 from pathlib import Path
-from typing import Any, TextIO
+from typing import Any, TextIO, TypeVar
 
 from pydantic import ValidationError
 
 from service import __version__
 from service.config import Settings, get_settings
-from service.errors import InvalidDefinition, PayloadTooLarge, PlumblineError, Unreadable
+from service.errors import (
+    MAX_LISTED_PROBLEMS,
+    InvalidDefinition,
+    PayloadTooLarge,
+    PlumblineError,
+    RenderTimeout,
+    Unreadable,
+    listing,
+)
 
 EXIT_OK, EXIT_FAILED_CHECKS, EXIT_INVALID, EXIT_INTERNAL = 0, 1, 2, 3
+
+T = TypeVar("T")
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -122,6 +133,7 @@ def _parser() -> argparse.ArgumentParser:
     p = command("check", "validate a definition and run its checks")
     p.add_argument("definition", type=Path, help="the report definition (a JSON file)")
     p.add_argument("--json", action="store_true", help="machine-readable output")
+    _budget_flags(p)
     p.set_defaults(run=_check)
 
     p = command("render", "check a definition and render a draft PDF")
@@ -143,6 +155,7 @@ def _parser() -> argparse.ArgumentParser:
         default=None,
         help="show a progress bar on standard error (default: when it is a terminal)",
     )
+    _budget_flags(p)
     p.set_defaults(run=_render)
 
     p = command("verify", "verify a sealed pack, step by step")
@@ -184,6 +197,48 @@ def _parser() -> argparse.ArgumentParser:
     )
     p.set_defaults(run=_serve)
     return parser
+
+
+def _budget_flags(p: argparse.ArgumentParser) -> None:
+    """The time and memory budget of a command that reads a definition, as the service has."""
+    p.add_argument(
+        "--time-limit",
+        type=float,
+        default=None,
+        metavar="SECONDS",
+        help="stop past this many seconds (default PLUMBLINE_RENDER_TIMEOUT_S; 0: no limit)",
+    )
+    p.add_argument(
+        "--memory-limit",
+        type=int,
+        default=None,
+        metavar="MB",
+        help="stop past this much memory (default PLUMBLINE_WORKER_MEMORY_MB; 0: no limit)",
+    )
+
+
+def _within_budget(
+    args: argparse.Namespace, settings: Settings, job: Callable[..., T], *a: Any, **kw: Any
+) -> T:
+    """Run ``job`` in a process of its own under the command's time and memory budget, as the
+    service runs its jobs; past either it is stopped (exit 2), with a message naming the flag."""
+    from service.runner.budget import run_alone
+    from service.runner.pool import RenderMemory
+
+    seconds = settings.render_timeout_s if args.time_limit is None else args.time_limit
+    megabytes = settings.worker_memory_mb if args.memory_limit is None else args.memory_limit
+    try:
+        return run_alone(job, *a, timeout=max(0.0, seconds), memory_mb=max(0, megabytes), **kw)
+    except RenderTimeout:
+        raise RenderTimeout(
+            f"the command was stopped after its time budget of {seconds:g} s; give a smaller "
+            "definition, or raise --time-limit SECONDS (0: no limit; default PLUMBLINE_RENDER_TIMEOUT_S)"
+        ) from None
+    except RenderMemory:
+        raise RenderMemory(
+            f"the command was stopped at its memory limit of {megabytes} MB; give a smaller "
+            "definition, or raise --memory-limit MB (0: no limit; default PLUMBLINE_WORKER_MEMORY_MB)"
+        ) from None
 
 
 def _keys_actions(p: argparse.ArgumentParser) -> None:
@@ -228,12 +283,18 @@ def _read(path: Path) -> bytes:
 
 
 def _invalid(exc: InvalidDefinition, *, json_out: bool) -> int:
+    listed = listing(exc.problems)
     if json_out:
-        print(json.dumps({"errors": [p.as_dict() for p in exc.problems]}, indent=2, default=str))
+        print(json.dumps(listed, indent=2, default=str))
     else:
         print(f"invalid definition: {exc.message}", file=sys.stderr)
-        for problem in exc.problems:
+        for problem in exc.problems[:MAX_LISTED_PROBLEMS]:
             print(f"  {problem.line()}", file=sys.stderr)
+        if listed["problems_truncated"]:
+            more = len(exc.problems) - MAX_LISTED_PROBLEMS
+            print(
+                f"  … and {more} more (the first {MAX_LISTED_PROBLEMS} are listed)", file=sys.stderr
+            )
     return EXIT_INVALID
 
 
@@ -278,28 +339,28 @@ def _report(checked_results: list[dict[str, Any]], summary: str, unused: list[st
 
 
 def _check(args: argparse.Namespace, settings: Settings) -> int:
-    from service import pipeline
-    from service.checks.results import summary, summary_line
+    from service.runner.budget import check_definition
 
-    checked = pipeline.check(pipeline.intake(_read(args.definition), settings.limits))
-    results = [r.model_dump(mode="json") for r in checked.results]
+    raw = _read(args.definition)
+    checked = _within_budget(args, settings, check_definition, raw, settings.limits)
+    results = checked["checks"]
     if args.json:
         print(
             json.dumps(
                 {
-                    "report": checked.definition.report.id,
-                    "blocked": checked.blocked,
-                    "summary": summary(checked.results),
+                    "report": checked["report"],
+                    "blocked": checked["blocked"],
+                    "summary": checked["summary"],
                     "results": results,
-                    "unused_waivers": checked.unused_waivers,
+                    "unused_waivers": checked["unused_waivers"],
                 },
                 indent=2,
             )
         )
     else:
-        _report(results, summary_line(checked.results), checked.unused_waivers)
-        _blocked_message(checked.blocked, results)
-    return EXIT_FAILED_CHECKS if checked.blocked else EXIT_OK
+        _report(results, checked["line"], checked["unused_waivers"])
+        _blocked_message(checked["blocked"], results)
+    return EXIT_FAILED_CHECKS if checked["blocked"] else EXIT_OK
 
 
 def _blocked_message(blocked: bool, results: list[dict[str, Any]]) -> None:
@@ -314,9 +375,9 @@ def _blocked_message(blocked: bool, results: list[dict[str, Any]]) -> None:
 
 
 def _render(args: argparse.Namespace, settings: Settings) -> int:
-    from service import pipeline
     from service.archive import files
     from service.render.options import from_settings
+    from service.runner.workers import build_pack
 
     if args.workers is not None:
         settings = settings.model_copy(update={"render_workers": args.workers})
@@ -324,8 +385,9 @@ def _render(args: argparse.Namespace, settings: Settings) -> int:
     shown = sys.stderr.isatty() if args.progress is None else args.progress
     bar = ProgressBar(sys.stderr) if shown else None
     try:
-        built = pipeline.build(
-            _read(args.definition), settings.limits, options=options, progress=bar
+        raw = _read(args.definition)
+        built = _within_budget(
+            args, settings, build_pack, raw, settings.limits, options=options, progress=bar
         )
     finally:
         if bar is not None:

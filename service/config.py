@@ -26,6 +26,13 @@ class Limits(BaseModel):
     max_table_rows: int = Field(200, ge=1)
     max_text_chars: int = Field(5_000, ge=10)
     max_label_chars: int = Field(200, ge=10)
+    max_periods: int | None = Field(None, ge=1)
+    """The periods a time series may span from its first row to its last, counting the ones
+    without a row (every check and chart works period by period); default twice ``max_rows``."""
+
+    @property
+    def periods_limit(self) -> int:
+        return self.max_periods or 2 * self.max_rows
 
 
 class Settings(BaseSettings):
@@ -42,6 +49,10 @@ class Settings(BaseSettings):
     max_queued_jobs: int = Field(200, ge=1, le=100_000)
     """PLUMBLINE_MAX_QUEUED_JOBS: background builds waiting or running in one process; past it a
     new one is refused with 429 and Retry-After."""
+    max_waiting_requests: int = Field(32, ge=0, le=100_000)
+    """PLUMBLINE_MAX_WAITING_REQUESTS: requests that wait for their answer (``POST /v1/reports``,
+    ``POST /v1/check``) and wait for a worker in one process; past it a new one is refused with
+    429 and Retry-After (a malformed definition is answered 422 first, without waiting)."""
     store_url: str = ""
     """PLUMBLINE_STORE_URL: where PDFs and definitions live — unset: files under the data folder;
     ``s3://bucket/prefix``: an S3-compatible object store; ``file:///path``: files there."""

@@ -42,6 +42,7 @@ Foreign exceptions are translated at the stage boundary (``raise RenderFailed(..
 
 from __future__ import annotations
 
+import json
 import logging
 from dataclasses import dataclass, field
 from typing import Any
@@ -88,6 +89,40 @@ class Problem:
         shown = "" if self.value is None else f" (got {_short(self.value)})"
         hint = f" — {self.hint}" if self.hint else ""
         return f"{self.path or '<root>'}: [{self.code}] {self.message}{shown}{hint}"
+
+
+MAX_LISTED_PROBLEMS = 100
+"""An answer lists at most this many of a definition's problems, and says how many there are."""
+
+MAX_ECHO_CHARS = 200
+"""An offending value longer than this (as JSON) is echoed as its start, cut with "…"."""
+
+
+def listing(problems: list[Problem]) -> dict[str, Any]:
+    """What an answer says of a definition's problems: the first :data:`MAX_LISTED_PROBLEMS`
+    (``errors``, each echoed value cut to :data:`MAX_ECHO_CHARS`), how many there are in all
+    (``problems_total``) and whether some were left out (``problems_truncated``) — so that an
+    answer is never much larger than the request that caused it."""
+    shown = problems[:MAX_LISTED_PROBLEMS]
+    return {
+        "errors": [_echoed(p.as_dict()) for p in shown],
+        "problems_total": len(problems),
+        "problems_truncated": len(shown) < len(problems),
+    }
+
+
+def _echoed(listed: dict[str, Any]) -> dict[str, Any]:
+    return {**listed, "value": _echo(listed["value"])}
+
+
+def _echo(value: Any) -> Any:
+    """``value`` as given when it is short; else the start of its text, cut with "…"."""
+    if value is None or isinstance(value, bool | int | float):
+        return value
+    text = value if isinstance(value, str) else json.dumps(value, default=str)
+    if len(text) <= MAX_ECHO_CHARS:
+        return value
+    return text[: MAX_ECHO_CHARS - 1] + "…"
 
 
 def _short(value: Any, limit: int = 60) -> str:

@@ -46,7 +46,7 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
         for d in range(len(definition.datasets))
         if any(p.path.startswith(f"datasets[{d}]") for p in problems)
     )
-    tables, found = frames.load_all(definition, skip=declared)
+    tables, found = frames.load_all(definition, skip=declared, max_periods=limits.periods_limit)
     problems.extend(found)
     troubled = {p.path for p in problems}
     for path, chart in definition.charts():

@@ -58,6 +58,23 @@ def make_monthly(months: list[str], values: list[float | None], **overrides: Any
     return make_dataset(rows=rows, **overrides)
 
 
+def make_daily(*days: str) -> Json:
+    """A definition of one daily series 'readings' (day, level) with a reading on each of
+    ``days``, as of noon of the last one, drawn as a trend."""
+    dataset = make_dataset(
+        name="readings",
+        columns=[make_column("day", "date"), make_column("level", "number", "m")],
+        time_column="day",
+        frequency="day",
+        rows=[{"day": d, "level": float(n)} for n, d in enumerate(days)],
+    )
+    report = make_report(
+        period={"start": days[0], "end": days[-1]}, as_of=f"{days[-1]}T12:00:00+00:00"
+    )
+    chart = make_trend_chart(dataset="readings", measures=["level"])
+    return make_definition(datasets=[dataset], charts=[chart], report=report)
+
+
 def make_category_dataset(values: dict[str, float | None], **overrides: Any) -> Json:
     """A dataset 'punctuality' of routes (text) and on_time (number, '%')."""
     dataset: Json = {

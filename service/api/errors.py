@@ -17,7 +17,7 @@ from starlette.exceptions import HTTPException
 
 from service import logs
 from service.definition import paths
-from service.errors import InvalidDefinition, PlumblineError, Problem, TooBusy
+from service.errors import InvalidDefinition, PlumblineError, Problem, TooBusy, listing
 
 log = logging.getLogger("plumbline.api")
 
@@ -52,9 +52,7 @@ the same problem shape as every other error instead of their bare ``{"detail": .
 def install(app: FastAPI) -> None:
     @app.exception_handler(InvalidDefinition)
     async def _invalid(request: Request, exc: InvalidDefinition) -> JSONResponse:
-        return problem(
-            exc.status, exc.code, exc.message, errors=[p.as_dict() for p in exc.problems]
-        )
+        return problem(exc.status, exc.code, exc.message, **listing(exc.problems))
 
     @app.exception_handler(PlumblineError)
     async def _known(request: Request, exc: PlumblineError) -> JSONResponse:

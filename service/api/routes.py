@@ -7,9 +7,8 @@ from typing import Any
 
 from fastapi import APIRouter, Depends, Request
 from pydantic import BaseModel
-from starlette.concurrency import run_in_threadpool
 
-from service import __version__, pipeline
+from service import __version__
 from service.api import deps, docs
 from service.api.deps import PrincipalDep, ServicesDep
 from service.checks import registry
@@ -56,26 +55,15 @@ async def checks() -> list[dict[str, Any]]:
     "/check",
     tags=["checks"],
     openapi_extra=docs.DEFINITION_BODY,
-    responses=docs.refusals(401, 413, 422),
+    responses=docs.refusals(401, 413, 422, 429, 500),
     response_model=CheckAnswer,
 )
 async def check_definition(
     request: Request, services: ServicesDep, principal: PrincipalDep
 ) -> CheckAnswer:
-    """Validate a definition and run its checks without rendering or storing anything."""
-    raw = await request.body()
-    checked = await run_in_threadpool(
-        lambda: pipeline.check(pipeline.intake(raw, services.settings.limits))
-    )
-    from service.checks.results import summary
-
-    return CheckAnswer(
-        report=checked.definition.report.id,
-        blocked=checked.blocked,
-        summary=summary(checked.results),
-        checks=[r.model_dump(mode="json") for r in checked.results],
-        unused_waivers=checked.unused_waivers,
-    )
+    """Validate a definition and run its checks without rendering or storing anything (in a
+    worker process, under the same time and memory budget as a render)."""
+    return CheckAnswer(**await services.check(await request.body()))
 
 
 @router.post(

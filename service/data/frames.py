@@ -52,12 +52,16 @@ class Table:
 
 
 def load_all(
-    definition: ReportDefinition, *, skip: frozenset[int] = frozenset()
+    definition: ReportDefinition,
+    *,
+    skip: frozenset[int] = frozenset(),
+    max_periods: int | None = None,
 ) -> tuple[dict[str, Table], list[Problem]]:
     """The datasets that loaded cleanly, and every value problem of those that did not.
 
     Datasets listed in ``skip`` (by index) already have problems with their declaration and are not
-    read at all.
+    read at all. A time series spanning more than ``max_periods`` periods is refused here, before
+    anything is done period by period.
     """
     tables: dict[str, Table] = {}
     problems: list[Problem] = []
@@ -68,10 +72,36 @@ def load_all(
         table, found = load(
             dataset, path=f"datasets[{d}]", as_of=as_of, zone=definition.report.as_of.tzinfo
         )
+        if table is not None and not found and max_periods is not None:
+            found = _span_problems(table, f"datasets[{d}]", max_periods)
         problems.extend(found)
         if table is not None and not found:
             tables[dataset.name] = table
     return tables, problems
+
+
+def _span_problems(table: Table, path: str, max_periods: int) -> list[Problem]:
+    """A time series whose first and last rows lie more than ``max_periods`` periods apart:
+    two rows can span ten thousand years of days, and every check and chart works per period."""
+    if table.periods is None or table.frequency is None:
+        return []
+    count = periods.span(table.periods)
+    if count <= max_periods:
+        return []
+    what = (
+        f"the dataset '{table.name}' spans {table.periods.min()} to {table.periods.max()}, "
+        f"{count} periods of a {table.frequency.value}"
+    )
+    return [
+        Problem.over_limit(
+            path,
+            what,
+            count,
+            setting="max_periods",
+            limit=max_periods,
+            advice="give a shorter span or a coarser frequency",
+        )
+    ]
 
 
 def load(

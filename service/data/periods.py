@@ -38,6 +38,15 @@ def expected(first: pd.Period, last: pd.Period) -> pd.PeriodIndex:
     return pd.period_range(first, last, freq=first.freq)
 
 
+def span(present: pd.PeriodIndex) -> int:
+    """How many periods run from the first of ``present`` to the last, inclusive (0 if none):
+    the length :func:`expected` would have, counted without building it."""
+    if len(present) == 0:
+        return 0
+    ordinals = present.asi8
+    return int(ordinals.max()) - int(ordinals.min()) + 1
+
+
 def missing(present: pd.PeriodIndex) -> list[pd.Period]:
     """Periods between the first and last present one that have no row."""
     if len(present) == 0:

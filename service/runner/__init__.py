@@ -2,6 +2,8 @@
 
 - ``pool``: worker processes that can be stopped one by one (a deadline per job, a memory limit);
 - ``workers``: the service's render workers and the functions they run (``build_pack``);
+- ``budget``: one job under a time and memory budget (``run_alone``, for the command line), and
+  what a worker loads before its memory limit applies;
 - ``jobs``: background builds — :class:`~service.runner.jobs.Jobs`, the interface both runners
   satisfy (``LocalJobs`` here; ``service.distributed.jobs.CeleryJobs`` on a queue), and the job
   states (:class:`~service.runner.jobs.JobState`); ``views``: a job as its author sees it;

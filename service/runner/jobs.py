@@ -35,7 +35,7 @@ from service import logs
 from service.archive.db import JobRow, now
 from service.archive.files import BlobStore
 from service.config import Settings
-from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy
+from service.errors import InvalidDefinition, NotFound, PlumblineError, TooBusy, listing
 from service.runner.workers import Workers
 from service.workflow import drafts
 from service.workflow.keys import Principal, Role
@@ -116,7 +116,7 @@ def failure(exc: Exception) -> dict[str, Any]:
         }
     error: dict[str, Any] = {"code": exc.code, "status": exc.status, "detail": exc.message}
     if isinstance(exc, InvalidDefinition):
-        error["errors"] = [p.as_dict() for p in exc.problems]
+        error.update(listing(exc.problems))
     if exc.status >= 500:
         error["incident"] = logs.incident(
             log, "a job failed", detail=exc.message, found=exc.incident

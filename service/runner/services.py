@@ -73,7 +73,7 @@ class Services:
 
     async def build_draft(self, principal: Principal, raw: bytes) -> PackRow:
         """Build the definition in a worker and store the draft, ``principal`` its author."""
-        built = await self.workers.build(raw, self.settings.limits)
+        built = await self.workers.build_now(raw, self.settings.limits)
         return await run_in_threadpool(
             drafts.create,
             sessions=self.sessions,
@@ -82,6 +82,10 @@ class Services:
             definition=raw,
             author=principal,
         )
+
+    async def check(self, raw: bytes) -> dict[str, Any]:
+        """Validate a definition and run its checks in a worker, under the render budget."""
+        return await self.workers.check(raw, self.settings.limits)
 
     async def sign_off_and_seal(
         self, principal: Principal, pack_id: str, content_sha256: str

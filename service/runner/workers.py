@@ -1,12 +1,16 @@
 """Worker processes for rendering: matplotlib is not thread-safe and rendering is CPU-bound, so a
 pack is built in a separate process (``service.runner.pool``) and the event loop only awaits it. Every
 job has the configured time budget; past it the worker is killed and the job fails with that reason.
+
+A request that waits for its answer (a build with ``wait=true``, a check) is parsed and validated
+before it waits for a worker, so a malformed one is answered at once; and at most ``max_waiting``
+such requests wait while every worker is busy: past that a new one is refused with
+:class:`~service.errors.TooBusy` (429 with Retry-After), like the background queue.
 """
 
 from __future__ import annotations
 
 import asyncio
-import os
 from collections.abc import Callable
 from functools import partial
 from typing import Any, TypeVar
@@ -15,26 +19,15 @@ from starlette.concurrency import run_in_threadpool
 
 from service import pipeline
 from service.config import Limits, Settings
-from service.render import style
+from service.definition import validate
+from service.errors import TooBusy
 from service.render.options import RenderOptions
+from service.runner.budget import check_definition, start_worker
 from service.runner.pool import Pool, Progress
 from service.seal.verify import VerifyReport
 from service.workflow import sealing
 
 T = TypeVar("T")
-
-
-WORKER_NICENESS = 5
-"""Render workers run at a lower CPU priority than the process answering requests, so accepting
-a job or answering a status query stays quick while every core is drawing."""
-
-
-def _start_worker() -> None:
-    os.nice(WORKER_NICENESS)
-    style.install()
-    # Loaded here, before the worker's memory limit applies: scipy's OpenBLAS reserves its
-    # buffers as it loads and, refused, retries in a loop or exits instead of raising.
-    from scipy import special  # noqa: F401
 
 
 def build_pack(
@@ -63,11 +56,16 @@ class Workers:
         timeout: float = 300.0,
         render: RenderOptions | None = None,
         memory_mb: int | None = None,
+        max_waiting: int | None = None,
     ) -> None:
         self.size = size
+        self.max_waiting = max_waiting
+        """Requests waiting for their answer that may wait while every worker is busy (None:
+        any; 0: none)."""
+        self._waiting = 0
         self.render = render or RenderOptions()
         """How each worker draws a pack's charts (its own helper processes, the chart cache)."""
-        self._pool = Pool(size, initializer=_start_worker, timeout=timeout, memory_mb=memory_mb)
+        self._pool = Pool(size, initializer=start_worker, timeout=timeout, memory_mb=memory_mb)
         self._slots: asyncio.Semaphore | None = None
 
     async def _run(self, job: Callable[..., T], *args: Any, **kwargs: Any) -> T:
@@ -78,6 +76,38 @@ class Workers:
         async with self._slots:
             result: T = await run_in_threadpool(partial(self._pool.run, job, *args, **kwargs))
         return result
+
+    async def _answer(self, raw: bytes, limits: Limits, job: Callable[..., T], *args: Any) -> T:
+        """Run ``job(raw, *args)`` for a request that waits for its answer: the definition is
+        parsed and validated first (its shape problems are answered without a worker), then the
+        request waits for a worker unless ``max_waiting`` requests already do."""
+        await run_in_threadpool(validate.parse, raw, limits)
+        if self._slots is None:
+            self._slots = asyncio.Semaphore(self.size)
+        full = self.max_waiting is not None and self._waiting >= self.max_waiting
+        if full and self._slots.locked():
+            raise TooBusy(
+                f"{self._waiting} requests are waiting for a worker, the most this service "
+                "lets wait (PLUMBLINE_MAX_WAITING_REQUESTS); retry after the time given",
+                retry_after=max(1, self._waiting // max(1, self.size)),
+            )
+        self._waiting += 1  # counted before the first await, so concurrent requests see it
+        try:
+            await self._slots.acquire()
+        finally:
+            self._waiting -= 1
+        try:
+            return await run_in_threadpool(partial(self._pool.run, job, raw, *args))
+        finally:
+            self._slots.release()
+
+    async def build_now(self, raw: bytes, limits: Limits) -> pipeline.Built:
+        """Build a definition for a request that waits for the draft (see :meth:`_answer`)."""
+        return await self._answer(raw, limits, partial(build_pack, options=self.render), limits)
+
+    async def check(self, raw: bytes, limits: Limits) -> dict[str, Any]:
+        """Check a definition in a worker, under the render budget (see :meth:`_answer`)."""
+        return await self._answer(raw, limits, check_definition, limits)
 
     async def build(
         self, raw: bytes, limits: Limits, progress: Progress | None = None
