@@ -26,10 +26,11 @@ from datetime import datetime
 from enum import StrEnum
 from typing import Any
 
+from sqlalchemy import update
 from sqlalchemy.orm import Session, sessionmaker
 
 from service.archive import audit
-from service.archive.db import KeyRow, now, utc
+from service.archive.db import KeyRow, SessionRow, now, utc
 from service.errors import Forbidden, InvalidRequest, NotFound, Unauthorized
 
 KDF = "scrypt-n16384-r8-p1"
@@ -156,8 +157,48 @@ def revoke(sessions: sessionmaker[Any], *, key_id: str, by: Principal | None = N
         if row.revoked_at is not None:
             return False
         row.revoked_at = now()
+        _end_sessions(session, SessionRow.key_id == key_id, row.revoked_at)
         _audit(session, by, "key.revoked", {"key": key_id, "name": row.name})
     return True
+
+
+# --- review sessions: signed in on the server, so that ending one ends every copy of its cookie ---
+
+
+def start_session(
+    sessions: sessionmaker[Any], *, digest: str, key_id: str, expires: datetime
+) -> None:
+    """Record a signed-in session by the SHA-256 of its id (the cookie carries the id only)."""
+    with sessions.begin() as session:
+        session.add(
+            SessionRow(
+                id=digest, key_id=key_id, created_at=now(), expires_at=utc(expires), ended_at=None
+            )
+        )
+
+
+def session_principal(sessions: sessionmaker[Any], digest: str) -> Principal | None:
+    """The principal of a signed-in session; ``None`` if the id was never signed in (an
+    anonymous visitor); :class:`Unauthorized` if the session ended (signed out, its key revoked)
+    or expired, or its key was revoked or expired."""
+    with sessions() as session:
+        row = session.get(SessionRow, digest)
+    if row is None:
+        return None
+    if row.ended_at is not None or utc(row.expires_at) <= now():
+        raise Unauthorized("this session has ended; sign in again")
+    return principal_for(sessions, row.key_id)
+
+
+def end_session(sessions: sessionmaker[Any], digest: str) -> None:
+    """Sign out: the session ends now, for every copy of its cookie."""
+    with sessions.begin() as session:
+        _end_sessions(session, SessionRow.id == digest, now())
+
+
+def _end_sessions(session: Session, which: Any, at: datetime) -> None:
+    statement = update(SessionRow).where(which, SessionRow.ended_at.is_(None)).values(ended_at=at)
+    session.execute(statement.execution_options(synchronize_session=False))
 
 
 def can_see(principal: Principal, report_id: str) -> bool:
@@ -203,6 +244,9 @@ __all__ = [
     "authenticate",
     "can_see",
     "create",
+    "end_session",
     "principal_for",
     "revoke",
+    "session_principal",
+    "start_session",
 ]
