@@ -87,11 +87,14 @@ async def sign_in(request: Request, current: VisitDep) -> Response:
     fields = await form(request, current)
     secret = fields.get("key", "").strip()
     target = safe_next(fields.get("next"))
+    address = request.client.host if request.client is not None else ""
+    current.services.auth_failures.check(address)
     try:
         if not secret or len(secret) > MAX_KEY_CHARS:
             raise Unauthorized("no key")
         principal = await run_in_threadpool(keys.authenticate, current.services.sessions, secret)
-    except Unauthorized:
+    except Unauthorized as refused:
+        current.services.auth_failures.failed(address, refused)
         context = current.context(next=target, flash="", error=SIGN_IN_FAILED, notice="")
         return current.finish(html("sign_in.html", context, status=401))
     await current.start(principal.key_id)
