@@ -38,12 +38,22 @@ _bearer = HTTPBearer(
 
 
 async def _principal(
+    request: Request,
     services: ServicesDep,
     credentials: Annotated[HTTPAuthorizationCredentials | None, Depends(_bearer)],
 ) -> Principal:
     if credentials is None or credentials.scheme.lower() != "bearer":
         raise Unauthorized("send an API key as 'Authorization: Bearer <key>'")
-    secret = credentials.credentials
+    address = request.client.host if request.client is not None else ""
+    services.auth_failures.check(address)
+    try:
+        return await _checked(services, credentials.credentials)
+    except Unauthorized as refused:
+        services.auth_failures.failed(address, refused)
+        raise
+
+
+async def _checked(services: Services, secret: str) -> Principal:
     # scrypt is deliberately slow (tens of milliseconds): a secret that passed it once is known by
     # its SHA-256 (a 256-bit random secret cannot be guessed from it), and its key is still looked
     # up on every request, so a revoked or expired key is refused at once.

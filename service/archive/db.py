@@ -186,6 +186,19 @@ class KeyRow(Base):
     revoked_at: Mapped[datetime | None] = mapped_column(DateTime(timezone=True), nullable=True)
 
 
+class SessionRow(Base):
+    """A signed-in review session; the cookie carries its id, this row decides whether it holds."""
+
+    __tablename__ = "sessions"
+
+    id: Mapped[str] = mapped_column(String(64), primary_key=True)
+    """The SHA-256 of the session id the cookie carries (the id itself is not stored)."""
+    key_id: Mapped[str] = mapped_column(String(40), index=True)
+    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+    expires_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+    ended_at: Mapped[datetime | None] = mapped_column(DateTime(timezone=True), nullable=True)
+
+
 class ReviewRow(Base):
     """A pack's review: its authors, what was submitted, and who signed off which hash."""
 

@@ -98,6 +98,9 @@ class BlobStore(Protocol):
 
     def get(self, digest: str) -> bytes: ...
 
+    def discard(self, digest: str) -> None:
+        """Remove a file that no row claims (a sealed pack whose sign-off lost); absent is fine."""
+
 
 class Store:
     """Blobs under ``root/ab/cdef…``; a blob's name is its SHA-256, so it is written once."""
@@ -123,6 +126,9 @@ class Store:
             return target.read_bytes()
         except FileNotFoundError:
             raise NotFound(f"no stored file {digest}") from None
+
+    def discard(self, digest: str) -> None:
+        self.path(digest).unlink(missing_ok=True)
 
     def temporary(self) -> list[Path]:
         """Temporary files a write left behind when its process was killed (no row names one)."""

@@ -100,6 +100,14 @@ class ObjectStore:
             )
         return data
 
+    def discard(self, digest: str) -> None:
+        key = self.key(digest)
+        try:
+            self._client.delete_object(Bucket=self.bucket, Key=key)
+        except Exception as exc:  # botocore's errors are translated here
+            if _code(exc) not in _MISSING:
+                raise self._unavailable("remove", key, exc) from exc
+
     def _exists(self, key: str) -> bool:
         try:
             self._client.head_object(Bucket=self.bucket, Key=key)

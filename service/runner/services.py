@@ -23,7 +23,7 @@ from service.runner.jobs import Jobs
 from service.runner.workers import Workers
 from service.seal.verify import VerifyReport
 from service.workflow import drafts, sealing
-from service.workflow.keys import Principal
+from service.workflow.keys import FailureLimit, Principal
 
 PROBE = b"plumbline readiness probe\n"
 """Written to and read back from the store by ``GET /v1/ready`` (content-addressed: one file)."""
@@ -45,6 +45,8 @@ class Services:
     jobs: Jobs
     known_keys: OrderedDict[bytes, str] = field(default_factory=OrderedDict)
     """SHA-256 of a secret already checked with scrypt → its key id (most recent last)."""
+    auth_failures: FailureLimit = field(default_factory=FailureLimit)
+    """Failed authentications per client address (the API's keys and the pages' sign-in)."""
 
     def probe_database(self) -> None:
         """The database answers ``SELECT 1`` (and a SQLite file is still there)."""

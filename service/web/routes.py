@@ -72,7 +72,9 @@ async def sign_in_page(
     current: VisitDep, next: str | None = None, done: str | None = None, ended: str | None = None
 ) -> Response:
     notice = (
-        "Your session ended: its key was revoked or has expired. Sign in again." if ended else ""
+        "Your session ended: it was signed out or expired, or its key was revoked. Sign in again."
+        if ended
+        else ""
     )
     context = current.context(
         next=safe_next(next), flash=_flash(done), error="", notice=current.ended or notice
@@ -85,21 +87,24 @@ async def sign_in(request: Request, current: VisitDep) -> Response:
     fields = await form(request, current)
     secret = fields.get("key", "").strip()
     target = safe_next(fields.get("next"))
+    address = request.client.host if request.client is not None else ""
+    current.services.auth_failures.check(address)
     try:
         if not secret or len(secret) > MAX_KEY_CHARS:
             raise Unauthorized("no key")
         principal = await run_in_threadpool(keys.authenticate, current.services.sessions, secret)
-    except Unauthorized:
+    except Unauthorized as refused:
+        current.services.auth_failures.failed(address, refused)
         context = current.context(next=target, flash="", error=SIGN_IN_FAILED, notice="")
         return current.finish(html("sign_in.html", context, status=401))
-    current.start(principal.key_id)
+    await current.start(principal.key_id)
     return current.finish(redirect(f"{target}?done=signed_in"))
 
 
 @router.post("/sign-out")
 async def sign_out(request: Request, current: VisitDep) -> Response:
     await form(request, current)
-    return current.end(redirect("/review/sign-in?done=signed_out"))
+    return await current.end(redirect("/review/sign-in?done=signed_out"))
 
 
 # --- queue and pack ------------------------------------------------------------------------------

@@ -1,11 +1,12 @@
-"""The review pages' session cookie and CSRF tokens: signed with HMAC-SHA256, no server-side store.
+"""The review pages' session cookie and CSRF tokens, signed with HMAC-SHA256.
 
-The cookie holds ``{"sid": <random id>, "key": <key id or null>, "exp": <unix seconds>}`` as
-base64url JSON and its HMAC-SHA256 under the session secret. A visitor gets an anonymous session
-(no key) on the sign-in page, so the sign-in form carries a CSRF token too; signing in issues a new
-session id (an id seen before sign-in is never used after it). The key is looked up again on every
-request (:func:`service.workflow.keys.principal_for`), so revoking a key ends its sessions; the
-cookie's expiry bounds a session whose key stays valid.
+The cookie holds ``{"sid": <random id>, "exp": <unix seconds>}`` as base64url JSON and its
+HMAC-SHA256 under the session secret; it names no key. Whether a session is signed in, and as which
+key, is decided on the server on every request: signing in records the SHA-256 of a new session id
+in the archive (:func:`service.workflow.keys.start_session`), and that row ends at sign-out, when
+its key is revoked, and at its expiry, so a cookie captured earlier is worth nothing afterwards. A
+visitor gets an anonymous session (no row) on the sign-in page, so the sign-in form carries a CSRF
+token too; signing in issues a new session id (an id seen before sign-in is never used after it).
 
 The secret is ``PLUMBLINE_SESSION_SECRET``, or else 32 random bytes made once in
 ``data_dir/web-session.key`` (mode 0600). Two processes starting at once write their own temporary
@@ -50,18 +51,22 @@ class Session:
     """One visitor's session as the cookie carries it."""
 
     sid: str
-    key_id: str | None
     expires: int
     """Unix seconds."""
 
     @classmethod
     def anonymous(cls, *, now: float | None = None) -> Session:
-        return cls(secrets.token_hex(16), None, int(now or time.time()) + ANONYMOUS_SECONDS)
+        return cls(secrets.token_hex(16), int(now or time.time()) + ANONYMOUS_SECONDS)
 
     @classmethod
-    def signed_in(cls, key_id: str, *, now: float | None = None) -> Session:
-        """A new session id for the key: never the id the visitor had before signing in."""
-        return cls(secrets.token_hex(16), key_id, int(now or time.time()) + SIGNED_IN_SECONDS)
+    def signed_in(cls, *, now: float | None = None) -> Session:
+        """A new session id: never the id the visitor had before signing in."""
+        return cls(secrets.token_hex(16), int(now or time.time()) + SIGNED_IN_SECONDS)
+
+    @property
+    def digest(self) -> str:
+        """The SHA-256 of the id, as the archive's ``sessions`` table knows the session."""
+        return hashlib.sha256(self.sid.encode()).hexdigest()
 
 
 def secret_of(settings: Settings) -> bytes:
@@ -106,7 +111,7 @@ def _mac(secret: bytes, purpose: str, message: str) -> str:
 def encode(session: Session, secret: bytes) -> str:
     """The cookie value: payload and signature."""
     payload = json.dumps(
-        {"sid": session.sid, "key": session.key_id, "exp": session.expires},
+        {"sid": session.sid, "exp": session.expires},
         separators=(",", ":"),
         sort_keys=True,
     )
@@ -119,18 +124,18 @@ def decode(value: str | None, secret: bytes, *, now: float | None = None) -> Ses
     data = _verified(value, secret)
     if data is None:
         return None
-    sid, key, expires = data.get("sid"), data.get("key"), data.get("exp")
+    sid, expires = data.get("sid"), data.get("exp")
     valid = (
-        isinstance(sid, str)
+        set(data) == {"sid", "exp"}
+        and isinstance(sid, str)
         and _SID.match(sid) is not None
         and isinstance(expires, int)
         and not isinstance(expires, bool)
-        and (key is None or isinstance(key, str))
         and expires > int(now or time.time())
     )
     if not valid:
         return None
-    return Session(str(sid), None if key is None else str(key), int(str(expires)))
+    return Session(str(sid), int(str(expires)))
 
 
 def _verified(value: str | None, secret: bytes) -> dict[str, object] | None:

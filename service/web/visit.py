@@ -6,6 +6,7 @@ from __future__ import annotations
 import re
 import time
 from dataclasses import dataclass
+from datetime import UTC, datetime
 from typing import Any
 from urllib.parse import parse_qs, quote, urlsplit
 
@@ -63,13 +64,23 @@ class Visit:
             )
         return response
 
-    def start(self, key_id: str) -> None:
-        """Sign in: a new session id for the key."""
-        self.session = cookies.Session.signed_in(key_id)
+    async def start(self, key_id: str) -> None:
+        """Sign in: a new session id, recorded in the archive for the key."""
+        self.session = cookies.Session.signed_in()
+        expires = datetime.fromtimestamp(self.session.expires, UTC)
+        await run_in_threadpool(
+            keys.start_session,
+            self.services.sessions,
+            digest=self.session.digest,
+            key_id=key_id,
+            expires=expires,
+        )
         self.fresh = True
 
-    def end(self, response: Response) -> Response:
-        """Sign out: the cookie is removed."""
+    async def end(self, response: Response) -> Response:
+        """Sign out: the session ends in the archive (a copy of the cookie is worth nothing
+        afterwards) and the cookie is removed."""
+        await run_in_threadpool(keys.end_session, self.services.sessions, self.session.digest)
         response.delete_cookie(
             cookies.COOKIE,
             path=cookies.PATH,
@@ -103,10 +114,8 @@ async def visit(request: Request) -> Visit:
     found = cookies.decode(request.cookies.get(cookies.COOKIE), secret)
     if found is None:
         return Visit(services, secret, cookies.Session.anonymous(), None, fresh=True, https=https)
-    if found.key_id is None:
-        return Visit(services, secret, found, None, fresh=False, https=https)
     try:
-        principal = await run_in_threadpool(keys.principal_for, services.sessions, found.key_id)
+        principal = await run_in_threadpool(keys.session_principal, services.sessions, found.digest)
     except Unauthorized:
         return Visit(
             services,
@@ -114,10 +123,10 @@ async def visit(request: Request) -> Visit:
             cookies.Session.anonymous(),
             None,
             fresh=True,
-            ended="Your session ended: the key it used was revoked or has expired.",
+            ended="Your session ended: it was signed out or expired, or its key was revoked.",
             https=https,
         )
-    return Visit(services, secret, found, principal, fresh=False, https=https)
+    return Visit(services, secret, found, principal, fresh=False, https=https)  # None: anonymous
 
 
 def signed_in(request: Request, current: Visit) -> Principal:

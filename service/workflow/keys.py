@@ -4,9 +4,13 @@ A secret is ``<key id>.<43 random URL-safe characters>`` (256 bits from :mod:`se
 returned once by :func:`create` and never stored: the ``keys`` table keeps a per-key random salt and
 the scrypt hash of the secret (n=2**14, r=8, p=1: 16 MiB, tens of milliseconds). scrypt rather than
 PBKDF2 because it is memory-hard, so a stolen table is costly to attack on GPUs even for a weaker
-secret; with 256-bit random secrets the hash is defence in depth. The key id in the secret finds
-the row; the hash is compared with :func:`hmac.compare_digest`, and an unknown key id still pays for
-one hash, so timing does not tell which key ids exist.
+secret; with 256-bit random secrets the hash is defence in depth. The key id in the secret (the
+part before the dot, not secret: it is printed, listed and in the audit trail) finds the row before
+anything is hashed, so a secret whose key id is malformed or names no key is refused at the cost of
+one indexed read, not 16 MiB of scrypt; the hash is compared with :func:`hmac.compare_digest`. Keys
+issued before this rule carry the same id, so they keep working unchanged. Failures are counted
+per client address (:class:`FailureLimit`): past ``MAX_FAILURES`` in ``FAILURE_WINDOW_S`` seconds
+an address is answered 429 with Retry-After before any key is looked at.
 
 Families are report-id prefixes on a word boundary: ``hollin-vale`` grants ``hollin-vale`` and
 ``hollin-vale-ops-monthly`` (or ``hollin-vale_…``) but not ``hollin-valley``; ``*`` grants every
@@ -18,24 +22,36 @@ from __future__ import annotations
 
 import hashlib
 import hmac
+import math
 import re
 import secrets
+import time
 import uuid
+from collections import OrderedDict, deque
 from dataclasses import dataclass
 from datetime import datetime
 from enum import StrEnum
 from typing import Any
 
+from sqlalchemy import update
 from sqlalchemy.orm import Session, sessionmaker
 
 from service.archive import audit
-from service.archive.db import KeyRow, now, utc
-from service.errors import Forbidden, InvalidRequest, NotFound, Unauthorized
+from service.archive.db import KeyRow, SessionRow, now, utc
+from service.errors import Forbidden, InvalidRequest, NotFound, TooBusy, Unauthorized
 
 KDF = "scrypt-n16384-r8-p1"
 _N, _R, _P = 2**14, 8, 1
 _FAMILY = re.compile(r"^(\*|[a-z0-9][a-z0-9_-]{0,63})$")
-_DUMMY_SALT = bytes(16)
+_KEY_ID = re.compile(r"^key_[0-9a-f]{16}$")
+NOT_VALID = "the API key is not valid"
+"""Why a secret is refused that names no key or does not match its hash (the failures counted by
+:class:`FailureLimit`; a revoked or expired key is refused with its own words, and not counted)."""
+MAX_FAILURES = 20
+"""Failed authentications one client address may make in ``FAILURE_WINDOW_S`` seconds."""
+FAILURE_WINDOW_S = 60
+MAX_ADDRESSES = 10_000
+"""Addresses remembered at once (the oldest is forgotten first), so a flood cannot grow memory."""
 
 
 class Role(StrEnum):
@@ -119,14 +135,55 @@ def authenticate(
 ) -> Principal:
     """The principal a secret belongs to; :class:`Unauthorized` if unknown, revoked or expired."""
     key_id, _, _ = secret.partition(".")
-    with sessions() as session:
-        row = session.get(KeyRow, key_id) if key_id else None
-    if row is None:
-        _hash(secret, _DUMMY_SALT)  # the same work as for a real key
-        raise Unauthorized("the API key is not valid")
+    row = None
+    if _KEY_ID.match(key_id):
+        with sessions() as session:
+            row = session.get(KeyRow, key_id)
+    if row is None:  # no hash: the key id is not secret, so its absence tells nothing of a secret
+        raise Unauthorized(NOT_VALID)
     if not hmac.compare_digest(_hash(secret, bytes.fromhex(row.salt)).hex(), row.secret_hash):
-        raise Unauthorized("the API key is not valid")
+        raise Unauthorized(NOT_VALID)
     return _principal(row, at)
+
+
+class FailureLimit:
+    """Failed authentications per client address in a sliding window (one process's memory)."""
+
+    def __init__(
+        self,
+        *,
+        max_failures: int = MAX_FAILURES,
+        window_s: float = FAILURE_WINDOW_S,
+        clock: Any = time.monotonic,
+    ) -> None:
+        self.max_failures, self.window_s, self.clock = max_failures, window_s, clock
+        self._failures: OrderedDict[str, deque[float]] = OrderedDict()
+
+    def check(self, address: str) -> None:
+        """Raise :class:`TooBusy` (429) while the address has failed too often recently."""
+        failures = self._recent(address)
+        if len(failures) >= self.max_failures:
+            wait = math.ceil(failures[0] + self.window_s - self.clock())
+            raise TooBusy(
+                f"too many failed sign-ins from this address ({len(failures)} in "
+                f"{self.window_s:g} s); try again in {max(1, wait)} s",
+                retry_after=max(1, wait),
+            )
+
+    def failed(self, address: str, refusal: Unauthorized) -> None:
+        """Count a refusal if the secret itself was wrong (not a revoked or expired key)."""
+        if refusal.message != NOT_VALID:
+            return
+        self._recent(address).append(self.clock())
+        self._failures.move_to_end(address)
+        while len(self._failures) > MAX_ADDRESSES:
+            self._failures.popitem(last=False)
+
+    def _recent(self, address: str) -> deque[float]:
+        failures = self._failures.setdefault(address, deque())
+        while failures and failures[0] <= self.clock() - self.window_s:
+            failures.popleft()
+        return failures
 
 
 def principal_for(sessions: sessionmaker[Any], key_id: str) -> Principal:
@@ -164,8 +221,48 @@ def revoke(sessions: sessionmaker[Any], *, key_id: str, by: Principal | None = N
         if row.revoked_at is not None:
             return False
         row.revoked_at = now()
+        _end_sessions(session, SessionRow.key_id == key_id, row.revoked_at)
         _audit(session, by, "key.revoked", {"key": key_id, "name": row.name})
     return True
+
+
+# --- review sessions: signed in on the server, so that ending one ends every copy of its cookie ---
+
+
+def start_session(
+    sessions: sessionmaker[Any], *, digest: str, key_id: str, expires: datetime
+) -> None:
+    """Record a signed-in session by the SHA-256 of its id (the cookie carries the id only)."""
+    with sessions.begin() as session:
+        session.add(
+            SessionRow(
+                id=digest, key_id=key_id, created_at=now(), expires_at=utc(expires), ended_at=None
+            )
+        )
+
+
+def session_principal(sessions: sessionmaker[Any], digest: str) -> Principal | None:
+    """The principal of a signed-in session; ``None`` if the id was never signed in (an
+    anonymous visitor); :class:`Unauthorized` if the session ended (signed out, its key revoked)
+    or expired, or its key was revoked or expired."""
+    with sessions() as session:
+        row = session.get(SessionRow, digest)
+    if row is None:
+        return None
+    if row.ended_at is not None or utc(row.expires_at) <= now():
+        raise Unauthorized("this session has ended; sign in again")
+    return principal_for(sessions, row.key_id)
+
+
+def end_session(sessions: sessionmaker[Any], digest: str) -> None:
+    """Sign out: the session ends now, for every copy of its cookie."""
+    with sessions.begin() as session:
+        _end_sessions(session, SessionRow.id == digest, now())
+
+
+def _end_sessions(session: Session, which: Any, at: datetime) -> None:
+    statement = update(SessionRow).where(which, SessionRow.ended_at.is_(None)).values(ended_at=at)
+    session.execute(statement.execution_options(synchronize_session=False))
 
 
 def can_see(principal: Principal, report_id: str) -> bool:
@@ -203,6 +300,7 @@ def _audit(session: Session, by: Principal | None, action: str, detail: dict[str
 
 
 __all__ = [
+    "FailureLimit",
     "Forbidden",
     "InvalidRequest",
     "Principal",
@@ -211,6 +309,9 @@ __all__ = [
     "authenticate",
     "can_see",
     "create",
+    "end_session",
     "principal_for",
     "revoke",
+    "session_principal",
+    "start_session",
 ]

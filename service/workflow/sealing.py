@@ -19,6 +19,7 @@ sealed appendix shows each as *waived*, with the reviewer's name and reason, whe
 
 from __future__ import annotations
 
+import contextlib
 import csv
 import io
 import json
@@ -247,8 +248,9 @@ def sign_off_and_seal(
 
     Every rule is applied before the slow part (so a refused sign-off costs nothing); the sealed
     file is written to the store before the transaction that moves the pack and records the seal,
-    which applies every rule again. A crash or a lost race in between leaves at most a file that no
-    row claims."""
+    which applies every rule again. When that transaction does not record this seal (another
+    sign-off won the race, the draft was sent back meanwhile), the sealed file is removed again:
+    a signed "signed off" PDF that the archive does not record must not stay in the store."""
     plan = lifecycle.sign_off_preflight(
         sessions=sessions, principal=principal, pack_id=pack_id, content_sha256=content_sha256
     )
@@ -264,12 +266,25 @@ def sign_off_and_seal(
         record=sealed.record,
         sealed_at=plan.at,
     )
-    lifecycle.sign_off(
-        sessions=sessions,
-        principal=principal,
-        pack_id=pack_id,
-        content_sha256=content_sha256,
-        seal=row,
-        at=plan.at,
-    )
+    try:
+        lifecycle.sign_off(
+            sessions=sessions,
+            principal=principal,
+            pack_id=pack_id,
+            content_sha256=content_sha256,
+            seal=row,
+            at=plan.at,
+        )
+    except BaseException:
+        with contextlib.suppress(Exception):  # the refusal is the answer, not a failed cleanup
+            _discard_unclaimed(sessions, store, digest)
+        raise
     return row
+
+
+def _discard_unclaimed(sessions: sessionmaker[Any], store: BlobStore, digest: str) -> None:
+    """Remove a sealed file unless a seal row claims it (the same bytes sealed by the winner)."""
+    with sessions() as session:
+        claimed = session.scalars(select(SealRow.pack_id).where(SealRow.sha256 == digest)).first()
+    if claimed is None:
+        store.discard(digest)

@@ -225,3 +225,50 @@ def test_concurrent_audit_records_of_different_packs_do_not_clash(archive: Archi
             "pack.changes_requested",
         ]
         assert archive.status(pack.id) == "draft"
+
+
+def test_concurrent_sealed_sign_offs_leave_one_sealed_file(archive: Archive) -> None:
+    """Six approvers seal and sign off one draft at once: the store keeps exactly one sealed file,
+    and it names the signer the archive records (a loser's signed file is removed)."""
+    from service.archive.db import SealRow
+    from service.workflow import sealing
+
+    pack = archive.draft()
+    lifecycle.submit(
+        sessions=archive.sessions, principal=principal("Ann Author", Role.author), pack_id=pack.id
+    )
+    before = set(archive.store.root.glob("*/*"))
+    approvers = [principal(f"Approver {n}", Role.approver) for n in range(6)]
+
+    def fake_sealer(definition: bytes, record: dict[str, Any]) -> sealing.SealedPack:
+        import time
+
+        time.sleep(0.3)  # every approver passes the checks before any one records a sign-off
+        signed = f"%PDF sealed, signed off by {record['signed_off_by']}".encode()
+        return sealing.SealedPack(signed, record, "test signer", True, {})
+
+    def sign(who: Principal) -> Callable[[], None]:
+        def job() -> None:
+            sealing.sign_off_and_seal(
+                sessions=archive.sessions,
+                store=archive.store,
+                principal=who,
+                pack_id=pack.id,
+                content_sha256=pack.pdf_sha256,
+                sealer=fake_sealer,
+            )
+
+        return job
+
+    raised = run_together([sign(who) for who in approvers])
+    assert len(raised) == 5
+    assert all(isinstance(e, Conflict) for e in raised)
+    sealed = sorted(set(archive.store.root.glob("*/*")) - before)
+    with archive.sessions() as session:
+        review = session.get(ReviewRow, pack.id)
+        seal = session.get(SealRow, pack.id)
+    assert review is not None
+    assert seal is not None
+    assert [p.name for p in sealed] == [seal.sha256[2:]]
+    assert sealed[0].read_bytes().decode().endswith(f"by {review.signed_off_name}")
+    assert archive.store.temporary() == []

@@ -23,7 +23,17 @@ from service.workflow import keys
 from service.workflow.keys import Role
 
 REPO = Path(__file__).resolve().parents[2]
-TABLES = {"packs", "keys", "reviews", "waivers", "seals", "idempotency", "jobs", "audit"}
+TABLES = {
+    "packs",
+    "keys",
+    "reviews",
+    "waivers",
+    "seals",
+    "idempotency",
+    "jobs",
+    "audit",
+    "sessions",
+}
 
 
 @pytest.fixture
@@ -63,7 +73,7 @@ def expected_triggers(engine: Engine) -> set[str]:
 def test_an_empty_database_migrates_to_exactly_the_models(engine: Engine) -> None:
     assert migrate.current(engine) is None
     migrate.upgrade(engine)
-    assert migrate.current(engine) == migrate.head() == "0002"
+    assert migrate.current(engine) == migrate.head() == "0003"
     assert tables(engine) == TABLES
     assert drift(engine) == []
     assert triggers(engine) == expected_triggers(engine)

@@ -155,6 +155,55 @@ def test_revoking_the_key_ends_its_session(site: Site) -> None:
     assert "Your session ended" in page.text
 
 
+def _replay(site: Site, cookie: str) -> Person:
+    """Another browser that sends a cookie captured from a signed-in one."""
+    thief = Person(site.base, "", "thief")
+    site.opened.append(thief)
+    thief.http.cookies.set("plumbline_review", cookie, path="/review")
+    return thief
+
+
+def _waive_with(person: Person, pack_id: str, page: str) -> httpx.Response:
+    return person.post(
+        f"/review/packs/{pack_id}/waive",
+        page,
+        item="lie-factor/on-time",
+        reason="A reason that is long enough to pass the rule.",
+    )
+
+
+@pytest.mark.parametrize("how", ["sign-out", "revocation"])
+def test_a_cookie_captured_before_the_session_ended_is_refused(site: Site, how: str) -> None:
+    """Sessions live on the server: replaying the cookie after sign-out or after the key's
+    revocation reads no page and waives nothing."""
+    sessions = site.services.sessions
+    pack = site.draft()
+    key_id, secret = keys.create(
+        sessions, name="Rae Replay", roles={Role.reviewer}, families={"hollin-vale"}, expires=None
+    )
+    person = Person(site.base, secret, "Rae Replay")
+    site.opened.append(person)
+    assert person.sign_in().status_code == 303
+    page = person.http.get(f"/review/packs/{pack['id']}").text
+    captured = person.http.cookies["plumbline_review"]
+    if how == "sign-out":
+        out = person.http.post("/review/sign-out", data={"csrf": csrf_of(page)})
+        assert out.status_code == 303
+    else:
+        keys.revoke(sessions, key_id=key_id)
+    thief = _replay(site, captured)
+    assert thief.http.get("/review").status_code == 303
+    assert thief.http.get(f"/review/packs/{pack['id']}").status_code == 303
+    answer = _waive_with(thief, pack["id"], page)
+    assert answer.status_code in {303, 403}
+    assert answer.headers.get("location", "/review/sign-in").startswith("/review/sign-in")
+    with sessions() as session:
+        row = session.get(PackRow, pack["id"])
+        assert row is not None
+        assert waived_checks(session, row) == set()
+    assert _status(site, pack["id"]) == "in_review"
+
+
 def test_a_post_without_the_right_token_or_from_another_site_is_refused(site: Site) -> None:
     pack = site.draft()
     reviewer = _signed_in(site, "reviewer")
