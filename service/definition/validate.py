@@ -14,7 +14,7 @@ import io
 import json
 import re
 from collections import Counter
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 from typing import Any
 
 import pandas as pd
@@ -80,15 +80,18 @@ def parse(raw: bytes | str, limits: Limits) -> tuple[ReportDefinition, list[Prob
     data = raw.encode() if isinstance(raw, str) else raw
     if len(data) > limits.max_payload_bytes:
         raise PayloadTooLarge(size=len(data), limit=limits.max_payload_bytes)
+    repeated: list[_Object] = []
     try:
+        text = _utf8(data)
         document = json.loads(
-            _utf8(data), parse_constant=_non_finite, object_pairs_hook=_Object.of_pairs
+            text, parse_constant=_non_finite, object_pairs_hook=_Object.hook(repeated)
         )
     except (ValueError, RecursionError) as exc:  # JSONDecodeError and UnicodeDecodeError too
         raise InvalidDefinition([_json_problem(exc)]) from None
-    unreadable = list(_unreadable(document))
-    if unreadable:
-        raise InvalidDefinition(unreadable)
+    if repeated or _SURROGATES.search(text) or _ESCAPED_SURROGATE.search(text):  # rare: walk
+        unreadable = list(_unreadable(document))
+        if unreadable:
+            raise InvalidDefinition(unreadable)
     return validate(document, limits)
 
 
@@ -108,12 +111,20 @@ class _Object(dict[str, Any]):
     repeated: tuple[str, ...] = ()
 
     @classmethod
-    def of_pairs(cls, pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-        made = cls(pairs)
-        if len(made) < len(pairs):
+    def hook(cls, found: list[_Object]) -> Callable[[list[tuple[str, Any]]], dict[str, Any]]:
+        """An ``object_pairs_hook`` that adds each object with a repeated key to ``found``."""
+
+        def make(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
+            made = dict(pairs)
+            if len(made) == len(pairs):
+                return made
+            marked = cls(pairs)
             counts = Counter(key for key, _ in pairs)
-            made.repeated = tuple(key for key, n in counts.items() if n > 1)
-        return made
+            marked.repeated = tuple(key for key, n in counts.items() if n > 1)
+            found.append(marked)
+            return marked
+
+        return make
 
 
 def _unreadable(node: Any, path: tuple[int | str, ...] = ()) -> Iterable[Problem]:
@@ -141,6 +152,8 @@ def _unreadable(node: Any, path: tuple[int | str, ...] = ()) -> Iterable[Problem
 
 
 _SURROGATES = re.compile("[\ud800-\udfff]")
+_ESCAPED_SURROGATE = re.compile(r"\\u[dD][89a-fA-F]")
+"""A surrogate written as a JSON escape (also half of a well-formed pair, which the walk passes)."""
 
 
 def _escaped(text: str) -> str:
