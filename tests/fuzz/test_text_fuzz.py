@@ -151,6 +151,12 @@ ANY_CHARACTER = st.characters(min_codepoint=0, max_codepoint=0x10FFFF, exclude_c
 """The whole code space, surrogates included (Hypothesis leaves them out unless told)."""
 
 TEXT = st.one_of(
+    st.builds(  # a word with one character that once broke something
+        lambda before, special, after: before + special + after,
+        st.text(max_size=6),
+        st.sampled_from(SPECIAL),
+        st.text(max_size=6),
+    ),
     st.text(ANY_CHARACTER, max_size=40),
     st.text(st.one_of(ANY_CHARACTER, st.sampled_from(SPECIAL)), min_size=1, max_size=20),
     st.builds(
