@@ -58,7 +58,7 @@ def _iso_text(kind: str) -> Any:
     """A check that a date (``kind`` 'date') or time ('datetime') is given as text."""
 
     def check(value: Any) -> Any:
-        if not isinstance(value, str):
+        if not isinstance(value, str | date):  # JSON gives text; code may build with dates
             raise PydanticCustomError(
                 f"{kind}_type",
                 "a {what} is ISO 8601 text, not {kind}",
