@@ -12,6 +12,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     ├── NotFound (404, not_found)
     ├── Conflict (409, conflict)                       an illegal transition, a changed draft, a race
     ├── InvalidRequest (422, invalid_request)          a request that is not a definition is wrong
+    ├── UnsupportedMediaType (415, unsupported_media_type)   a JSON route sent another type
     ├── TooBusy (429, too_busy)                        the background queue is full (Retry-After)
     ├── RenderTimeout (422, render_timeout)            a render past its time budget, stopped
     ├── RenderFailed (500, render_failed)              a foreign exception during drawing or assembly
@@ -203,6 +204,13 @@ class Conflict(PlumblineError):
 class InvalidRequest(PlumblineError):
     code = "invalid_request"
     status = 422
+
+
+class UnsupportedMediaType(PlumblineError):
+    """A JSON route was sent a body of another media type (or a charset other than UTF-8)."""
+
+    code = "unsupported_media_type"
+    status = 415
 
 
 class NotFound(PlumblineError):

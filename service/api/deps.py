@@ -11,7 +11,7 @@ from fastapi.routing import APIRoute
 from fastapi.security import HTTPAuthorizationCredentials, HTTPBearer
 from starlette.concurrency import run_in_threadpool
 
-from service.errors import InvalidRequest, Unauthorized
+from service.errors import InvalidRequest, Unauthorized, UnsupportedMediaType
 from service.runner.services import Services
 from service.workflow import drafts, keys
 from service.workflow.drafts import Pack
@@ -97,6 +97,36 @@ def single_query_values(request: Request) -> None:
         raise InvalidRequest(
             f"the query parameter(s) {', '.join(repeated)} were given more than once: give each once"
         )
+
+
+def json_body(request: Request) -> None:
+    """A JSON route reads UTF-8 JSON only: a body sent as another type (a form, plain text, a
+    charset other than UTF-8) is refused with 415 rather than read as JSON anyway. A request that
+    names no type is read as JSON."""
+    given = request.headers.get("content-type")
+    if given is None:
+        return
+    media, _, parameters = given.partition(";")
+    media = media.strip().lower()
+    charset = next(
+        (
+            value.strip().strip('"').lower()
+            for name, _, value in (p.partition("=") for p in parameters.split(";"))
+            if name.strip().lower() == "charset"
+        ),
+        "utf-8",
+    )
+    if (media != "application/json" and not media.endswith("+json")) or charset not in {
+        "utf-8",
+        "utf8",
+    }:
+        raise UnsupportedMediaType(
+            f"this route reads JSON: send the body as 'Content-Type: application/json' (UTF-8), "
+            f"not '{given[:100]}'"
+        )
+
+
+JsonBody = Depends(json_body)
 
 
 def _query_names(dependant: Dependant) -> set[str]:

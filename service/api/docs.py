@@ -74,6 +74,7 @@ _MEANING = {
     409: "An illegal transition, a changed draft, an open failed check, or a request with the "
     "same Idempotency-Key still running.",
     413: "The request body is larger than the configured limit.",
+    415: "The body was sent as another media type than application/json (UTF-8).",
     422: "The request is not valid; each problem is listed with its path.",
     429: "The background queue is full; retry after the time given in Retry-After.",
     500: "Something failed on the service's side; the detail names an incident id.",

@@ -41,7 +41,7 @@ _CREATED: dict[int | str, dict[str, Any]] = {
         "content": {"application/json": {"schema": {"$ref": "#/components/schemas/JobView"}}},
         "headers": {"Location": {"schema": {"type": "string"}}},
     },
-    **docs.refusals(401, 403, 409, 413, 422, 429, 500),
+    **docs.refusals(401, 403, 409, 413, 415, 422, 429, 500),
 }
 
 
@@ -81,6 +81,7 @@ async def _view(services: Services, principal: Principal, pack_id: str) -> dict[
     status_code=201,
     openapi_extra=docs.merged(docs.DEFINITION_BODY, docs.IDEMPOTENCY_KEY),
     responses=_CREATED,
+    dependencies=[deps.JsonBody],
     response_model=views.PackDetail,
 )
 async def create_report(
@@ -242,9 +243,10 @@ async def submit(
 
 @router.post(
     "/{pack_id}/request-changes",
-    responses=_ACT,
+    responses={**_ACT, **docs.refusals(415)},
     openapi_extra=docs.IDEMPOTENCY_KEY,
     response_model=views.PackDetail,
+    dependencies=[deps.JsonBody],
 )
 async def request_changes(
     pack_id: str,
@@ -269,9 +271,10 @@ async def request_changes(
 
 @router.post(
     "/{pack_id}/waivers",
-    responses=_ACT,
+    responses={**_ACT, **docs.refusals(415)},
     openapi_extra=docs.IDEMPOTENCY_KEY,
     response_model=views.PackDetail,
+    dependencies=[deps.JsonBody],
 )
 async def waive(
     pack_id: str,
@@ -300,9 +303,10 @@ async def waive(
 
 @router.post(
     "/{pack_id}/sign-off",
-    responses={**_ACT, **docs.refusals(500)},
+    responses={**_ACT, **docs.refusals(415, 500)},
     openapi_extra=docs.IDEMPOTENCY_KEY,
     response_model=views.PackDetail,
+    dependencies=[deps.JsonBody],
 )
 async def sign_off(
     pack_id: str,

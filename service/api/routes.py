@@ -55,7 +55,8 @@ async def checks() -> list[dict[str, Any]]:
     "/check",
     tags=["checks"],
     openapi_extra=docs.DEFINITION_BODY,
-    responses=docs.refusals(401, 413, 422, 429, 500),
+    responses=docs.refusals(401, 413, 415, 422, 429, 500),
+    dependencies=[deps.JsonBody],
     response_model=CheckAnswer,
 )
 async def check_definition(

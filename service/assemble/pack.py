@@ -281,7 +281,17 @@ def _grid(
             for c, is_number in enumerate(numeric):
                 if is_number:
                     cells[r][c].style = _right(s["cell"])
+    if _taller_than_page(table):  # a long source line quoted in a check, say: split the row
+        table.splitInRow = 1
     return table
+
+
+def _taller_than_page(table: LongTable) -> bool:
+    """A row that cannot fit on one page (reportlab would give up); rows that fit are kept whole."""
+    height = layout.PAGE[1] - 2 * layout.MARGIN
+    table.wrap(layout.FRAME_WIDTH, height)
+    tallest = float(max(table._rowHeights, default=0))
+    return bool(tallest > height - 40)
 
 
 def _right(style: Any) -> Any:

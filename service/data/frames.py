@@ -242,21 +242,23 @@ def _convert(
     if kind is ColumnType.text:
         if read:
             return values.astype(object), pd.Series(False, index=values.index)
-        converted = values.where(given, None).map(lambda v: v if v is None else str(v))
-        return converted.astype(object), pd.Series(False, index=values.index)
+        nested = given & values.map(lambda v: isinstance(v, list | dict))  # no text to print
+        converted = values.where(given & ~nested, None).map(lambda v: v if v is None else str(v))
+        return converted.astype(object), nested
     if kind in (ColumnType.number, ColumnType.integer):
         if read:
-            is_bool = pd.Series(False, index=values.index)
+            wrong = pd.Series(False, index=values.index)
             numbers = pd.to_numeric(values, errors="coerce").astype(float)
-        else:
-            is_bool = values.map(lambda v: isinstance(v, bool))
-            numbers = pd.to_numeric(values.where(~is_bool, None), errors="coerce").astype(float)
+        else:  # a JSON number, strictly: not true/false, and not "93.4" (text is CSV's business)
+            wrong = values.map(lambda v: isinstance(v, bool) or not isinstance(v, int | float))
+            numbers = pd.to_numeric(values.where(~wrong, None), errors="coerce").astype(float)
         huge = numbers.abs() >= MAX_MAGNITUDE
-        bad = given & (numbers.isna() | ~np.isfinite(numbers.fillna(0.0)) | is_bool | huge)
+        bad = given & (numbers.isna() | ~np.isfinite(numbers.fillna(0.0)) | wrong | huge)
         if kind is ColumnType.integer:
             bad |= given & numbers.notna() & (numbers != np.floor(numbers.fillna(0.0)))
         return numbers.where(~bad), bad
-    text = values if read else values.where(given, None).map(lambda v: v if v is None else str(v))
+    # dates and times are ISO 8601 text: a JSON number (seconds? a year?) is refused
+    text = values if read else values.where(values.map(lambda v: isinstance(v, str)), None)
     if kind is ColumnType.date:
         parsed = pd.to_datetime(text, format="%Y-%m-%d", errors="coerce")
     else:
@@ -292,6 +294,7 @@ def _on_ns_clock(parsed: pd.Series) -> pd.Series:
 
 
 _EXPECTED = {
+    ColumnType.text: ("text, not a list or an object", "give one piece of text per cell"),
     ColumnType.number: (
         "a number below 10^18 in size",
         "write numbers without units or thousands separators, e.g. 1234.5",
@@ -312,6 +315,8 @@ def _value_problems(
         value = values.iloc[row]
         if isinstance(value, float) and not math.isfinite(value):
             value = str(value)
+        elif isinstance(value, list | dict):
+            value = None  # the path says where
         more = len(rows) - MAX_PROBLEMS_PER_COLUMN
         tail = (
             f"; {more} more values in this column have the same problem"

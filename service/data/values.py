@@ -10,7 +10,8 @@ from __future__ import annotations
 from service import glyphs
 from service.config import Limits
 from service.data.frames import Table
-from service.definition.model import ReportDefinition, Role
+from service.definition import validate
+from service.definition.model import ColumnType, ReportDefinition, Role
 from service.errors import Problem
 
 
@@ -21,41 +22,52 @@ def problems(
     already reported as empty from being reported twice."""
     return [
         *empty_measures(definition, tables, found),
+        *long_cells(definition, tables, limits),
         *undrawable_text(definition, tables),
         *table_limits(definition, tables, limits),
     ]
 
 
 def texts(definition: ReportDefinition, tables: dict[str, Table]) -> list[tuple[str, str]]:
-    """Every piece of user text that reaches the page, with its path."""
-    r = definition.report
-    out = [("report.title", r.title), ("report.owner", r.owner), ("report.audience", r.audience)]
-    for s, section in enumerate(definition.sections):
-        out += [
-            (f"sections[{s}].heading", section.heading),
-            (f"sections[{s}].narrative", section.narrative),
-        ]
-        for t, spec in enumerate(section.tables):
-            out.append((f"sections[{s}].tables[{t}].title", spec.title))
-    for path, chart in definition.charts():
-        out += [
-            (f"{path}.{f}", getattr(chart, f))
-            for f in ("title", "subtitle", "note", "source", "description")
-        ]
-    for w, waiver in enumerate(definition.waivers):
-        out += [(f"waivers[{w}].reason", waiver.reason), (f"waivers[{w}].by", waiver.by)]
+    """Every piece of user text that reaches the page, with its path: one list, so one rule holds
+    for every drawn field."""
+    out = [(path, text) for path, text, _ in validate.texts(definition) if text]
     for d, dataset in enumerate(definition.datasets):
-        out.append((f"datasets[{d}].source", dataset.source))
-        for c, column in enumerate(dataset.columns):
-            out += [
-                (f"datasets[{d}].columns[{c}].name", column.name),
-                (f"datasets[{d}].columns[{c}].unit", column.unit),
-            ]
-            loaded = tables.get(dataset.name)
-            if loaded is not None and column.type.value == "text":
+        out += [
+            (f"datasets[{d}].columns[{c}].name", c_.name) for c, c_ in enumerate(dataset.columns)
+        ]
+        loaded = tables.get(dataset.name)
+        if loaded is None:
+            continue
+        for column in dataset.columns:
+            if column.type is ColumnType.text:
                 values = loaded.frame[column.name].dropna().unique()
                 out += [(f"datasets[{d}].rows[*].{column.name}", str(v)) for v in values]
     return [(p, t) for p, t in out if t]
+
+
+def long_cells(
+    definition: ReportDefinition, tables: dict[str, Table], limits: Limits
+) -> list[Problem]:
+    """Text cells (categories, labels) are labels: no longer than ``max_label_chars``."""
+    found = []
+    for path, text in texts(definition, tables):
+        if ".rows[*]." in path and len(text) > limits.max_label_chars:
+            found.append(
+                Problem.over_limit(
+                    path,
+                    "characters of text in a cell",
+                    len(text),
+                    setting="max_label_chars",
+                    limit=limits.max_label_chars,
+                    advice="shorten it",
+                )
+            )
+    return found[:MAX_LONG_CELLS]
+
+
+MAX_LONG_CELLS = 5
+"""At most this many over-long cells are listed."""
 
 
 def undrawable_text(definition: ReportDefinition, tables: dict[str, Table]) -> list[Problem]:
@@ -118,4 +130,11 @@ def table_limits(
     return found
 
 
-__all__ = ["empty_measures", "problems", "table_limits", "texts", "undrawable_text"]
+__all__ = [
+    "empty_measures",
+    "long_cells",
+    "problems",
+    "table_limits",
+    "texts",
+    "undrawable_text",
+]

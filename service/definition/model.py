@@ -7,13 +7,25 @@ once with a path into the definition.
 
 from __future__ import annotations
 
-from datetime import date, datetime
+from datetime import datetime
 from enum import StrEnum
 from typing import Annotated, Any, ClassVar, Literal, get_args
 
-from pydantic import AwareDatetime, Field, model_validator
+from pydantic import Field, model_validator
 
-from service.definition.base import Id, Input, Label, Name, Text
+from service.definition.base import (
+    Day,
+    Flag,
+    Id,
+    Input,
+    Label,
+    Moment,
+    Name,
+    Number,
+    Text,
+    Version,
+    Whole,
+)
 
 VERSION = 1
 
@@ -41,10 +53,10 @@ class Column(Input):
         None, description="Unit of a numeric column, e.g. 'GBP', '%', 'journeys'."
     )
     description: Text | None = None
-    estimate: bool = Field(
+    estimate: Flag = Field(
         False, description="The values are estimates or forecasts, not actuals (drawn dashed)."
     )
-    projectable: bool = Field(
+    projectable: Flag = Field(
         False, description="A partial last period of this column may be projected (e.g. run rate)."
     )
 
@@ -77,8 +89,8 @@ class Dataset(Input):
 
 
 class Period(Input):
-    start: date
-    end: date
+    start: Day
+    end: Day
     label: Label | None = Field(None, description="How the period is named, e.g. 'October 2026'.")
 
     @model_validator(mode="after")
@@ -92,7 +104,7 @@ class Report(Input):
     id: Id
     title: Label
     period: Period
-    as_of: AwareDatetime = Field(
+    as_of: Moment = Field(
         description="When the data was extracted, with a time zone; judges partial periods."
     )
     owner: Label
@@ -117,10 +129,10 @@ class Role(StrEnum):
 class Precision(Input):
     """The precision readers need from the chart: a share of the value, or an amount."""
 
-    relative: Annotated[float, Field(gt=0, lt=1)] | None = Field(
+    relative: Annotated[Number, Field(gt=0, lt=1)] | None = Field(
         None, description="e.g. 0.01: readers must tell values apart to within 1 % of the value"
     )
-    absolute: Annotated[float, Field(gt=0)] | None = Field(
+    absolute: Annotated[Number, Field(gt=0)] | None = Field(
         None, description="e.g. 0.5: readers must tell values apart to within 0.5 units"
     )
 
@@ -163,7 +175,7 @@ class Interval(Input):
     upper: Name | None = None
     sd: Name | None = Field(None, description="Standard deviation of each category's sample")
     n: Name | None = Field(None, description="Sample size of each category")
-    level: Annotated[float, Field(gt=0.5, lt=1)] = Field(
+    level: Annotated[Number, Field(gt=0.5, lt=1)] = Field(
         0.95, description="Confidence level of the intervals"
     )
 
@@ -188,7 +200,7 @@ class CompareChart(ChartBase):
     intent: Literal["compare"]
     category: Name
     measure: Name
-    baseline: float | None = Field(
+    baseline: Number | None = Field(
         None,
         description="Requested start of the value axis. Bars always start at zero: a non-zero "
         "request is corrected unless the check 'bar-zero-baseline' is waived.",
@@ -223,7 +235,7 @@ class TrendChart(ChartBase):
     over_time = True
     intent: Literal["trend"]
     measures: list[Name] = Field(min_length=1)
-    from_zero: bool = Field(
+    from_zero: Flag = Field(
         False, description="Start the value axis at zero (otherwise it fits the data, with a note)."
     )
     scale: Literal["linear", "log"] = "linear"
@@ -245,10 +257,10 @@ class ShareChart(ChartBase):
     intent: Literal["share"]
     category: Name
     measure: Name
-    whole: float | None = Field(
+    whole: Number | None = Field(
         None, description="The stated whole the parts must add up to (else their sum)."
     )
-    tolerance: Annotated[float, Field(ge=0)] | None = Field(
+    tolerance: Annotated[Number, Field(ge=0)] | None = Field(
         None,
         description="How far the parts may miss the whole (default: half a unit of the last "
         "decimal shown in the data, per part).",
@@ -256,7 +268,7 @@ class ShareChart(ChartBase):
     expected_categories: list[Label] | None = Field(
         None, description="Parts the whole is made of; any the data lacks is shown as missing."
     )
-    allow_pie: bool = Field(
+    allow_pie: Flag = Field(
         False, description="Allow a pie when it can be read: at most 5 parts, each pair distinct."
     )
 
@@ -271,7 +283,7 @@ class RelativeChangeChart(ChartBase):
     intent: Literal["relative_change"]
     measures: list[Name] = Field(min_length=2)
     form: Literal["index", "panels"] = "index"
-    base_period: date | None = Field(
+    base_period: Day | None = Field(
         None, description="The period indexed to 100 (default: the first with every measure)."
     )
     index_as: Literal["base_100", "percent_change"] = "base_100"
@@ -286,10 +298,10 @@ class MovementChart(ChartBase):
     over_time = True
     intent: Literal["movement"]
     measure: Name
-    run_length: Annotated[int, Field(ge=6, le=12)] = Field(
+    run_length: Annotated[Whole, Field(ge=6, le=12)] = Field(
         8, description="Points in a row on one side of the centre line that count as a signal"
     )
-    min_history: Annotated[int, Field(ge=6)] = Field(
+    min_history: Annotated[Whole, Field(ge=6)] = Field(
         10, description="Fewer points than this: no verdict is given"
     )
 
@@ -304,7 +316,7 @@ class TargetChart(ChartBase):
     category: Name
     actual: Name
     target: Name | None = Field(None, description="A column holding each category's target")
-    target_value: float | None = Field(None, description="One target for every category")
+    target_value: Number | None = Field(None, description="One target for every category")
     form: Literal["bars", "deviation"] = "bars"
 
     @model_validator(mode="after")
@@ -325,7 +337,7 @@ class DistributionChart(ChartBase):
     measure: Name
     form: Literal["histogram", "box"] = "histogram"
     group: Name | None = Field(None, description="A text column: one box per group")
-    bins: Annotated[int, Field(ge=2, le=200)] | None = None
+    bins: Annotated[Whole, Field(ge=2, le=200)] | None = None
 
     def columns(self) -> list[tuple[str, str, Role]]:
         found = [("measure", self.measure, Role.measure)]
@@ -339,7 +351,7 @@ class RelationshipChart(ChartBase):
     x: Name
     y: Name
     label: Name | None = Field(None, description="A text column naming each point")
-    fit: bool = Field(False, description="Draw a least-squares line, with its r²")
+    fit: Flag = Field(False, description="Draw a least-squares line, with its r²")
 
     def columns(self) -> list[tuple[str, str, Role]]:
         found = [("x", self.x, Role.measure), ("y", self.y, Role.measure)]
@@ -394,13 +406,13 @@ class Waiver(Input):
         description="Why the exception is acceptable, in a full sentence (at least 20 characters)."
     )
     by: Label
-    expires: date | None = None
+    expires: Day | None = None
 
 
 class ReportDefinition(Input):
     """A report pack: metadata, datasets, sections of charts and tables, and accepted waivers."""
 
-    version: Literal[1]
+    version: Version
     report: Report
     datasets: list[Dataset] = Field(min_length=1)
     sections: list[Section] = Field(min_length=1)

@@ -12,8 +12,9 @@ from __future__ import annotations
 import difflib
 import io
 import json
+import re
 from collections import Counter
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 from typing import Any
 
 import pandas as pd
@@ -30,6 +31,7 @@ from service.definition.model import (
     RelativeChangeChart,
     ReportDefinition,
     Role,
+    ShareChart,
     TrendChart,
 )
 from service.errors import InvalidDefinition, PayloadTooLarge, Problem
@@ -60,6 +62,11 @@ _PYDANTIC_CODES: dict[str, tuple[str, str]] = {
     "date_parsing": ("bad_date", "use ISO 8601 dates, e.g. 2026-10-31"),
     "date_type": ("bad_date", "use ISO 8601 dates, e.g. 2026-10-31"),
     "value_error": ("invalid_value", ""),
+    "version_type": ("not_allowed", "use 1"),
+    "float_type": ("invalid_value", "write a JSON number, e.g. 93.4, not text"),
+    "int_type": ("invalid_value", "write a JSON whole number, e.g. 8, not text or 8.0"),
+    "bool_type": ("invalid_value", "write true or false"),
+    "date_out_of_range": ("date_out_of_range", "use a date in the years 1678 to 2261"),
 }
 
 
@@ -73,11 +80,99 @@ def parse(raw: bytes | str, limits: Limits) -> tuple[ReportDefinition, list[Prob
     data = raw.encode() if isinstance(raw, str) else raw
     if len(data) > limits.max_payload_bytes:
         raise PayloadTooLarge(size=len(data), limit=limits.max_payload_bytes)
+    repeated: list[_Object] = []
     try:
-        document = json.loads(data, parse_constant=_non_finite)
+        text = _utf8(data)
+        document = json.loads(
+            text, parse_constant=_non_finite, object_pairs_hook=_Object.hook(repeated)
+        )
     except (ValueError, RecursionError) as exc:  # JSONDecodeError and UnicodeDecodeError too
         raise InvalidDefinition([_json_problem(exc)]) from None
+    if repeated or _SURROGATES.search(text) or _ESCAPED_SURROGATE.search(text):  # rare: walk
+        unreadable = list(_unreadable(document))
+        if unreadable:
+            raise InvalidDefinition(unreadable)
     return validate(document, limits)
+
+
+def _utf8(data: bytes) -> str:
+    """The body as text: UTF-8 only (a byte-order mark aside). A UTF-16 or UTF-32 body, which
+    Python's JSON reader would quietly accept, is refused; encoded surrogates (``ED A0 80``) are
+    kept, so that they are refused with the path of the text that holds them."""
+    if data.startswith((b"\xff\xfe", b"\xfe\xff")) or b"\x00" in data[:4]:
+        raise UnicodeDecodeError("utf-8", data[:4], 0, 4, "UTF-16 or UTF-32")
+    return data.removeprefix(b"\xef\xbb\xbf").decode("utf-8", "surrogatepass")
+
+
+class _Object(dict[str, Any]):
+    """A JSON object that remembers the keys it was given more than once (the last one wins in
+    Python, while a stored copy of the body keeps both: an ambiguity, refused)."""
+
+    repeated: tuple[str, ...] = ()
+
+    @classmethod
+    def hook(cls, found: list[_Object]) -> Callable[[list[tuple[str, Any]]], dict[str, Any]]:
+        """An ``object_pairs_hook`` that adds each object with a repeated key to ``found``."""
+
+        def make(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
+            made = dict(pairs)
+            if len(made) == len(pairs):
+                return made
+            marked = cls(pairs)
+            counts = Counter(key for key, _ in pairs)
+            marked.repeated = tuple(key for key, n in counts.items() if n > 1)
+            found.append(marked)
+            return marked
+
+        return make
+
+
+def _unreadable(node: Any, path: tuple[int | str, ...] = ()) -> Iterable[Problem]:
+    """Repeated keys, and text holding surrogate code points (half of a UTF-16 pair: no
+    character at all, and impossible to print or to answer in UTF-8), each with its path."""
+    stack: list[tuple[Any, tuple[int | str, ...]]] = [(node, path)]
+    while stack:
+        node, path = stack.pop()
+        if isinstance(node, dict):
+            for key in getattr(node, "repeated", ()):
+                yield Problem(
+                    "duplicate_key",
+                    paths.join((*path, key)),
+                    f"the key '{_escaped(key)}' is given more than once in this object",
+                    "give each key once",
+                )
+            for key, value in node.items():
+                if _SURROGATES.search(key):
+                    yield _surrogate(paths.join((*path, _escaped(key))), key)
+                stack.append((value, (*path, key)))
+        elif isinstance(node, list):
+            stack.extend((item, (*path, i)) for i, item in enumerate(node))
+        elif isinstance(node, str) and _SURROGATES.search(node):
+            yield _surrogate(paths.join(path), node)
+
+
+_SURROGATES = re.compile("[\ud800-\udfff]")
+_ESCAPED_SURROGATE = re.compile(r"\\u[dD][89a-fA-F]")
+"""A surrogate written as a JSON escape (also half of a well-formed pair, which the walk passes)."""
+
+
+def _escaped(text: str) -> str:
+    """Text safe to echo in a UTF-8 answer: surrogates written as ``\\udxxx``."""
+    return text.encode("utf-8", "backslashreplace").decode("utf-8")
+
+
+def _surrogate(path: str, text: str) -> Problem:
+    found = _SURROGATES.search(text)
+    assert found is not None
+    return Problem(
+        "invalid_text",
+        path,
+        f"the text holds U+{ord(found.group()):04X}, half of a UTF-16 surrogate pair, which is "
+        "not a character",
+        "send Unicode text: a character beyond U+FFFF is written as a pair (\\ud83d\\ude00) "
+        "or as itself in UTF-8",
+        _escaped(text[:200]),
+    )
 
 
 def _non_finite(constant: str) -> str:
@@ -328,24 +423,62 @@ def _text_limits(definition: ReportDefinition, limits: Limits) -> Iterable[Probl
             )
 
     label, text = limits.max_label_chars, limits.max_text_chars
+    for path, value, long in texts(definition):
+        if long:
+            yield from check(path, value, text, "max_text_chars")
+        else:
+            yield from check(path, value, label, "max_label_chars")
+
+
+def texts(definition: ReportDefinition) -> list[tuple[str, str | None, bool]]:
+    """Every piece of free text a definition gives (data cells aside), with its path and whether it
+    is long text (narrative, notes, descriptions, sources, reasons) rather than a label."""
     r = definition.report
-    yield from check("report.title", r.title, label, "max_label_chars")
-    yield from check("report.owner", r.owner, label, "max_label_chars")
-    yield from check("report.audience", r.audience, label, "max_label_chars")
+    out: list[tuple[str, str | None, bool]] = [
+        ("report.title", r.title, False),
+        ("report.owner", r.owner, False),
+        ("report.audience", r.audience, False),
+        ("report.period.label", r.period.label, False),
+    ]
+    for d, dataset in enumerate(definition.datasets):
+        out += [
+            (f"datasets[{d}].description", dataset.description, True),
+            (f"datasets[{d}].source", dataset.source, True),
+        ]
+        for c, column in enumerate(dataset.columns):
+            base = f"datasets[{d}].columns[{c}]"
+            out += [
+                (f"{base}.unit", column.unit, False),
+                (f"{base}.description", column.description, True),
+            ]
     for s, section in enumerate(definition.sections):
-        yield from check(f"sections[{s}].heading", section.heading, label, "max_label_chars")
-        yield from check(f"sections[{s}].narrative", section.narrative, text, "max_text_chars")
-        for c, chart in enumerate(section.charts):
-            base = f"sections[{s}].charts[{c}]"
-            yield from check(f"{base}.title", chart.title, label, "max_label_chars")
-            yield from check(f"{base}.subtitle", chart.subtitle, label, "max_label_chars")
-            yield from check(f"{base}.note", chart.note, text, "max_text_chars")
-        for t, table in enumerate(section.tables):
-            yield from check(
-                f"sections[{s}].tables[{t}].title", table.title, label, "max_label_chars"
-            )
+        out += [
+            (f"sections[{s}].heading", section.heading, False),
+            (f"sections[{s}].narrative", section.narrative, True),
+        ]
+        out += [
+            (f"sections[{s}].tables[{t}].title", table.title, False)
+            for t, table in enumerate(section.tables)
+        ]
+    for path, chart in definition.charts():
+        out += [
+            (f"{path}.title", chart.title, False),
+            (f"{path}.subtitle", chart.subtitle, False),
+            (f"{path}.note", chart.note, True),
+            (f"{path}.source", chart.source, True),
+            (f"{path}.description", chart.description, True),
+        ]
+        if isinstance(chart, ShareChart):
+            out += [
+                (f"{path}.expected_categories[{i}]", category, False)
+                for i, category in enumerate(chart.expected_categories or [])
+            ]
     for w, waiver in enumerate(definition.waivers):
-        yield from check(f"waivers[{w}].reason", waiver.reason, text, "max_text_chars")
+        out += [
+            (f"waivers[{w}].reason", waiver.reason, True),
+            (f"waivers[{w}].by", waiver.by, False),
+        ]
+    return out
 
 
 def locale_problems(definition: ReportDefinition) -> Iterable[Problem]:
