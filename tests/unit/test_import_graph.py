@@ -20,7 +20,17 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[2] / "service"
 
-SHARED = ("service", "errors", "config", "logs", "formatting", "glyphs", "palette", "colour_math")
+SHARED = (
+    "service",
+    "errors",
+    "config",
+    "logs",
+    "formatting",
+    "wording",
+    "glyphs",
+    "palette",
+    "colour_math",
+)
 """Modules every layer may use; they import no stage (``service`` is the package's own
 ``__init__``: the version)."""
 
