@@ -2,7 +2,8 @@
 
 Two rows dated 0001-01-01 and 9999-12-30 at frequency ``day`` (772 bytes; such dates are now
 refused on their own as out of range) span 3.65 million days: every check and chart works period
-by period, so such a definition once held a process for minutes and gigabytes. The span is counted from the two ends, before anything per period is built.
+by period, so such a definition once held a process for minutes and gigabytes. The span is
+counted from the two ends, before anything per period is built.
 """
 
 from __future__ import annotations
