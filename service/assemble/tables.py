@@ -99,7 +99,9 @@ def _totals_row(plan: TablePlan, digits: list[int], locale: str) -> list[str]:
     if plan.left_out:
         label = wording.say("table.total_of_shown", locale, count=len(plan.rows))
     gaps = sum(1 for row in plan.rows if row.state != "actual")
-    if gaps:
+    if gaps == 1:
+        label = wording.say("table.total_incomplete_one", locale, total=label)
+    elif gaps:
         label = wording.say("table.total_incomplete", locale, total=label, count=gaps)
     row = [
         formatting.number(totals[col.name], locale, digits=d) if col.name in totals else ""
@@ -175,6 +177,8 @@ def flowables(table: TableBlock, s: dict[str, Any]) -> Iterable[Flowable]:
         commands.append(("LINEABOVE", (0, -1), (-1, -1), 0.8, layout.INK))
     grid_.setStyle(TableStyle(commands))
     yield grid_
+    if table.notes:
+        yield Spacer(1, 3)
     for note in table.notes:
         yield Paragraph(text(note), s["muted"])
     yield Spacer(1, 8)

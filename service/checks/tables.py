@@ -105,10 +105,11 @@ def _measure_missing(plan: TablePlan, ctx: TableContext) -> Finding:
     missing, expected = _missing(ctx)
     listed = _no_data_rows(plan) | set(plan.unshown_missing)
     unshown = [p for p in missing if p not in listed]
-    shown = f"{len(missing)} of {expected}"
+    shown = wording.say("table.measured_of", ctx.locale, part=len(missing), whole=expected)
     if unshown:
         text = wording.say("table.check_missing_bad", ctx.locale, periods=_listed(unshown))
-        return Finding(False, len(unshown), text, shown)
+        count = wording.say("table.measured_unshown", ctx.locale, count=len(unshown))
+        return Finding(False, len(unshown), text, count)
     if not missing:
         text = wording.say("table.check_missing_none", ctx.locale, expected=expected)
         return Finding(True, 0, text, shown)
@@ -156,7 +157,11 @@ def _partial(ctx: TableContext) -> tuple[str, periods.Completeness] | None:
 
 
 def _applies_partial(plan: TablePlan, ctx: TableContext) -> bool:
-    return _time_indexed(plan, ctx) and plan.time_indexed and _partial(ctx) is not None
+    """A table whose rows shown include a partial period (one a limit left out has no mark)."""
+    if not (_time_indexed(plan, ctx) and plan.time_indexed):
+        return False
+    found = _partial(ctx)
+    return found is not None and _partial_row(plan, found[0]) is not None
 
 
 def _partial_row(plan: TablePlan, label: str) -> int | None:
@@ -170,9 +175,8 @@ def _measure_partial(plan: TablePlan, ctx: TableContext) -> Finding:
     label, done = found
     days = completeness_text(done, ctx.locale)
     r = _partial_row(plan, label)
-    marked = r is None or (  # a limit left it out: nothing to mark
-        plan.rows[r].state == "partial" and plan.rows[r].completeness == done
-    )
+    assert r is not None  # see _applies_partial
+    marked = plan.rows[r].state == "partial" and plan.rows[r].completeness == done
     key = "table.check_partial_ok" if marked else "table.check_partial_bad"
     return Finding(marked, days, wording.say(key, ctx.locale, period=label, done=days), days)
 
@@ -182,8 +186,7 @@ def _correct_partial(plan: TablePlan, ctx: TableContext) -> TablePlan:
     assert found is not None
     label, done = found
     r = _partial_row(plan, label)
-    if r is None:
-        return plan
+    assert r is not None
     rows = list(plan.rows)
     rows[r] = replace(rows[r], state="partial", completeness=done)
     return replace(plan, rows=tuple(rows))
@@ -269,7 +272,8 @@ def _wrong_totals(plan: TablePlan, ctx: TableContext) -> list[str]:
 
 def _measure_totals(plan: TablePlan, ctx: TableContext) -> Finding:
     wrong = _wrong_totals(plan, ctx)
-    shown = f"{len(plan.totals) - len(wrong)} of {len(plan.totals)}"
+    right, whole = len(plan.totals) - len(wrong), len(plan.totals)
+    shown = wording.say("table.measured_of", ctx.locale, part=right, whole=whole)
     if wrong:
         text = wording.say("table.check_totals_bad", ctx.locale, columns=", ".join(wrong))
         return Finding(False, len(wrong), text, shown)
@@ -316,7 +320,8 @@ def _measure_left_out(plan: TablePlan, ctx: TableContext) -> Finding:
     ok = plan.left_out == rows - shown
     key = "table.check_left_out_ok" if ok else "table.check_left_out_bad"
     text = wording.say(key, ctx.locale, shown=shown, rows=rows, left_out=plan.left_out)
-    return Finding(ok, rows - shown, text, f"{shown} of {rows}")
+    part = wording.say("table.measured_of", ctx.locale, part=shown, whole=rows)
+    return Finding(ok, rows - shown, text, part)
 
 
 def _correct_left_out(plan: TablePlan, ctx: TableContext) -> TablePlan:

@@ -15,11 +15,14 @@ WORDS: dict[str, str] = {
     "table.total": "Summe",
     "table.total_of_shown": "Summe der {count} gezeigten Zeilen",
     "table.total_incomplete": "{total} ({count} Zeiträume ohne Daten oder unvollständig)",
+    "table.total_incomplete_one": "{total} (1 Zeitraum ohne Daten oder unvollständig)",
     "table.rows_left_out": (
         "{count} weitere Zeilen ausgelassen (die Tabelle zeigt die ersten {shown})."
     ),
     "table.row_left_out": "1 weitere Zeile ausgelassen (die Tabelle zeigt die ersten {shown}).",
     "table.missing_not_shown": "Keine Daten für {periods}, nicht unter den gezeigten Zeilen.",
+    "table.measured_of": "{part} von {whole}",
+    "table.measured_unshown": "{count} nicht gezeigt",
     "table.check_missing_ok": (
         "{missing} von {expected} Zeiträumen ohne Daten, jeder als Zeile "
         "mit „keine Daten“ gezeigt oder unter der Tabelle genannt."

@@ -15,9 +15,12 @@ WORDS: dict[str, str] = {
     "table.total": "Total",
     "table.total_of_shown": "Total of the {count} rows shown",
     "table.total_incomplete": "{total} ({count} periods without data or partial)",
+    "table.total_incomplete_one": "{total} (1 period without data or partial)",
     "table.rows_left_out": "{count} more rows left out (the table shows the first {shown}).",
     "table.row_left_out": "1 more row left out (the table shows the first {shown}).",
     "table.missing_not_shown": "No data for {periods}, not among the rows shown.",
+    "table.measured_of": "{part} of {whole}",
+    "table.measured_unshown": "{count} not shown",
     "table.check_missing_ok": (
         "{missing} of {expected} periods without data, each shown as "
         "a row reading 'no data' or named under the table."

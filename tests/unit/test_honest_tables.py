@@ -153,7 +153,7 @@ def test_limit_says_how_many_rows_were_left_out() -> None:
     table = block(sales(columns=["month", "orders"], limit=4, totals=["orders"]))
     assert len(table.rows) == 5  # four rows and the totals
     assert table.rows[-1] == [
-        "Total of the 4 rows shown (1 periods without data or partial)",
+        "Total of the 4 rows shown (1 period without data or partial)",
         "2,510",
     ]
     assert "2 more rows left out (the table shows the first 4)." in table.notes
@@ -237,7 +237,7 @@ def results(definition: Json) -> dict[str, Any]:
 
 
 def test_tables_have_their_own_checks_in_the_results() -> None:
-    found = results(sales(totals=["orders"], limit=5))
+    found = results(sales(totals=["orders"], limit=6))
     assert sorted(found) == [
         "table-estimates-marked",
         "table-missing-periods",
@@ -259,6 +259,8 @@ def test_a_limit_that_leaves_out_a_period_without_data_is_corrected_by_naming_it
     missing = found["table-missing-periods"]
     assert missing.status.value == "corrected"
     assert "Mar 2026" in missing.explanation
+    assert (missing.measured_text, missing.corrected_to) == ("1 not shown", "1 of 6")
+    assert "table-partial-marked" not in found  # June is left out: nothing to mark
     assert "No data for Mar 2026, not among the rows shown." in block(definition).notes
 
 
