@@ -527,6 +527,16 @@ def _table_problems(path: str, table: Table, dataset: Dataset) -> Iterable[Probl
         if column not in columns:
             yield _unknown(f"{path}.columns[{i}]", "column", column, known, dataset.name)
     shown = table.columns or known
+    time = dataset.time_column
+    if time is not None and time in columns and time not in shown:
+        yield Problem(
+            "time_column_not_shown",
+            f"{path}.columns",
+            f"the table leaves out '{time}', the dataset's time column: its rows would not say "
+            "which period they are for, and periods without data could not be shown",
+            f"add '{time}' to {path}.columns",
+            list(shown),
+        )
     named = [(f"{path}.totals[{i}]", n) for i, n in enumerate(table.totals or [])]
     if table.sort is not None:
         named.insert(0, (f"{path}.sort.column", table.sort.column))

@@ -16,6 +16,7 @@ from pypdf import PdfReader
 
 from service.assemble import compose, pack
 from service.checks import registry
+from service.config import Limits
 from service.errors import InvalidDefinition
 from tests.factories import Json, intake, make_column, make_report, run_checks
 
@@ -291,3 +292,23 @@ def test_the_table_check_modules_on_disk_are_the_ones_loaded() -> None:
     assert {spec.measure.__module__ for spec in registry.TABLE_CHECKS.values()} == {
         f"service.checks.{name}" for name in TABLE_MODULES
     }
+
+
+def test_a_table_of_a_time_series_must_show_its_time_column() -> None:
+    with pytest.raises(InvalidDefinition) as raised:
+        intake(sales(columns=["orders", "region"]))
+    (problem,) = raised.value.problems
+    assert (problem.code, problem.path) == (
+        "time_column_not_shown",
+        "sections[0].tables[0].columns",
+    )
+    assert "'month'" in problem.hint
+
+
+def test_the_table_row_limit_counts_the_rows_printed() -> None:
+    """Rows of periods without data are printed, so they count; rows a ``limit`` leaves out are
+    not printed, so they do not."""
+    with pytest.raises(InvalidDefinition) as raised:
+        intake(sales(), Limits(max_table_rows=5))  # five rows of data, six periods
+    assert [p.path for p in raised.value.problems] == ["sections[0].tables[0]"]
+    intake(sales(limit=5), Limits(max_table_rows=5))
