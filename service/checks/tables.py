@@ -270,16 +270,21 @@ def _wrong_totals(plan: TablePlan, ctx: TableContext) -> list[str]:
     return wrong
 
 
+def _labels(plan: TablePlan, names: list[str]) -> str:
+    """The columns as readers see them (their labels), in the order given."""
+    labels = {c.name: c.label for c in plan.columns}
+    return ", ".join(labels.get(n, n) for n in names)
+
+
 def _measure_totals(plan: TablePlan, ctx: TableContext) -> Finding:
     wrong = _wrong_totals(plan, ctx)
     right, whole = len(plan.totals) - len(wrong), len(plan.totals)
     shown = wording.say("table.measured_of", ctx.locale, part=right, whole=whole)
     if wrong:
-        text = wording.say("table.check_totals_bad", ctx.locale, columns=", ".join(wrong))
+        text = wording.say("table.check_totals_bad", ctx.locale, columns=_labels(plan, wrong))
         return Finding(False, len(wrong), text, shown)
-    text = wording.say(
-        "table.check_totals_ok", ctx.locale, columns=", ".join(n for n, _ in plan.totals)
-    )
+    names = [n for n, _ in plan.totals]
+    text = wording.say("table.check_totals_ok", ctx.locale, columns=_labels(plan, names))
     return Finding(True, 0, text, shown)
 
 

@@ -312,3 +312,8 @@ def test_the_table_row_limit_counts_the_rows_printed() -> None:
         intake(sales(), Limits(max_table_rows=5))  # five rows of data, six periods
     assert [p.path for p in raised.value.problems] == ["sections[0].tables[0]"]
     intake(sales(limit=5), Limits(max_table_rows=5))
+
+
+def test_table_findings_name_columns_by_their_labels() -> None:
+    found = results(sales(totals=["orders", "forecast"]))
+    assert "Orders, Forecast" in found["table-totals-additive"].explanation
