@@ -252,13 +252,24 @@ def _right(style: Any) -> Any:
 
 
 def _widths(table: TableBlock) -> list[float]:
-    """Columns as wide as their longest line (about 4.4 pt a character at 7.5 pt), together at
-    least as wide as the title, shrunk to the frame only when they would not fit."""
+    """Columns as wide as their widest line (the header set bold), together at least as wide as
+    the title, shrunk to the frame only when they would not fit. The totals row's label may wrap:
+    it does not widen its column."""
+    regular = fonts.register()
+
+    def width(value: str, font: str) -> float:
+        lines = value.split("\n")
+        return max(float(stringWidth(line, font, _CELL_SIZE)) for line in lines) + _CELL_PADDING
+
+    body = table.rows[:-1] if table.totals else table.rows
     natural = [
-        max(len(line) for row in [table.header, *table.rows] for line in row[c].split("\n")) * 4.4
-        + 12
+        max([width(table.header[c], fonts.BOLD)] + [width(row[c], regular) for row in body])
         for c in range(len(table.header))
     ]
+    if table.totals:  # the totals themselves are numbers, set bold: they must fit
+        for c, value in enumerate(table.rows[-1]):
+            if table.numeric[c]:
+                natural[c] = max(natural[c], width(value, fonts.BOLD))
     total = sum(natural)
     title = stringWidth(table.continued or table.title, fonts.BOLD, 11) + 4
     if total < title:
@@ -266,3 +277,9 @@ def _widths(table: TableBlock) -> list[float]:
         total = title
     scale = min(1.0, layout.FRAME_WIDTH / total) if total else 1.0
     return [w * scale for w in natural]
+
+
+_CELL_SIZE = 7.5
+"""The font size of a cell (the ``cell`` and ``cell_head`` styles)."""
+_CELL_PADDING = 3 + 3 + 2
+"""A cell's left and right padding, and room for rounding."""
