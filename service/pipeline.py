@@ -11,12 +11,14 @@ from __future__ import annotations
 import hashlib
 from collections.abc import Callable
 from dataclasses import asdict, dataclass
+from datetime import datetime
 from typing import TYPE_CHECKING, Any
 
 from service import checks as _checks  # noqa: F401  (registers every check)
 from service import intents
 from service.checks import engine, registry
-from service.checks.outcome import Checked, CheckedChart
+from service.checks import tables as table_checks
+from service.checks.outcome import Checked, CheckedChart, CheckedTable
 from service.checks.results import summary, summary_line
 from service.config import Limits
 from service.data import frames, values
@@ -24,6 +26,7 @@ from service.data.frames import Table
 from service.definition import validate
 from service.definition.model import ReportDefinition, local_wall_time
 from service.errors import InvalidDefinition, Problem
+from service.intents import table as table_plans
 
 if TYPE_CHECKING:
     from service.render.options import RenderOptions
@@ -89,8 +92,27 @@ def check(taken: Intake) -> Checked:
         guarded = engine.guard(plan, ctx, definition.waivers)
         charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))
     return Checked(
-        definition=definition, tables=taken.tables, fingerprint=taken.fingerprint, charts=charts
+        definition=definition,
+        tables=taken.tables,
+        fingerprint=taken.fingerprint,
+        charts=charts,
+        shown_tables=_check_tables(taken, as_of, locale),
     )
+
+
+def _check_tables(taken: Intake, as_of: datetime, locale: str) -> list[CheckedTable]:
+    """Plan every table of the report and run the table checks on it, in reading order."""
+    out: list[CheckedTable] = []
+    for s, section in enumerate(taken.definition.sections):
+        for t, spec in enumerate(section.tables):
+            dataset = taken.definition.dataset(spec.dataset)
+            assert dataset is not None  # validation refused an unknown dataset
+            data = taken.tables[spec.dataset]
+            plan = table_plans.plan(spec, dataset, data, as_of, locale)
+            ctx = registry.TableContext(spec, dataset, data, as_of, locale)
+            plan, results = table_checks.guard(plan, ctx)
+            out.append(CheckedTable(f"sections[{s}].tables[{t}]", plan, results))
+    return out
 
 
 @dataclass(frozen=True)

@@ -10,22 +10,16 @@ from __future__ import annotations
 
 import contextlib
 import io
-import math
 from collections.abc import Mapping
 
-import pandas as pd
 import pikepdf
 
-from service import formatting
-from service.assemble import pack, place
-from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock, TableBlock
+from service.assemble import pack, place, tables
+from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock
+from service.assemble.tables import TableBlock
 from service.checks import registry
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import CheckResult, summary, summary_line
-from service.data import periods
-from service.data.frames import Table
-from service.definition.model import ColumnType
-from service.definition.model import Table as TableSpec
 
 Placement = Mapping[str, tuple[int, int]]
 """Where each chart was drawn, by chart id: (index of its file among the drawn PDFs, page)."""
@@ -58,13 +52,14 @@ def content_for(
     definition = checked.definition
     report = definition.report
     by_id = {c.plan.chart_id: c for c in checked.charts}
+    shown = {t.plan.table_id: t.plan for t in checked.shown_tables}
     sections: list[SectionBlock] = []
     for section in definition.sections:
         blocks: list[ChartBlock | TableBlock] = []
         for chart in section.charts:
             blocks.append(_chart_block(by_id[chart.id], sizes[chart.id]))
         for table in section.tables:
-            blocks.append(_table_block(table, checked.tables[table.dataset], report.locale))
+            blocks.append(tables.block(shown[table.id], report.locale))
         sections.append(SectionBlock(section.heading, section.narrative, blocks))
     results = checked.results
     used = list(dict.fromkeys(r.check for r in results))
@@ -78,7 +73,7 @@ def content_for(
         summary_line=summary_line(results),
         sections=sections,
         appendix=[_appendix_row(r, report.locale) for r in results],
-        sources=[(check, registry.CHECKS[check].source) for check in used],
+        sources=[(check, registry.source(check)) for check in used],
         fingerprint=checked.fingerprint,
         report_id=report.id,
     )
@@ -120,32 +115,3 @@ def _appendix_row(result: CheckResult, locale: str) -> AppendixRow:
         threshold=result.threshold,
         explanation=explanation,
     )
-
-
-def _table_block(spec: TableSpec, table: Table, locale: str) -> TableBlock:
-    names = spec.columns or list(table.frame.columns)
-    header = [formatting.titled(n, table.units.get(n)) for n in names]
-    numeric = [table.types.get(n) in (ColumnType.number, ColumnType.integer) for n in names]
-    rows: list[list[str]] = []
-    frame = table.frame
-    for r in range(len(frame)):
-        row = []
-        for n in names:
-            row.append(_cell(frame[n].iloc[r], table, n, r, locale))
-        rows.append(row)
-    return TableBlock(title=spec.title, header=header, rows=rows, numeric=numeric)
-
-
-def _cell(value: object, table: Table, name: str, row: int, locale: str) -> str:
-    kind = table.types.get(name)
-    if value is None or (isinstance(value, float) and math.isnan(value)) or value is pd.NaT:
-        return "no data"
-    if kind in (ColumnType.number, ColumnType.integer):
-        return formatting.number(float(value), locale)  # type: ignore[arg-type]
-    if name == table.time_column and table.periods is not None and table.frequency is not None:
-        return periods.label(table.periods[row], table.frequency, locale)
-    if kind is ColumnType.date and isinstance(value, pd.Timestamp):
-        return value.date().isoformat()
-    if kind is ColumnType.timestamp and isinstance(value, pd.Timestamp):
-        return value.isoformat(timespec="minutes")
-    return str(value)

@@ -8,7 +8,7 @@ laid out, so :mod:`service.assemble.place` can put the vector chart pages there 
 from __future__ import annotations
 
 import io
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Any
 from xml.sax.saxutils import escape
@@ -22,16 +22,16 @@ from reportlab.platypus import (
     Flowable,
     Frame,
     KeepTogether,
-    LongTable,
     PageBreak,
     PageTemplate,
     Paragraph,
     Spacer,
-    TableStyle,
 )
 
 from service import __version__
-from service.assemble import fonts, layout
+from service.assemble import fonts, layout, tables
+from service.assemble.tables import TableBlock
+from service.assemble.tables import grid as _grid
 
 rl_config.invariant = 1  # fixed dates and ids: the same input gives the same bytes
 rl_config.trustedSchemes = []  # no markup may fetch a URL (user text is escaped anyway)
@@ -55,14 +55,6 @@ class ChartBlock:
     check_line: str
     source: str | None = None
     description: str | None = None
-
-
-@dataclass(frozen=True)
-class TableBlock:
-    title: str
-    header: list[str]
-    rows: list[list[str]]
-    numeric: list[bool]
 
 
 @dataclass(frozen=True)
@@ -246,77 +238,8 @@ def _section(section: SectionBlock, s: dict[str, Any], found: list[Slot]) -> Ite
             parts.append(Paragraph(_text(block.check_line), s["muted"]))
             yield KeepTogether(parts)
         else:
-            yield from _table(block, s)
+            yield from tables.flowables(block, s)
     yield Spacer(1, 10)
-
-
-def _grid(
-    rows: Sequence[Sequence[str]],
-    widths: list[float],
-    s: dict[str, Any],
-    numeric: Sequence[bool] | None = None,
-    colours: dict[int, Any] | None = None,
-) -> LongTable:
-    cells = [
-        [Paragraph(_text(v), s["cell_head"] if r == 0 else s["cell"]) for v in row]
-        for r, row in enumerate(rows)
-    ]
-    table = LongTable(cells, colWidths=widths, repeatRows=1, hAlign="LEFT")
-    commands: list[tuple[Any, ...]] = [
-        ("FONT", (0, 0), (-1, -1), fonts.register(), 7.5),  # else reportlab sets Helvetica
-        ("INNERGRID", (0, 0), (-1, -1), 0.3, layout.RULE),
-        ("BOX", (0, 0), (-1, -1), 0.3, layout.RULE),
-        ("LINEBELOW", (0, 0), (-1, 0), 0.8, layout.INK),
-        ("VALIGN", (0, 0), (-1, -1), "TOP"),
-        ("TOPPADDING", (0, 0), (-1, -1), 2.5),
-        ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),
-        ("LEFTPADDING", (0, 0), (-1, -1), 3),
-        ("RIGHTPADDING", (0, 0), (-1, -1), 3),
-    ]
-    for r, colour in (colours or {}).items():
-        commands.append(("TEXTCOLOR", (2, r), (2, r), colour))
-    table.setStyle(TableStyle(commands))
-    if numeric:
-        for r in range(1, len(rows)):
-            for c, is_number in enumerate(numeric):
-                if is_number:
-                    cells[r][c].style = _right(s["cell"])
-    if _taller_than_page(table):  # a long source line quoted in a check, say: split the row
-        table.splitInRow = 1
-    return table
-
-
-def _taller_than_page(table: LongTable) -> bool:
-    """A row that cannot fit on one page (reportlab would give up); rows that fit are kept whole."""
-    height = layout.PAGE[1] - 2 * layout.MARGIN
-    table.wrap(layout.FRAME_WIDTH, height)
-    tallest = float(max(table._rowHeights, default=0))
-    return bool(tallest > height - 40)
-
-
-def _right(style: Any) -> Any:
-    from reportlab.lib.enums import TA_RIGHT
-    from reportlab.lib.styles import ParagraphStyle
-
-    return ParagraphStyle(f"{style.name}_right", parent=style, alignment=TA_RIGHT)
-
-
-def _table(block: TableBlock, s: dict[str, Any]) -> Iterable[Flowable]:
-    yield Paragraph(_text(block.title), s["h2"])
-    yield _grid([block.header, *block.rows], _widths(block), s, block.numeric)
-    yield Spacer(1, 8)
-
-
-def _widths(block: TableBlock) -> list[float]:
-    """Columns as wide as their longest cell (about 4.4 pt a character at 7.5 pt), shrunk to the
-    frame only when they would not fit."""
-    natural = [
-        max(len(row[c]) for row in [block.header, *block.rows]) * 4.4 + 12
-        for c in range(len(block.header))
-    ]
-    total = sum(natural)
-    scale = min(1.0, layout.FRAME_WIDTH / total) if total else 1.0
-    return [w * scale for w in natural]
 
 
 def _appendix(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:

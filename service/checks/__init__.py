@@ -31,10 +31,14 @@ ORDER = (
     "layout",  # measured on the drawn chart
 )
 
+TABLE_MODULES = ("tables",)
+"""Modules of the checks of tables (``registry.register_table``), run after the charts'."""
+
 registry.set_order([f"service.checks.{name}" for name in ORDER])
-for _name in ORDER:
+for _name in (*ORDER, *TABLE_MODULES):
     import_module(f"service.checks.{_name}")
 
 CHECKS = registry.CHECKS
+TABLE_CHECKS = registry.TABLE_CHECKS
 
-__all__ = ["CHECKS", "ORDER"]
+__all__ = ["CHECKS", "ORDER", "TABLE_CHECKS", "TABLE_MODULES"]

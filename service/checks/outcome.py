@@ -2,12 +2,13 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 from service.checks.results import CheckResult, Status
 from service.data.frames import Table
 from service.definition.model import ReportDefinition
 from service.intents.plan import ChartPlan
+from service.intents.table import TablePlan
 
 
 @dataclass(frozen=True)
@@ -18,15 +19,26 @@ class CheckedChart:
 
 
 @dataclass(frozen=True)
+class CheckedTable:
+    path: str
+    plan: TablePlan
+    results: list[CheckResult]
+
+
+@dataclass(frozen=True)
 class Checked:
     definition: ReportDefinition
     tables: dict[str, Table]
     fingerprint: str
     charts: list[CheckedChart]
+    shown_tables: list[CheckedTable] = field(default_factory=list)
+    """Each table of the report as it will be shown, with its checks (in reading order)."""
 
     @property
     def results(self) -> list[CheckResult]:
-        return [r for chart in self.charts for r in chart.results]
+        """Every chart's results, then every table's."""
+        found = [r for chart in self.charts for r in chart.results]
+        return found + [r for table in self.shown_tables for r in table.results]
 
     @property
     def blocked(self) -> bool:

@@ -13,9 +13,11 @@ from datetime import datetime
 from typing import Any, Literal
 
 from service.data.frames import Table
-from service.definition.model import AnyChart, ReportDefinition
+from service.definition.model import AnyChart, Dataset, ReportDefinition
+from service.definition.model import Table as TableSpec
 from service.errors import Problem
 from service.intents.plan import ChartPlan
+from service.intents.table import TablePlan
 
 
 @dataclass(frozen=True)
@@ -90,7 +92,51 @@ class CheckSpec:
         }
 
 
+@dataclass(frozen=True)
+class TableContext:
+    """What a table check may consult besides the table's plan."""
+
+    spec: TableSpec
+    dataset: Dataset
+    table: Table
+    as_of: datetime
+    locale: str
+
+
+@dataclass(frozen=True)
+class TableCheckSpec:
+    """A check of a table (rather than a chart): measured on the table's plan, corrected where it
+    can be, never waived (what a table lists is the data itself)."""
+
+    id: str
+    title: str
+    measures: str
+    threshold: str
+    source: str
+    correction: str
+    applies: Callable[[TablePlan, TableContext], bool]
+    measure: Callable[[TablePlan, TableContext], Finding]
+    correct: Callable[[TablePlan, TableContext], TablePlan]
+
+    def describe(self) -> dict[str, Any]:
+        return {
+            "id": self.id,
+            "title": self.title,
+            "intents": [],
+            "forms": ["table"],
+            "measures": self.measures,
+            "threshold": self.threshold,
+            "source": self.source,
+            "correctable": True,
+            "correction": self.correction,
+            "waivable": False,
+            "never_waivable_for": [],
+            "level": "rule",
+        }
+
+
 CHECKS: dict[str, CheckSpec] = {}
+TABLE_CHECKS: dict[str, TableCheckSpec] = {}
 _ORDER: list[str] = []
 
 
@@ -116,12 +162,26 @@ def register(spec: CheckSpec) -> CheckSpec:
     return spec
 
 
+def register_table(spec: TableCheckSpec) -> TableCheckSpec:
+    if spec.id in CHECKS or spec.id in TABLE_CHECKS:
+        raise ValueError(f"check id {spec.id!r} is registered twice")
+    TABLE_CHECKS[spec.id] = spec
+    return spec
+
+
+def source(check: str) -> str:
+    """Where the rule of a chart's or a table's check comes from."""
+    spec = CHECKS.get(check)
+    return spec.source if spec is not None else TABLE_CHECKS[check].source
+
+
 def applicable(plan: ChartPlan) -> list[CheckSpec]:
     return [spec for spec in CHECKS.values() if spec.applies(plan)]
 
 
 def catalogue() -> list[dict[str, Any]]:
-    return [spec.describe() for spec in CHECKS.values()]
+    found = [spec.describe() for spec in CHECKS.values()]
+    return found + [spec.describe() for spec in TABLE_CHECKS.values()]
 
 
 def waiver_problems(definition: ReportDefinition) -> Iterable[Problem]:
@@ -211,6 +271,27 @@ def markdown() -> str:
             "yes" if spec.correctable else "no",
             waivable,
             spec.source,
+        ]
+        lines.append("| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |")
+    lines += [
+        "",
+        "## Table checks",
+        "",
+        "Every table is measured by each check that applies to it (a table of a dataset with a",
+        "time column, a table with estimates, totals or a limit). A table's checks are never waived:",
+        "what it lists is the data itself. The appendix lists them under the table's id.",
+        "",
+        "| id | rule | measures | threshold | corrects | source |",
+        "|---|---|---|---|---|---|",
+    ]
+    for table_spec in TABLE_CHECKS.values():
+        cells = [
+            f"`{table_spec.id}`",
+            table_spec.title,
+            table_spec.measures,
+            table_spec.threshold,
+            "yes",
+            table_spec.source,
         ]
         lines.append("| " + " | ".join(c.replace("|", "\\|") for c in cells) + " |")
     return "\n".join(lines) + "\n"

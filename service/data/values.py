@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from service import glyphs
 from service.config import Limits
+from service.data import periods
 from service.data.frames import Table
 from service.definition import validate
 from service.definition.model import ColumnType, ReportDefinition, Role
@@ -116,15 +117,21 @@ def table_limits(
     for s, section in enumerate(definition.sections):
         for t, spec in enumerate(section.tables):
             table = tables.get(spec.dataset)
-            if table is not None and len(table.frame) > limits.max_table_rows:
+            if table is None:
+                continue
+            rows = len(table.frame)  # a time series prints a row for every expected period
+            if table.periods is not None:
+                rows = periods.span(table.periods)
+            rows = min(rows, spec.limit or rows)
+            if rows > limits.max_table_rows:
                 found.append(
                     Problem.over_limit(
                         f"sections[{s}].tables[{t}]",
                         "table rows",
-                        len(table.frame),
+                        rows,
                         setting="max_table_rows",
                         limit=limits.max_table_rows,
-                        advice="show a chart instead, or a shorter dataset",
+                        advice="show a chart instead, a shorter dataset, or set the table's limit",
                     )
                 )
     return found

@@ -59,6 +59,29 @@ class Column(Input):
     projectable: Flag = Field(
         False, description="A partial last period of this column may be projected (e.g. run rate)."
     )
+    additive: Flag | None = Field(
+        None,
+        description="Whether the values add up to a meaningful total (counts, money). Default: "
+        "yes for numbers, except percentages and rates ('%', 'pp', a unit with '/' or 'per'); "
+        "say false for means, ratings and other values that do not add up.",
+    )
+
+    def adds_up(self) -> bool:
+        """Whether a total of this column means something (see ``additive``)."""
+        if self.type not in (ColumnType.number, ColumnType.integer):
+            return False
+        if self.additive is not None:
+            return self.additive
+        return not _rate(self.unit or "")
+
+
+_PERCENT_UNITS = frozenset({"percent", "per cent", "pp", "percentage points", "percentage point"})
+
+
+def _rate(unit: str) -> bool:
+    """A unit of a percentage or a rate, whose values do not add up."""
+    text = unit.strip().lower()
+    return text in _PERCENT_UNITS or "%" in text or "/" in text or " per " in f" {text} "
 
 
 class Dataset(Input):
@@ -385,11 +408,33 @@ INTENTS = tuple(intent_of(model) for model in CHART_MODELS)
 OVER_TIME = frozenset(intent_of(model) for model in CHART_MODELS if model.over_time)
 
 
+class TableSort(Input):
+    column: Name
+    order: Literal["ascending", "descending"] = "ascending"
+
+
 class Table(Input):
     id: Id
     title: Label
     dataset: Id
-    columns: list[Name] | None = Field(None, description="Columns to show; all when omitted.")
+    columns: list[Name] | None = Field(
+        None, description="Columns to show, in this order; all when omitted."
+    )
+    sort: TableSort | None = Field(
+        None,
+        description="Order of the rows; periods in time order (or rows as given) when omitted. "
+        "Rows without a value sort last.",
+    )
+    totals: list[Name] | None = Field(
+        None,
+        description="Columns to total in a last row: only measures that add up (not "
+        "percentages, rates or means; see the column's 'additive').",
+    )
+    limit: Annotated[Whole, Field(ge=1)] | None = Field(
+        None,
+        description="Show at most this many rows (the first in the table's order); the table "
+        "says how many were left out.",
+    )
 
 
 class Section(Input):

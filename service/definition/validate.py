@@ -26,12 +26,14 @@ from service.definition import paths
 from service.definition.model import (
     INTENTS,
     AnyChart,
+    Column,
     ColumnType,
     Dataset,
     RelativeChangeChart,
     ReportDefinition,
     Role,
     ShareChart,
+    Table,
     TrendChart,
 )
 from service.errors import InvalidDefinition, PayloadTooLarge, Problem
@@ -513,10 +515,70 @@ def references(definition: ReportDefinition) -> Iterable[Problem]:
             if shown is None:
                 yield _unknown(f"{path}.dataset", "dataset", table.dataset, names)
                 continue
-            known = [c.name for c in shown.columns]
-            for i, column in enumerate(table.columns or []):
-                if column not in known:
-                    yield _unknown(f"{path}.columns[{i}]", "column", column, known, shown.name)
+            yield from _table_problems(path, table, shown)
+
+
+def _table_problems(path: str, table: Table, dataset: Dataset) -> Iterable[Problem]:
+    """A table's columns, sort and totals must name columns it shows; totals only measures that
+    add up."""
+    columns = {c.name: c for c in dataset.columns}
+    known = list(columns)
+    for i, column in enumerate(table.columns or []):
+        if column not in columns:
+            yield _unknown(f"{path}.columns[{i}]", "column", column, known, dataset.name)
+    shown = table.columns or known
+    time = dataset.time_column
+    if time is not None and time in columns and time not in shown:
+        yield Problem(
+            "time_column_not_shown",
+            f"{path}.columns",
+            f"the table leaves out '{time}', the dataset's time column: its rows would not say "
+            "which period they are for, and periods without data could not be shown",
+            f"add '{time}' to {path}.columns",
+            list(shown),
+        )
+    named = [(f"{path}.totals[{i}]", n) for i, n in enumerate(table.totals or [])]
+    if table.sort is not None:
+        named.insert(0, (f"{path}.sort.column", table.sort.column))
+    for where, name in named:
+        if name not in columns:
+            yield _unknown(where, "column", name, known, dataset.name)
+        elif name not in shown:
+            yield Problem(
+                "column_not_shown",
+                where,
+                f"'{name}' is not among the table's columns",
+                f"add '{name}' to {path}.columns, or name a column the table shows",
+                name,
+            )
+    for where, name in named[1 if table.sort is not None else 0 :]:
+        totalled = columns.get(name)
+        if totalled is not None and name in shown and not totalled.adds_up():
+            yield _not_additive(where, totalled)
+
+
+def _not_additive(path: str, column: Column) -> Problem:
+    if column.type not in (ColumnType.number, ColumnType.integer):
+        why = f"a {column.type.value} column"
+        fix = f"drop '{column.name}' from totals: only numbers add up"
+    else:
+        unit = f" in '{column.unit}'" if column.unit else ""
+        why = (
+            "declared 'additive': false"
+            if column.additive is False
+            else f"a percentage or a rate{unit}"
+        )
+        fix = (
+            f"drop '{column.name}' from totals (a total of percentages, rates or means says "
+            f"nothing); if its values do add up, declare 'additive': true on column '{column.name}'"
+        )
+    return Problem(
+        "totals_not_additive",
+        path,
+        f"'{column.name}' is {why}: its values do not add up to a meaningful total",
+        fix,
+        column.name,
+    )
 
 
 def _duplicates(definition: ReportDefinition) -> Iterable[Problem]:

@@ -5,6 +5,51 @@ WORDS: dict[str, str] = {
     # -- page headings, footers and page furniture ----------------------------------------------
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
     # -- tables ------------------------------------------------------------------------------------
+    "table.no_data": "keine Daten",
+    "table.partial": "unvollständig: {done}",
+    "table.days": "{elapsed} von {total} Tagen",
+    "table.day": "{elapsed} von {total} Tag",
+    "table.estimate_header": "{label}, Schätzung",
+    "table.estimates_note": "Schätzungen, keine Istwerte: {columns}.",
+    "table.continued": "{title} (Fortsetzung)",
+    "table.total": "Summe",
+    "table.total_of_shown": "Summe der {count} gezeigten Zeilen",
+    "table.total_incomplete": "{total} ({count} Zeiträume ohne Daten oder unvollständig)",
+    "table.total_incomplete_one": "{total} (1 Zeitraum ohne Daten oder unvollständig)",
+    "table.rows_left_out": (
+        "{count} weitere Zeilen ausgelassen (die Tabelle zeigt die ersten {shown})."
+    ),
+    "table.row_left_out": "1 weitere Zeile ausgelassen (die Tabelle zeigt die ersten {shown}).",
+    "table.missing_not_shown": "Keine Daten für {periods}, nicht unter den gezeigten Zeilen.",
+    "table.measured_of": "{part} von {whole}",
+    "table.measured_unshown": "{count} nicht gezeigt",
+    "table.check_missing_ok": (
+        "{missing} von {expected} Zeiträumen ohne Daten, jeder als Zeile "
+        "mit „keine Daten“ gezeigt oder unter der Tabelle genannt."
+    ),
+    "table.check_missing_none": (
+        "Alle {expected} erwarteten Zeiträume haben Daten und sind aufgeführt."
+    ),
+    "table.check_missing_bad": (
+        "Zeiträume ohne Daten, die die Tabelle weder aufführt noch nennt: {periods}."
+    ),
+    "table.check_partial_ok": "{period} ist unvollständig ({done}) und so gekennzeichnet.",
+    "table.check_partial_bad": "{period} ist unvollständig ({done}), aber nicht so gekennzeichnet.",
+    "table.check_estimates_ok": (
+        "Im Tabellenkopf als Schätzung gekennzeichnet und unter der Tabelle genannt: {columns}."
+    ),
+    "table.check_estimates_bad": "Nicht gekennzeichnete Schätzungen: {columns}.",
+    "table.check_totals_ok": (
+        "Summen von Größen, die sich addieren lassen, passend zu den gezeigten Zeilen: {columns}."
+    ),
+    "table.check_totals_bad": "Summen, die falsch sind oder sich nicht addieren lassen: {columns}.",
+    "table.check_left_out_ok": (
+        "{shown} von {rows} Zeilen gezeigt; die Tabelle sagt, dass {left_out} ausgelassen wurden."
+    ),
+    "table.check_left_out_bad": (
+        "{shown} von {rows} Zeilen gezeigt, aber "
+        "die Tabelle sagt, dass {left_out} ausgelassen wurden."
+    ),
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------

@@ -5,6 +5,44 @@ WORDS: dict[str, str] = {
     # -- page headings, footers and page furniture ----------------------------------------------
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
     # -- tables ------------------------------------------------------------------------------------
+    "table.no_data": "no data",
+    "table.partial": "partial: {done}",
+    "table.days": "{elapsed} of {total} days",
+    "table.day": "{elapsed} of {total} day",
+    "table.estimate_header": "{label}, estimate",
+    "table.estimates_note": "Estimates, not actuals: {columns}.",
+    "table.continued": "{title} (continued)",
+    "table.total": "Total",
+    "table.total_of_shown": "Total of the {count} rows shown",
+    "table.total_incomplete": "{total} ({count} periods without data or partial)",
+    "table.total_incomplete_one": "{total} (1 period without data or partial)",
+    "table.rows_left_out": "{count} more rows left out (the table shows the first {shown}).",
+    "table.row_left_out": "1 more row left out (the table shows the first {shown}).",
+    "table.missing_not_shown": "No data for {periods}, not among the rows shown.",
+    "table.measured_of": "{part} of {whole}",
+    "table.measured_unshown": "{count} not shown",
+    "table.check_missing_ok": (
+        "{missing} of {expected} periods without data, each shown as "
+        "a row reading 'no data' or named under the table."
+    ),
+    "table.check_missing_none": "All {expected} expected periods have data and are listed.",
+    "table.check_missing_bad": (
+        "Periods without data that the table neither lists nor names: {periods}."
+    ),
+    "table.check_partial_ok": "{period} is partial ({done}) and marked so.",
+    "table.check_partial_bad": "{period} is partial ({done}) but not marked so.",
+    "table.check_estimates_ok": (
+        "Marked as estimates in the header and listed under the table: {columns}."
+    ),
+    "table.check_estimates_bad": "Estimates not marked: {columns}.",
+    "table.check_totals_ok": "Totals of measures that add up, matching the rows shown: {columns}.",
+    "table.check_totals_bad": "Totals that are wrong or do not add up: {columns}.",
+    "table.check_left_out_ok": (
+        "{shown} of {rows} rows shown; the table says {left_out} were left out."
+    ),
+    "table.check_left_out_bad": (
+        "{shown} of {rows} rows shown, but the table says {left_out} were left out."
+    ),
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------

@@ -7,14 +7,14 @@ import io
 
 from reportlab.platypus import SimpleDocTemplate
 
-from service.assemble import fonts, layout, pack
+from service.assemble import fonts, layout, tables
 
 
 def _build(rows: list[list[str]]) -> bytes:
     s = layout.styles()
     fonts.register()
     w = layout.FRAME_WIDTH
-    table = pack._grid(rows, [w * 0.7, w * 0.3], s)
+    table = tables.grid(rows, [w * 0.7, w * 0.3], s)
     buffer = io.BytesIO()
     SimpleDocTemplate(buffer, pagesize=layout.PAGE).build([table])
     return buffer.getvalue()
@@ -28,6 +28,6 @@ def test_a_row_taller_than_a_page_is_split() -> None:
 
 def test_rows_that_fit_stay_whole() -> None:
     rows = [["Chart", "Explanation"], *[[f"c{i}", "a short line"] for i in range(5)]]
-    table = pack._grid(rows, [100.0, 300.0], layout.styles())
-    assert not pack._taller_than_page(table)
+    table = tables.grid(rows, [100.0, 300.0], layout.styles())
+    assert not tables.taller_than_page(table)
     assert table.splitInRow == 0
