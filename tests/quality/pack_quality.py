@@ -14,7 +14,7 @@ the demo and the generated gallery, ``tests/quality/gallery.py``) and prints one
 - **key mismatches**: keys naming a mark kind that is not drawn, or missing one that is, read from a
   check of the key when the draft has one (else not measured);
 - **sparse pages**: pages whose content ends in the top quarter of the text frame, other than the
-  last page of a section (measured on a picture of each page, ``pdftoppm``);
+  last page of a section, and every blank page (measured on a picture of each page, ``pdftoppm``);
 - **complete-period height share**: on charts over time with a partial last period, the share of
   the plot height the complete periods span (from the zero line on an axis that starts at zero),
   computed from the checked plan's value axis and values; the smallest over the charts.
@@ -286,7 +286,7 @@ def sparse_pages(done: Draft) -> Figure:
     for i, fill in enumerate(done.fill):
         last = i == len(done.fill) - 1
         ends_section = last or _starts_section(done.pages[i + 1], headings)
-        if fill < SPARSE and not ends_section:
+        if fill == 0 or (fill < SPARSE and not ends_section):  # a blank page ends nothing
             sparse.append(f"p. {i + 1} ({fill:.0%})")
     return Figure(
         "sparse_pages",

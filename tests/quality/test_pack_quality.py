@@ -58,6 +58,8 @@ def test_a_sparse_page_counts_unless_it_ends_a_section() -> None:
     found = quality.sparse_pages(fake(pages, [0.5, 0.9, 0.1, 0.1, 0.1]))
     assert found.value == 1  # p. 3; p. 4 ends a section, p. 5 is the last page
     assert "p. 3" in found.detail
+    blank = quality.sparse_pages(fake(pages, [0.5, 0.9, 0.9, 0.0, 0.9]))
+    assert blank.value == 1  # a blank page before a section ends nothing
 
 
 def test_raw_identifiers_are_found_outside_the_appendix_ids() -> None:
