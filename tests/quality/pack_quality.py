@@ -11,8 +11,9 @@ the demo and the generated gallery, ``tests/quality/gallery.py``) and prints one
   chart, table and check ids of the appendix;
 - **missing table periods**: periods between a time-indexed table's first and last that its printed
   rows do not name (``pdftotext``, read from the table's title to the next heading);
-- **key mismatches**: keys naming a mark kind that is not drawn, or missing one that is, read from a
-  check of the key when the draft has one (else not measured);
+- **key mismatches**: keys naming a mark kind that is not drawn, or missing one that is: the kinds
+  the drawn key lists (the layout report's ``key_kinds``) against the kinds the checked plan asks
+  for (``tests/quality/kinds.py``); not measured while either is missing;
 - **sparse pages**: pages whose content ends in the top quarter of the text frame, other than the
   last page of a section, and every blank page (measured on a picture of each page, ``pdftoppm``);
 - **complete-period height share**: on charts over time with a partial last period, the share of
@@ -31,16 +32,18 @@ import re
 import subprocess
 import sys
 import tempfile
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable, Iterator, Sequence
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 import pandas as pd
 from PIL import Image
 
 from service import pipeline
-from service.checks import registry
+from service.checks import engine, registry
 from service.checks.outcome import Checked
 from service.checks.results import CheckResult
 from service.config import Limits
@@ -87,16 +90,37 @@ class Draft:
     """Each page's text, as ``pdftotext -layout`` reads it."""
     fill: list[float] = field(default_factory=list)
     """Each page's fill: where its lowest ink in the text frame lies, as a share of the frame."""
+    reports: list[Any] = field(default_factory=list)
+    """Each chart's layout report, as the renderer measured it (``render.measured``)."""
 
 
 # --- drafting and reading back ---------------------------------------------------------------
 
 
+@contextmanager
+def _drawn_reports(into: list[Any]) -> Iterator[None]:
+    """Keep the layout reports the renderer hands to the checks while a pack is drawn (the
+    pipeline turns them into ``label-layout`` results and keeps nothing else of them)."""
+    finish = engine.finish
+
+    def keeping(checked: Checked, reports: Sequence[Any]) -> Checked:
+        into.extend(reports)
+        return finish(checked, reports)
+
+    engine.finish = keeping
+    try:
+        yield
+    finally:
+        engine.finish = finish
+
+
 def draft(raw: bytes, name: str) -> Draft:
     """Check and draw the definition as ``plumbline render`` does (serially, no cache)."""
     checked = pipeline.check(pipeline.intake(raw, Limits()))
-    pdf, checked = pipeline.render(checked)
-    found = Draft(name=name, checked=checked, pdf=pdf)
+    reports: list[Any] = []
+    with _drawn_reports(reports):
+        pdf, checked = pipeline.render(checked)
+    found = Draft(name=name, checked=checked, pdf=pdf, reports=reports)
     with tempfile.TemporaryDirectory() as folder:
         path = Path(folder) / "draft.pdf"
         path.write_bytes(pdf)
@@ -267,12 +291,26 @@ def missing_table_periods(done: Draft) -> Figure:
 
 
 def key_mismatches(done: Draft) -> Figure:
+    """Per chart, the kinds of mark its key lists (the layout report's ``key_kinds``) against the
+    kinds its plan asks to be drawn (``tests.quality.kinds``): each kind in one and not the other
+    counts once."""
     title = "keys naming marks not drawn, or missing drawn ones"
-    keyed = [r for r in done.checked.results if re.search(r"(^|-)(key|keys|legend)(-|$)", r.check)]
-    if not keyed:
-        return Figure("key_mismatches", title, None, "0", None, "no check of the keys in the draft")
-    wrong = [r.chart for r in keyed if r.status.value in ("failed", "waived", "advice")]
-    return Figure("key_mismatches", title, len(wrong), "0", not wrong, ", ".join(wrong[:6]))
+    try:
+        from tests.quality.kinds import kinds_in_plan
+    except ImportError:
+        return Figure("key_mismatches", title, None, "0", None, "no reading of a plan's mark kinds")
+    if len(done.reports) != len(done.checked.charts) or not all(
+        hasattr(r, "key_kinds") for r in done.reports
+    ):
+        return Figure("key_mismatches", title, None, "0", None, "the drawing reports no key")
+    wrong = 0
+    charts = []
+    for chart, report in zip(done.checked.charts, done.reports, strict=True):
+        differ = set(kinds_in_plan(chart.plan)) ^ set(report.key_kinds)
+        wrong += len(differ)
+        if differ:
+            charts.append(f"{chart.plan.chart_id} ({', '.join(sorted(differ))})")
+    return Figure("key_mismatches", title, wrong, "0", wrong == 0, ", ".join(charts[:6]))
 
 
 def _starts_section(page: str, headings: Iterable[str]) -> bool:

@@ -10,8 +10,10 @@ from __future__ import annotations
 
 import sys
 from functools import cache
+from types import ModuleType, SimpleNamespace
 
 import numpy as np
+import pytest
 
 from service import pipeline
 from service.checks.outcome import Checked
@@ -137,3 +139,20 @@ def test_the_demo_draft_meets_what_it_meets_and_gets_no_worse() -> None:
         value = by_key[key].value
         assert value is not None, by_key[key]
         assert value >= floor, by_key[key]
+
+
+def test_key_mismatches_compare_the_drawn_key_with_the_plan(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    charts = demo_checked().charts
+    done = fake([])
+    done.reports = [SimpleNamespace(overlaps=0) for _ in charts]
+    assert quality.key_mismatches(done).value is None  # the drawing reports no key
+    kinds = ModuleType("tests.quality.kinds")
+    kinds.kinds_in_plan = lambda plan: {"no_data"} if plan.gaps else set()  # type: ignore[attr-defined]
+    monkeypatch.setitem(sys.modules, "tests.quality.kinds", kinds)
+    done.reports = [SimpleNamespace(key_kinds=[]) for _ in charts]
+    found = quality.key_mismatches(done)
+    gapped = [c.plan.chart_id for c in charts if c.plan.gaps]
+    assert found.value == len(gapped) > 0  # a gap drawn, but no key names it
+    assert found.detail.startswith(f"{gapped[0]} (no_data)")
