@@ -223,9 +223,7 @@ def _measure_colours(checked: Checked) -> dict[str, set[str]]:
         if plan.form == "pie":
             continue
         measures = colours.measures_of(chart)
-        series = [s for s in plan.series if not s.estimate] or [
-            s for p in plan.panels for s in p.series
-        ]
+        series = plan.series[: len(measures)] or [s for p in plan.panels for s in p.series]
         if series:
             for i, (measure, s) in enumerate(zip(measures, series, strict=False)):
                 seen.setdefault(measure, set()).add(colours.series_colour(plan, s, i))
