@@ -77,10 +77,7 @@ def mark_off_scale(plan: ChartPlan) -> ChartPlan:
     found = outside(plan)
     text = None
     if found:
-        values = ", ".join(
-            f"{s.name} {formatting.with_unit(v, s.unit or axis.unit, plan.locale)}"
-            for s, v, axis in found
-        )
+        values = ", ".join(_value(s, v, axis, plan.locale) for s, v, axis in found)
         below = all(v < axis.lo for _, v, axis in found)
         text = wording.say(
             "scale.off_scale_below" if below else "scale.off_scale_above",
@@ -105,3 +102,12 @@ def split(
         v for values in columns if 0 <= skip < len(values) and (v := values[skip]) is not None
     ]
     return done, running
+
+
+def _value(series: Series, value: float, axis: Scale, locale: str) -> str:
+    """ "operated 1,601 journeys"; "5,254 passengers" where the unit already names the measure."""
+    unit = series.unit or axis.unit
+    shown = formatting.with_unit(value, unit, locale)
+    return (
+        shown if series.name.strip().lower() == unit.strip().lower() else f"{series.name} {shown}"
+    )

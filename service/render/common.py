@@ -23,19 +23,25 @@ def colour(plan: ChartPlan, index: int) -> str:
     return colours.mark_colour(plan, index)
 
 
+#: The least distance between two value ticks, in points, before a short axis keeps every other.
+MIN_TICK_GAP = 16.0
+#: Width of one character of a value label, in points (7.5 pt DejaVu Sans digits and letters).
+CHAR_WIDTH = 4.6
+
+
 def value_ticks(ax: Axes, axis: Scale, which: Literal["x", "y"]) -> None:
     """Ticks at the plan's nice steps, so the drawn value axis ends where the plan's range ends
     (room beyond it for labels carries no tick), and its line stops there too."""
     if axis.log:
         return
-    (ax.xaxis if which == "x" else ax.yaxis).set_major_locator(
-        FixedLocator(scales.ticks(axis.lo, axis.hi))
-    )
+    ticks = scales.ticks(axis.lo, axis.hi)
+    box = ax.get_position()
+    inches = ax.get_figure().get_size_inches()  # type: ignore[union-attr]
+    length = box.width * inches[0] * 72 if which == "x" else box.height * inches[1] * 72
+    if len(ticks) > 4 and (len(ticks) - 1) % 2 == 0 and length / (len(ticks) - 1) < MIN_TICK_GAP:
+        ticks = ticks[::2]  # a short axis (a panel) keeps every other step, ends included
+    (ax.xaxis if which == "x" else ax.yaxis).set_major_locator(FixedLocator(ticks))
     ax.spines["bottom" if which == "x" else "left"].set_bounds(axis.lo, axis.hi)
-
-
-#: Width of one character of a value label, in points (7.5 pt DejaVu Sans digits and letters).
-CHAR_WIDTH = 4.6
 
 
 def room_for(ax: Axes, lo: float, hi: float, labels: list[tuple[float, str]]) -> float:
