@@ -49,10 +49,11 @@ def _far_end(axis: Scale, values: list[float]) -> str | None:
     top, bottom = max(values), min(values)
     if axis.unit == scales.PERCENT and top <= 100.0 < axis.hi:
         return "percent"
-    if axis.hi - max(top, 0.0 if axis.lo == 0.0 else top) >= step - 1e-9 * step:
+    room = scales.EDGE_ROOM * (top - bottom) + 1e-9 * step  # a line or dot kept off the frame
+    if axis.hi - max(top, 0.0 if axis.lo == 0.0 else top) >= step + room:
         return "high"
     floor = 0.0 if axis.lo == 0.0 and bottom >= 0.0 else bottom
-    if floor - axis.lo >= step - 1e-9 * step:
+    if floor - axis.lo >= step + room:
         return "low"
     return None
 
@@ -80,7 +81,7 @@ def _end_measure(plan: ChartPlan, ctx: Context) -> Finding:
 
 
 def _partial_measure(plan: ChartPlan, ctx: Context) -> Finding:
-    share = off_scale.complete_share(plan)
+    share = off_scale.complete_share(plan, zero=_zero_based(ctx))
     shown = f"{share:.0%}".replace("%", " %")
     percent = round(share * 100)
     if share < scales.MIN_COMPLETE_SHARE:
@@ -95,12 +96,20 @@ def _partial_measure(plan: ChartPlan, ctx: Context) -> Finding:
     )
 
 
-def _refit(plan: ChartPlan, axis: Scale, done: list[float], running: list[float]) -> Scale:
+def _zero_based(ctx: Context) -> bool:
+    """Whether the chart asked for a scale from zero (a zero the partial period pulled in does not
+    count as shown)."""
+    return bool(getattr(ctx.chart, "from_zero", False))
+
+
+def _refit(
+    plan: ChartPlan, axis: Scale, done: list[float], running: list[float], *, zero: bool
+) -> Scale:
     refs = [r.value for r in plan.references]
     lo, hi = scales.fit_periods(
         [*done, *refs],
         running,
-        include_zero=axis.lo == 0.0 and bool(done) and min(done) >= 0.0,
+        include_zero=zero,
         unit=axis.unit,
         log=axis.log,
     )
@@ -121,7 +130,7 @@ def _partial_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
         refitted = {}
         for old, series in off_scale.axes_of(plan):  # panels sharing a scale keep sharing it
             done, running = off_scale.split(plan.partial, *(s.values for s in series))
-            refitted[old] = _refit(plan, old, done, running)
+            refitted[old] = _refit(plan, old, done, running, zero=_zero_based(ctx))
         panels = []
         for panel in plan.panels:
             axis = refitted[panel.value_axis]
@@ -135,7 +144,7 @@ def _partial_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
         ]
         running = [v for s in plan.series if (v := s.at(index)) is not None]
         done, _ = off_scale.split(None, *values)
-        axis = _refit(plan, plan.value_axis, done, running)
+        axis = _refit(plan, plan.value_axis, done, running, zero=_zero_based(ctx))
         notes = renoted(plan.notes, plan.value_axis, axis)
         fixed = plan.model_copy(update={"value_axis": axis, "notes": notes})
     return off_scale.mark_off_scale(fixed)

@@ -130,7 +130,7 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
     label = formatting.titled(chart.measure, unit)
     notes: list[str] = []
     if chart.focus == "differences":
-        lo, hi = scales.fit(present, include_zero=False, unit=unit)
+        lo, hi = scales.fit(present, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
         scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
         if not scale.includes_zero:
             notes.append(scale_note(scale, locale))

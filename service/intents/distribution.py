@@ -218,7 +218,7 @@ def _box_plan(
     boxes = [box_of(name, _floats(values)) for name, values in groups if len(values)]
     present = [float(v) for v in frame[chart.measure]]
     unit = table.units.get(chart.measure, "")
-    lo, hi = scales.fit(present, include_zero=False, unit=unit)
+    lo, hi = scales.fit(present, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
     if present and min(present) >= 0.0:
         lo = max(lo, 0.0)  # padding never pushes a measure that cannot be negative below zero
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label)

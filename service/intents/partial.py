@@ -56,13 +56,14 @@ def complete_values(plan: ChartPlan) -> list[tuple[Scale, list[float]]]:
     return out
 
 
-def complete_share(plan: ChartPlan) -> float:
+def complete_share(plan: ChartPlan, *, zero: bool = False) -> float:
     """The least share of a plot's height the complete periods use, with the references the scale
-    must also show (``scales.complete_share``), over every value axis of the plan."""
+    must also show (``scales.complete_share``), over every value axis of the plan; ``zero``: the
+    chart asked for a zero-based scale, so the zero line counts as shown."""
     shown = [r.value for r in plan.references]
     return min(
         (
-            scales.complete_share(axis.lo, axis.hi, values, shown, log=axis.log)
+            scales.complete_share(axis.lo, axis.hi, values, shown, log=axis.log, zero=zero)
             for axis, values in complete_values(plan)
         ),
         default=1.0,

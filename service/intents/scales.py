@@ -16,6 +16,9 @@ PERCENT = "%"
 """The unit of a percentage measure (a share of a whole: 0–100)."""
 MIN_INTERVALS, MAX_INTERVALS = 3, 8
 """How many tick intervals a nice range may have."""
+EDGE_ROOM = 0.005
+"""Room (a share of the data's span) a position encoding keeps between its extreme marks and the
+frame before rounding to the next nice number, so a line or dot never sits on the plot's edge."""
 MIN_COMPLETE_SHARE = 0.6
 """The least share of the plot height the complete periods (and what the scale must show with
 them: zero, references) may use."""
@@ -132,15 +135,17 @@ def complete_share(
     shown: Sequence[float] = (),
     *,
     log: bool = False,
+    zero: bool = False,
 ) -> float:
     """The share of the plot height [lo, hi] that the complete periods use, together with what the
-    scale must show beside them (``shown``: references; zero when the range includes it).
+    scale must show beside them (``shown``: references; zero when the chart asks for a zero-based
+    scale and the range includes it: a zero the partial period pulled in does not count).
 
     1.0 when there is nothing complete to measure."""
     values = [v for v in (*complete, *shown) if math.isfinite(v) and (v > 0 or not log)]
     if not complete or not values or hi <= lo:
         return 1.0
-    if lo <= 0.0 <= hi and not log:
+    if zero and lo <= 0.0 <= hi and not log:
         values.append(0.0)
     f = math.log10 if log else float
     return (f(max(values)) - f(min(values))) / (f(hi) - f(lo))
@@ -153,6 +158,7 @@ def fit_periods(
     include_zero: bool,
     unit: str = "",
     log: bool = False,
+    pad: float = EDGE_ROOM,
 ) -> tuple[float, float]:
     """The range of a chart over time: decided by the complete periods alone, widened to hold the
     partial period's values only where the complete periods keep ``MIN_COMPLETE_SHARE`` of the
@@ -161,14 +167,14 @@ def fit_periods(
     running = [v for v in partial if math.isfinite(v)]
     if not done:
         done, running = running, []
-    lo, hi = fit_log(done) if log else fit(done, include_zero=include_zero, unit=unit)
+    lo, hi = fit_log(done) if log else fit(done, include_zero=include_zero, unit=unit, pad=pad)
     if not running:
         return lo, hi
     wide = (
         fit_log([*done, *running])
         if log
-        else fit([*done, *running], include_zero=include_zero, unit=unit)
+        else fit([*done, *running], include_zero=include_zero, unit=unit, pad=pad)
     )
-    if complete_share(*wide, done, log=log) >= MIN_COMPLETE_SHARE:
+    if complete_share(*wide, done, log=log, zero=include_zero) >= MIN_COMPLETE_SHARE:
         return wide
     return lo, hi

@@ -113,7 +113,7 @@ def test_a_line_near_45_degrees_passes() -> None:
     )
     found = result_of(run_checks(definition), "aspect-banking")
     assert found.status is Status.passed
-    assert found.measured_text == "suggests 0.40; drawn 0.46"  # within a factor of 2
+    assert found.measured_text == "suggests 0.45; drawn 0.46"  # within a factor of 2
     assert "within a factor of 2" in found.explanation
 
 
