@@ -5,11 +5,12 @@ from __future__ import annotations
 import math
 import textwrap
 from collections.abc import Callable
-from typing import Any
+from typing import Any, cast
 
 from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 from matplotlib.ticker import FixedLocator, NullFormatter
+from matplotlib.transforms import offset_copy
 
 from service import formatting
 from service.intents import colours
@@ -202,11 +203,16 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             value = series.values[xs_all.index(partial.index)]
             if value is not None:
                 y, arrow = _on_scale(value, axis)
+                # arrows of several series at one edge stand side by side, not on top of each other
+                beside = (number - (len(series_list) - 1) / 2) * 7.0 if arrow else 0.0
                 ax.plot(
                     [partial.index],
                     [y],
                     marker=arrow or "o",
                     clip_on=arrow is None,
+                    transform=offset_copy(
+                        ax.transData, cast(Figure, ax.get_figure()), x=beside, units="points"
+                    ),
                     markersize=6,
                     markerfacecolor="white",
                     markeredgecolor=colour,
