@@ -261,3 +261,23 @@ def test_measures_of_a_chart_never_share_a_colour_when_the_palette_runs_out() ->
     slots = {f"m{i}": i for i in range(10)}
     assert [s % 8 for s in colours._distinct([slots["m0"], slots["m8"]], 8)] == [0, 1]
     assert colours._distinct([3, 4], 8) == [3, 4]
+
+
+def test_a_partial_value_never_decides_the_range_but_may_join_one_that_keeps_the_complete_share() -> (
+    None
+):
+    complete = [5580.0, 6240.0]
+    assert scales.fit_periods(complete, [1601.0], include_zero=False) == (5500.0, 6250.0)
+    # a partial value just below the complete ones widens the range: they still fill most of it
+    lo, hi = scales.fit_periods(complete, [5450.0], include_zero=False)
+    assert lo <= 5450.0
+    assert scales.complete_share(lo, hi, complete) >= scales.MIN_COMPLETE_SHARE
+    # from zero, the zero line is shown either way, so a small partial value fits on the scale
+    assert scales.fit_periods([48210.0, 57120.0], [15480.0], include_zero=True) == (0.0, 60000.0)
+    assert scales.fit_periods([], [15480.0], include_zero=True) == (0.0, 16000.0)
+
+
+def test_a_zero_the_partial_value_pulled_in_does_not_count_as_shown() -> None:
+    complete = [15870.0, 29438.0]
+    assert scales.complete_share(0.0, 30000.0, complete, zero=True) > 0.9
+    assert scales.complete_share(0.0, 30000.0, complete, zero=False) < 0.5
