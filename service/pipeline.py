@@ -9,7 +9,7 @@ and returns plain, picklable values. No stage calls the next: the order lives he
 from __future__ import annotations
 
 import hashlib
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 from dataclasses import asdict, dataclass
 from datetime import datetime
 from typing import TYPE_CHECKING, Any
@@ -24,9 +24,11 @@ from service.config import Limits
 from service.data import frames, values
 from service.data.frames import Table
 from service.definition import validate
-from service.definition.model import ReportDefinition, local_wall_time
+from service.definition.model import AnyChart, ReportDefinition, local_wall_time
 from service.errors import InvalidDefinition, Problem
+from service.intents import colours
 from service.intents import table as table_plans
+from service.intents.plan import ChartPlan
 
 if TYPE_CHECKING:
     from service.render.options import RenderOptions
@@ -74,6 +76,17 @@ def intake(raw: bytes | str, limits: Limits) -> Intake:
     return Intake(definition, tables, hashlib.sha256(data).hexdigest())
 
 
+def plan_for(
+    chart: AnyChart, table: Table, env: intents.Env, slots: Mapping[str, int]
+) -> ChartPlan:
+    """One chart's plan before any check runs: its encoder's, drawn with the report's palette and
+    each measure in its colour across the pack (``slots``: ``intents.colours.pack_slots``)."""
+    plan = intents.ENCODERS[chart.intent].encode(chart, table, env)
+    if env.palette and not plan.palette:
+        plan = plan.model_copy(update={"palette": list(env.palette)})
+    return colours.paint(plan, chart, slots)
+
+
 def check(taken: Intake) -> Checked:
     definition = taken.definition
     as_of = local_wall_time(definition.report.as_of)
@@ -81,11 +94,10 @@ def check(taken: Intake) -> Checked:
     palette = tuple(definition.report.palette) if definition.report.palette else None
     env = intents.Env(locale=locale, as_of=as_of, palette=palette)
     charts: list[CheckedChart] = []
+    slots = colours.pack_slots(chart for _, chart in definition.charts())
     for path, chart in definition.charts():
         table = taken.tables[chart.dataset]
-        plan = intents.ENCODERS[chart.intent].encode(chart, table, env)
-        if env.palette and not plan.palette:
-            plan = plan.model_copy(update={"palette": list(env.palette)})
+        plan = plan_for(chart, table, env, slots)
         ctx = registry.Context(
             chart=chart,
             table=table,

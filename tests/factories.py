@@ -21,6 +21,7 @@ from service.checks.results import CheckResult, Status
 from service.config import Limits
 from service.definition.model import local_wall_time
 from service.errors import InvalidDefinition, Problem
+from service.intents import colours
 from service.intents.plan import ChartPlan
 
 Json = dict[str, Any]
@@ -217,12 +218,14 @@ def status_of(guard: engine.Guarded, check: str) -> Status:
 
 
 def plan_of(definition: Json) -> ChartPlan:
-    """The plan the encoder makes, before any check runs."""
+    """The plan the encoder makes (with each measure's colour across the pack), before any check
+    runs."""
     taken = intake(definition)
     _, chart = taken.definition.charts()[0]
     ctx = context_for(taken)
     env = intents.Env(locale=ctx.locale, as_of=ctx.as_of)
-    return intents.ENCODERS[chart.intent].encode(chart, ctx.table, env)
+    slots = colours.pack_slots(c for _, c in taken.definition.charts())
+    return pipeline.plan_for(chart, ctx.table, env, slots)
 
 
 def problems_of(definition: Json | bytes, limits: Limits | None = None) -> list[Problem]:

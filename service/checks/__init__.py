@@ -24,6 +24,7 @@ ORDER = (
     "distribution",
     "time_axis",
     "points",  # reduces long series, so it runs after every check that reads all the points
+    "scale",  # after every check that changes a value axis; before the note saying where it starts
     "scale_note",
     "precision",
     "colour",

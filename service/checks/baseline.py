@@ -27,7 +27,7 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     values = [c.value for c in plan.categories if c.value is not None]
     values += [float(b.count) for b in plan.bins]
     values += [c.target for c in plan.categories if c.target is not None]
-    lo, hi = scales.fit(values, include_zero=True)
+    lo, hi = scales.fit(values, include_zero=True, unit=plan.value_axis.unit)
     axis = plan.value_axis.model_copy(update={"lo": lo, "hi": hi})
     note = truncation_note(plan.baseline or 0.0, axis.unit, plan.locale)
     notes = [n for n in plan.notes if n != note]

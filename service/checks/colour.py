@@ -2,7 +2,8 @@
 out from the white page.
 
 The colours measured are the ones the chart draws its marks with: the plan's palette (the report's
-custom palette), else the house palette, taken in order for as many colour-coded marks as the form has.
+custom palette), else the house palette, at each measure's slot across the pack (``intents.colours``),
+else in order, for as many colour-coded marks as the form has.
 The formulas live in ``service.colour_math``; this module decides what to measure and the
 thresholds. A breach on a custom palette is corrected by drawing with the house palette instead
 (which must itself pass); a mandated brand palette can be kept with a waiver.
@@ -14,6 +15,7 @@ from service import colour_math
 from service import palette as house
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS
+from service.intents import colours
 from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
 from service.intents.plan import ChartPlan, Series
 
@@ -40,12 +42,18 @@ _VISION_WORDS = {
 
 def palette_of(plan: ChartPlan) -> list[str]:
     """The colours marks are drawn with, in order: the plan's palette, else the house palette."""
-    return [c.lower() for c in (plan.palette or house.PALETTE)]
+    return [c.lower() for c in colours.palette_of(plan)]
 
 
-def _series_colours(palette: list[str], series: list[Series]) -> list[str]:
-    """As ``render.basic.draw_series`` colours them: by position, muted series in one grey."""
-    coloured = [palette[i % len(palette)] for i, s in enumerate(series) if not s.muted]
+def _series_colours(plan: ChartPlan, series: list[Series]) -> list[str]:
+    """As ``render.basic.draw_series`` colours them: each its measure's colour across the pack (else
+    by position), muted series in one grey."""
+    actuals = {s.slot for s in series if not s.estimate and s.slot is not None}
+    coloured = [
+        colours.series_colour(plan, s, i).lower()
+        for i, s in enumerate(series)
+        if not s.muted and not (s.estimate and s.slot in actuals)  # its measure's own colour
+    ]
     return coloured + ([house.MUTED.lower()] if any(s.muted for s in series) else [])
 
 
@@ -56,14 +64,13 @@ def colour_groups(plan: ChartPlan) -> list[list[str]]:
     colour of signal points; panels, each panel numbering its series from the first colour; pies, one
     colour per drawn wedge; deviation bars, the first colour above the target and the second below;
     every other form draws its marks in the first colour."""
-    palette = palette_of(plan)
     if plan.form == "panels":
-        return [_series_colours(palette, panel.series) for panel in plan.panels] or [[]]
+        return [_series_colours(plan, panel.series) for panel in plan.panels] or [[]]
     if plan.form in _SERIES_FORMS:
-        colours = _series_colours(palette, plan.series)
+        drawn = _series_colours(plan, plan.series)
         if plan.form == "control" and plan.series and any(v.signal for v in plan.verdicts):
-            colours.append(house.FLAG.lower())
-        return [colours]
+            drawn.append(house.FLAG.lower())
+        return [drawn]
     values = [c.value for c in plan.categories if c.value is not None]
     if plan.form == "pie":
         indexes = list(range(len([v for v in values if v > 0]))) or [0]
@@ -71,7 +78,7 @@ def colour_groups(plan: ChartPlan) -> list[list[str]]:
         indexes = sorted({0 if v >= 0 else 1 for v in values}) or [0]
     else:
         indexes = [0]
-    return [[palette[i % len(palette)] for i in indexes]]
+    return [[colours.mark_colour(plan, i).lower() for i in indexes]]
 
 
 def mark_colours(plan: ChartPlan) -> list[str]:

@@ -5,6 +5,7 @@ from __future__ import annotations
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
 from service.definition.model import OVER_TIME
+from service.intents import partial as off_scale
 from service.intents.plan import ChartPlan, PartialMark
 
 
@@ -32,7 +33,7 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
         )
     fraction = round(done.fraction, 4)
     expected = PartialMark(index=index, text=done.text(), fraction=done.fraction)
-    if plan.partial == expected:
+    if plan.partial is not None and plan.partial.model_copy(update={"off_scale": None}) == expected:
         return Finding(
             True,
             fraction,
@@ -54,7 +55,7 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     mark = (
         None if done is None else PartialMark(index=index, text=done.text(), fraction=done.fraction)
     )
-    return plan.model_copy(update={"partial": mark})
+    return off_scale.mark_off_scale(plan.model_copy(update={"partial": mark}))
 
 
 SPEC = register(

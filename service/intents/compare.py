@@ -130,7 +130,7 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
     label = formatting.titled(chart.measure, unit)
     notes: list[str] = []
     if chart.focus == "differences":
-        lo, hi = scales.fit(present, include_zero=False)
+        lo, hi = scales.fit(present, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
         scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
         if not scale.includes_zero:
             notes.append(scale_note(scale, locale))
@@ -142,7 +142,7 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
             notes=notes,
         )
     base = chart.baseline if chart.baseline is not None else 0.0
-    lo, hi = scales.fit([*present, base], include_zero=base == 0.0)
+    lo, hi = scales.fit([*present, base], include_zero=base == 0.0, unit=unit)
     if base != 0.0:
         lo = base if base > 0 else min(lo, base)
     return ChartPlan(

@@ -217,10 +217,11 @@ def _box_plan(
         groups = [(str(name), values) for name, values in grouped]
     boxes = [box_of(name, _floats(values)) for name, values in groups if len(values)]
     present = [float(v) for v in frame[chart.measure]]
-    lo, hi = scales.fit(present, include_zero=False)
+    unit = table.units.get(chart.measure, "")
+    lo, hi = scales.fit(present, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
     if present and min(present) >= 0.0:
         lo = max(lo, 0.0)  # padding never pushes a measure that cannot be negative below zero
-    scale = Scale(lo=lo, hi=hi, unit=table.units.get(chart.measure, ""), label=label)
+    scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
     if not scale.includes_zero:
         notes = [*notes, scale_note(scale, env.locale)]
     return ChartPlan(

@@ -24,6 +24,7 @@ from service.data import periods
 from service.data.frames import Table
 from service.definition.model import MovementChart
 from service.errors import Problem
+from service.intents import partial as off_scale
 from service.intents import scales
 from service.intents.compare import scale_note
 from service.intents.plan import (
@@ -229,8 +230,9 @@ def problems(chart: MovementChart, table: Table, path: str, limits: Limits) -> I
 
 def fitted_axis(reading: Reading, unit: str, label: str) -> Scale:
     """A value axis that holds every drawn value and every reference line."""
-    present = [v for v in reading.values if v is not None]
-    lo, hi = scales.fit([*present, *(r.value for r in reading.references)], include_zero=False)
+    done, running = off_scale.split(reading.partial, reading.values)
+    references = [r.value for r in reading.references]
+    lo, hi = scales.fit_periods([*done, *references], running, include_zero=False, unit=unit)
     return Scale(lo=lo, hi=hi, unit=unit, label=label)
 
 
@@ -241,7 +243,7 @@ def encode(chart: MovementChart, table: Table, env: Env) -> ChartPlan:
     series = Series(name=chart.measure, unit=unit, values=values, segments=runs(values))
     gaps = [Gap(index=i, series=[chart.measure]) for i, v in enumerate(values) if v is None]
     scale = fitted_axis(reading, unit, formatting.titled(chart.measure, unit))
-    return ChartPlan(
+    plan = ChartPlan(
         **heading(chart, env.locale, table.source),
         form="control",
         value_axis=scale,
@@ -253,6 +255,7 @@ def encode(chart: MovementChart, table: Table, env: Env) -> ChartPlan:
         verdicts=reading.verdicts,
         notes=[] if scale.includes_zero else [scale_note(scale, env.locale)],
     )
+    return off_scale.mark_off_scale(plan)
 
 
 ENCODER = register(Encoder("movement", problems, encode, frozenset({"control"})))

@@ -79,6 +79,9 @@ class Series(Frozen):
     """Estimates or forecasts: drawn dashed and labelled, never joined to actuals."""
     muted: bool = False
     """Drawn in grey, behind the focus series."""
+    slot: int | None = None
+    """The palette colour of this series' measure, the same on every chart of the pack
+    (``intents.colours``); None: by position."""
 
     def positions(self) -> list[int]:
         """The period index of each value."""
@@ -140,6 +143,9 @@ class PartialMark(Frozen):
     index: int
     text: str
     fraction: float
+    off_scale: str | None = None
+    """What the off-scale mark says when a value of this period lies outside its value axis (the
+    complete periods decide the scale): the values and the completeness. None: every value fits."""
 
 
 class Reference(Frozen):
@@ -252,6 +258,9 @@ class ChartPlan(Frozen):
     """Print each value beside its mark (e.g. when the chart alone cannot give the precision)."""
     palette: list[str] = []
     """The colours the marks use, in order; empty means the house palette."""
+    slots: list[int] = []
+    """Palette indexes of the colour-coded marks of forms not drawn as series (the measure's own
+    colour first), so a measure keeps one colour across the pack; empty: by position."""
     guide: str | None = None
     """A one-line reading guide shown beside the chart (box plots, scatter plots)."""
     source: str | None = None

@@ -157,7 +157,7 @@ def encode(chart: RelationshipChart, table: Table, env: Env) -> ChartPlan:
 
 def _scale(values: list[float], name: str, table: Table) -> Scale:
     unit = table.units.get(name, "")
-    lo, hi = scales.fit(values, include_zero=False)
+    lo, hi = scales.fit(values, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
     if values and min(values) >= 0.0:
         lo = max(lo, 0.0)  # padding never pushes a measure that cannot be negative below zero
     return Scale(lo=lo, hi=hi, unit=unit, label=formatting.titled(name, unit))

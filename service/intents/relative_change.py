@@ -25,6 +25,7 @@ from service.data import periods
 from service.data.frames import Table
 from service.definition.model import RelativeChangeChart
 from service.errors import Problem
+from service.intents import partial as off_scale
 from service.intents import scales, timeseries
 from service.intents.compare import scale_note
 from service.intents.plan import (
@@ -205,7 +206,8 @@ def _indexed(
         # Series.unit is how one value is written: an index has none, a change is in %.
         series.append(_series(measure, "%" if percent else "", shown, table))
     unit = f"% change since {base}" if percent else f"index ({base} = 100)"
-    lo, hi = scales.fit([v for s in series for v in s.values if v is not None], include_zero=False)
+    done, running = off_scale.split(fields["partial"], *(s.values for s in series))
+    lo, hi = scales.fit_periods(done, running, include_zero=False, unit=unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=unit)
     level = 0.0 if percent else 100.0
     label = f"{base} = 0%" if percent else f"{base} = 100"
@@ -215,13 +217,15 @@ def _indexed(
     notes = [f"{opening} {why} the change is compared."]
     if not scale.includes_zero:
         notes.append(scale_note(scale, locale))
-    return ChartPlan(
-        **fields,
-        form="lines",
-        value_axis=scale,
-        series=series,
-        references=[Reference(value=level, label=label, kind="centre")],
-        notes=notes + _estimates(chart, table),
+    return off_scale.mark_off_scale(
+        ChartPlan(
+            **fields,
+            form="lines",
+            value_axis=scale,
+            series=series,
+            references=[Reference(value=level, label=label, kind="centre")],
+            notes=notes + _estimates(chart, table),
+        )
     )
 
 
@@ -236,7 +240,8 @@ def _panels(
     panels: list[Panel] = []
     for measure, values in raw.items():
         unit = table.units.get(measure, "")
-        lo, hi = scales.fit([v for v in values if v is not None], include_zero=False)
+        done, running = off_scale.split(fields["partial"], values)
+        lo, hi = scales.fit_periods(done, running, include_zero=False, unit=unit)
         axis = Scale(lo=lo, hi=hi, unit=unit, label=unit or measure)
         notes = [] if axis.includes_zero else [scale_note(axis, fields["locale"])]
         title = formatting.titled(measure, unit)
@@ -245,12 +250,14 @@ def _panels(
     differ = units_text(chart, table)
     lead = f"Units differ ({differ}): each" if differ else "Each"
     note = f"{lead} panel has its own scale, so compare the shape of each line, not heights across panels."
-    return ChartPlan(
-        **fields,
-        form="panels",
-        value_axis=panels[0].value_axis,  # required by the plan; each panel is drawn on its own
-        panels=panels,
-        notes=[note, *_estimates(chart, table)],
+    return off_scale.mark_off_scale(
+        ChartPlan(
+            **fields,
+            form="panels",
+            value_axis=panels[0].value_axis,  # required by the plan; each panel is drawn on its own
+            panels=panels,
+            notes=[note, *_estimates(chart, table)],
+        )
     )
 
 

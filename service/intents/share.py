@@ -195,7 +195,9 @@ def problems(chart: ShareChart, table: Table, path: str, limits: Limits) -> Iter
 
 def bars_axis(categories: list[Category], unit: str, label: str) -> Scale:
     """A zero-based value axis holding every part."""
-    lo, hi = scales.fit([c.value for c in categories if c.value is not None], include_zero=True)
+    lo, hi = scales.fit(
+        [c.value for c in categories if c.value is not None], include_zero=True, unit=unit
+    )
     return Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label)
 
 

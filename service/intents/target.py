@@ -2,8 +2,8 @@
 
 Two forms. ``bars`` draws the actuals as zero-based bars with a short target mark on each bar (a single
 ``target_value`` is also carried as one target reference). ``deviation`` draws the variance, actual
-minus target, as bars from a zero line labelled "on target", on a value axis symmetric about zero so
-that above and below read on the same scale.
+minus target, as bars from a zero line labelled "on target", on a value axis scaled to the variances
+(it always holds zero, but is not made symmetric: room for a side with no bars says nothing).
 
 Categories keep the order of the data in both forms (the data's order is usually the organisation's
 own: regions, teams, budget lines); they are not sorted by variance. A missing actual or target gives
@@ -103,7 +103,7 @@ def _bars(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> ChartP
     unit = table.units.get(chart.actual, "")
     categories = [Category(label=label, value=a, target=t) for label, a, t in rows]
     present = [v for _, a, t in rows for v in (a, t) if v is not None]
-    lo, hi = scales.fit(present, include_zero=True)
+    lo, hi = scales.fit(present, include_zero=True, unit=unit)
     references: list[Reference] = []
     if chart.target_value is not None:
         shown = formatting.with_unit(chart.target_value, unit, env.locale)
@@ -129,8 +129,7 @@ def _deviation(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> C
     unit = table.units.get(chart.actual, "")
     categories = [Category(label=label, value=variance(a, t)) for label, a, t in rows]
     variances = [c.value for c in categories if c.value is not None]
-    lo, hi = scales.fit(variances, include_zero=True)
-    reach = max(abs(lo), abs(hi))
+    lo, hi = scales.fit(variances, include_zero=True, unit=unit)  # to the data, not symmetric
     note = DEVIATION_NOTE
     if chart.target_value is not None:
         shown = formatting.with_unit(chart.target_value, unit, env.locale)
@@ -139,8 +138,8 @@ def _deviation(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> C
         **heading(chart, env.locale, table.source),
         form="deviation",
         value_axis=Scale(
-            lo=-reach,
-            hi=reach,
+            lo=lo,
+            hi=hi,
             unit=unit,
             label=formatting.titled(f"{chart.actual} minus target", unit),
         ),

@@ -18,6 +18,7 @@ from service.data import periods
 from service.data.frames import Table
 from service.definition.model import TrendChart
 from service.errors import Problem
+from service.intents import partial as off_scale
 from service.intents import scales, timeseries
 from service.intents.compare import scale_note
 from service.intents.plan import ChartPlan, PartialMark, Scale, Series, heading
@@ -117,20 +118,20 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     if estimated:
         notes.append(estimates_note(estimated))
     log = chart.scale == "log"
-    measured = [frame[m].to_numpy(dtype=float, na_value=np.nan) for m in chart.measures]
-    if partial is not None:  # a projection has one value, at the partial period
-        measured.append(
-            np.asarray([s.values[partial.index] for s in series[len(measured) :]], dtype=float)
-        )
-    present = timeseries.extremes(np.concatenate(measured), positive=log)
-    lo, hi = scales.fit_log(present) if log else scales.fit(present, include_zero=chart.from_zero)
+    measured = np.vstack([frame[m].to_numpy(dtype=float, na_value=np.nan) for m in chart.measures])
+    running: list[float] = []
+    if partial is not None:  # its actuals and its projections never decide the scale
+        running = [v for s in series if (v := s.values[partial.index]) is not None]
+        measured = measured[:, : partial.index]
+    complete = timeseries.extremes(measured.ravel(), positive=log)
+    lo, hi = scales.fit_periods(complete, running, include_zero=chart.from_zero, unit=unit, log=log)
     label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log)
     if not (scale.includes_zero or log):
         notes.append(scale_note(scale, locale))
     if log:
         notes.append(LOG_NOTE)
-    return ChartPlan(
+    plan = ChartPlan(
         **heading(chart, locale, table.source),
         form="lines",
         value_axis=scale,
@@ -140,6 +141,7 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
         partial=partial,
         notes=notes,
     )
+    return off_scale.mark_off_scale(plan)
 
 
 ENCODER = register(Encoder("trend", problems, encode, frozenset({"lines", "panels"})))

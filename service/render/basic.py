@@ -3,14 +3,17 @@
 from __future__ import annotations
 
 import math
+import textwrap
 from collections.abc import Callable
-from typing import Any
+from typing import Any, cast
 
 from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 from matplotlib.ticker import FixedLocator, NullFormatter
+from matplotlib.transforms import offset_copy
 
 from service import formatting
+from service.intents import colours
 from service.intents.plan import ChartPlan, Scale, Series
 from service.render import common, style
 from service.render.drawer import Drawer, drawer
@@ -22,6 +25,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
     axis = plan.value_axis
     span = axis.hi - axis.lo
     bars: list[tuple[float, float]] = []  # (row, value): drawn in one call, in this order
+    labels: list[tuple[float, str]] = []  # (where a label starts, its text) on the right
     for y, category in zip(rows, plan.categories, strict=True):
         if category.target is not None:
             ax.plot(
@@ -45,6 +49,8 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
             text = f"{category.percent} %  ({text})"
         ends = [category.value, category.hi, category.target]
         top = max(v for v in ends if v is not None)
+        if inside >= 0:
+            labels.append((top + pad, text))
         ax.text(
             top + pad if inside >= 0 else category.value + pad,
             y,
@@ -79,7 +85,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
             parse_math=False,
         )
     common.category_axis(ax, plan, rows)
-    ax.set_xlim(axis.lo, axis.hi + span * 0.08)
+    ax.set_xlim(axis.lo, max(axis.hi + span * 0.08, common.room_for(ax, axis.lo, axis.hi, labels)))
     if axis.lo < 0 < axis.hi:
         ax.axvline(0, color=style.MUTED, linewidth=0.8)
 
@@ -149,7 +155,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
     for number, series in enumerate(series_list):
         base = series.name.removesuffix(" (estimate)")
         index = names.index(base) if series.estimate and base in names else number
-        colour = style.MUTED if series.muted else common.colour(plan, index)
+        colour = style.MUTED if series.muted else colours.series_colour(plan, series, index)
         xs_all = series.xs or list(range(len(series.values)))
         style_kw: dict[str, Any] = {
             "color": colour,
@@ -166,10 +172,12 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             xs = xs_all[first : last + 1]
             ys = [float(v or 0.0) for v in series.values[first : last + 1]]  # no gaps inside
             if first == last and series.estimate:  # a lone estimate: a hollow diamond
+                y, arrow = _on_scale(ys[0], axis)
                 ax.plot(
                     xs,
-                    ys,
-                    marker="D",
+                    [y],
+                    marker=arrow or "D",
+                    clip_on=arrow is None,
                     markersize=5,
                     markerfacecolor="white",
                     markeredgewidth=1.2,
@@ -194,10 +202,17 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         if partial is not None and partial.index in xs_all and not series.estimate:
             value = series.values[xs_all.index(partial.index)]
             if value is not None:
+                y, arrow = _on_scale(value, axis)
+                # arrows of several series at one edge stand side by side, not on top of each other
+                beside = (number - (len(series_list) - 1) / 2) * 7.0 if arrow else 0.0
                 ax.plot(
                     [partial.index],
-                    [value],
-                    marker="o",
+                    [y],
+                    marker=arrow or "o",
+                    clip_on=arrow is None,
+                    transform=offset_copy(
+                        ax.transData, cast(Figure, ax.get_figure()), x=beside, units="points"
+                    ),
                     markersize=6,
                     markerfacecolor="white",
                     markeredgecolor=colour,
@@ -215,6 +230,16 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             name = f"{series.name} (estimate)" if tagged else series.name
             ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
     return ends
+
+
+def _on_scale(value: float, axis: Scale) -> tuple[float, str | None]:
+    """Where a value of the partial period is drawn: at itself when the scale holds it, else at the
+    edge it lies beyond, as an arrow pointing off the scale (the plan's ``off_scale`` says it)."""
+    if value < axis.lo:
+        return axis.lo, "v"
+    if value > axis.hi:
+        return axis.hi, "^"
+    return value, None
 
 
 def draw_references(ax: Axes, plan: ChartPlan) -> None:
@@ -271,6 +296,7 @@ def value_axis(ax: Axes, plan: ChartPlan, axis: Scale) -> None:
     if axis.log:
         ax.set_yscale("log")
     ax.set_ylim(axis.lo, axis.hi)
+    common.value_ticks(ax, axis, "y")
     ax.yaxis.set_major_formatter(common.value_formatter(plan))
     ax.yaxis.set_minor_formatter(NullFormatter())
     ax.grid(axis="y")
@@ -287,7 +313,24 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
         xs = series.xs or list(range(len(series.values)))
         if partial.index in xs and series.values[xs.index(partial.index)] is not None:
             present.append(float(series.values[xs.index(partial.index)] or 0.0))
-    if present:
+    bottom, top = ax.get_ylim()
+    beyond = [v for v in present if not bottom <= v <= top]
+    if partial.off_scale is not None and beyond:
+        above = max(beyond) > top
+        ax.annotate(
+            textwrap.fill(partial.off_scale, 38),
+            xy=(partial.index, 1.0 if above else 0.0),
+            xycoords=("data", "axes fraction"),
+            xytext=(-8, -3 if above else 3),
+            textcoords="offset points",
+            ha="right",
+            va="top" if above else "bottom",
+            fontsize=7,
+            color=style.MUTED,
+            fontstyle="italic",
+            parse_math=False,
+        )
+    elif present:
         ax.annotate(
             f"{plan.periods[partial.index]} so far:\n{partial.text}",
             xy=(partial.index, min(present)),

@@ -16,8 +16,27 @@ from service.intents.plan import ChartPlan
 from service.render import common, style
 from service.render.drawer import drawer
 
-#: Room beside the axis range for the value labels of the longest bars, as a share of the span.
+#: Room beside the axis range for the value labels of the longest bars, as a share of the span
+#: (at least; more where a label is long for the axes' width).
 LABEL_ROOM = 0.14
+
+
+def _rooms(ax: Axes, plan: ChartPlan) -> tuple[float, float]:
+    """Room left and right of the axis range (data units) that holds the longest value label on
+    each side, now that the range ends at the data rather than symmetric about zero."""
+    axis = plan.value_axis
+    span = axis.hi - axis.lo
+    width = ax.get_position().width * ax.get_figure().get_size_inches()[0] * 72  # type: ignore[union-attr]
+    need = [0.0, 0.0]
+    for category in plan.categories:
+        if category.value is not None:
+            side = 0 if category.value < 0 else 1
+            need[side] = max(
+                need[side], len(signed_label(plan, category.value)) * common.CHAR_WIDTH + 4
+            )
+    shares = [min(n / width, 0.3) for n in need]
+    total = span / max(1.0 - sum(shares), 0.4)
+    return max(shares[0] * total, span * LABEL_ROOM), max(shares[1] * total, span * LABEL_ROOM)
 
 
 def signed_label(plan: ChartPlan, value: float) -> str:
@@ -75,7 +94,8 @@ def draw_deviation(ax: Axes, plan: ChartPlan) -> None:
             fontstyle="italic",
             parse_math=False,
         )
-    ax.set_xlim(axis.lo - span * LABEL_ROOM, axis.hi + span * LABEL_ROOM)
+    left, right = _rooms(ax, plan)
+    ax.set_xlim(axis.lo - left, axis.hi + right)
 
 
 @drawer("deviation")

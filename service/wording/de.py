@@ -51,6 +51,33 @@ WORDS: dict[str, str] = {
         "die Tabelle sagt, dass {left_out} ausgelassen wurden."
     ),
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
+    # -- scales (axis ranges, off-scale marks) ------------------------------------------------------
+    "scale.off_scale_below": "{period} bisher ({completeness}): {values}, unterhalb der Skala",
+    "scale.off_scale_above": "{period} bisher ({completeness}): {values}, oberhalb der Skala",
+    "scale.end_ok": "Die Werteachse endet bei der nächsten runden Zahl über den Daten.",
+    "scale.end_high": (
+        "Die Werteachse reicht bis {hi}, einen ganzen Teilstrich oder mehr über den größten "
+        "gezeigten Wert ({top})."
+    ),
+    "scale.end_low": (
+        "Die Werteachse beginnt bei {lo}, einen ganzen Teilstrich oder mehr unter dem kleinsten "
+        "gezeigten Wert ({bottom})."
+    ),
+    "scale.end_percent": (
+        "Die Prozentachse reicht bis {hi}, über 100 % hinaus, obwohl kein Wert über {top} liegt."
+    ),
+    "scale.partial_ok": (
+        "Die vollständigen Zeiträume nutzen {share} % der Diagrammhöhe; die Werte des laufenden "
+        "Zeitraums liegen auf der Skala oder sind außerhalb markiert."
+    ),
+    "scale.partial_squeezed": (
+        "Die vollständigen Zeiträume nutzen nur {share} % der Diagrammhöhe: der laufende Zeitraum "
+        "bestimmt die Skala."
+    ),
+    "scale.partial_unmarked": (
+        "Die vollständigen Zeiträume nutzen {share} % der Diagrammhöhe, aber ein Wert des laufenden "
+        "Zeitraums liegt ohne Markierung außerhalb der Skala."
+    ),
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.same_measure.alone": "Kein anderer Datensatz des Berichts enthält diese Messgröße; es "

@@ -21,7 +21,7 @@ from service.checks.results import CheckResult, Status
 from service.config import Limits
 from tests.quality import pack_quality as quality
 
-MET: frozenset[str] = frozenset()
+MET: frozenset[str] = frozenset({"height_share"})
 """Figures the demo meets today (asserted met)."""
 CEILINGS: dict[str, float] = {
     "raw_identifiers": 22,
@@ -29,7 +29,7 @@ CEILINGS: dict[str, float] = {
     "sparse_pages": 0,
 }
 """Today's numbers of the figures the demo does not meet yet: they may only fall."""
-FLOORS: dict[str, float] = {"height_share": 0.10}
+FLOORS: dict[str, float] = {}
 """The same for figures that must rise (a share)."""
 
 
@@ -117,7 +117,7 @@ def test_the_complete_period_height_share_is_read_from_the_plan() -> None:
     plans = {c.plan.chart_id: c.plan for c in demo_checked().charts}
     journeys = quality.height_share_of(plans["journeys-trend"])
     assert journeys is not None
-    assert journeys < quality.HEIGHT_SHARE  # 5,600–6,250 on an axis of 1,000–7,000
+    assert journeys >= quality.HEIGHT_SHARE  # 5,580–6,240 on 5,500–6,250 (was 1,000–7,000: 11 %)
     boardings = quality.height_share_of(plans["boardings-trend"])
     assert boardings is not None
     assert boardings > quality.HEIGHT_SHARE  # read from zero

@@ -309,7 +309,8 @@ def test_muted_series_and_panels() -> None:
     panels = plan.model_copy(
         update={"form": "panels", "series": [], "panels": [panel(first), panel(second)]}
     )
-    assert colour_check.colour_groups(panels) == [[style.PALETTE[0]], [style.PALETTE[0]]]
+    # each panel draws its measure in that measure's colour across the pack
+    assert colour_check.colour_groups(panels) == [[style.PALETTE[0]], [style.PALETTE[1]]]
     assert measure("colour-distinct", panels) == (True, "one colour")
 
 
