@@ -13,18 +13,17 @@ from __future__ import annotations
 import itertools
 import math
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import DistributionChart, RelationshipChart
 from service.intents import distribution, relationship
 from service.intents.plan import ChartPlan, Fit
 
-#: A guide for a form, when the chart definition cannot supply a fuller one.
+#: A guide for a form (its catalogue key), when the chart definition cannot supply a fuller one.
 GENERIC_GUIDES = {
-    "histogram": "Each bar counts the values between its edges.",
-    "box": distribution.box_guide("measured"),
-    "scatter": "Each dot is one row: further right means more of the horizontal measure, higher "
-    "means more of the vertical one.",
+    "histogram": "text.generic_histogram_guide",
+    "box": "text.generic_box_guide",
+    "scatter": "text.generic_scatter_guide",
 }
 #: Bin widths (and joins) may differ by this share of the histogram's whole range: float dust only.
 BIN_TOLERANCE = 1e-9
@@ -34,12 +33,12 @@ def guide_for(plan: ChartPlan, ctx: Context) -> str:
     chart = ctx.chart
     if plan.form == "histogram" and isinstance(chart, DistributionChart):
         total = sum(b.count for b in plan.bins)
-        return distribution.histogram_guide(chart.measure, total, plan.locale)
+        return distribution.histogram_guide(ctx.table.label(chart.measure), total, plan.locale)
     if plan.form == "box" and isinstance(chart, DistributionChart):
-        return distribution.box_guide(chart.measure)
+        return distribution.box_guide(ctx.table.label(chart.measure), plan.locale)
     if plan.form == "scatter" and isinstance(chart, RelationshipChart):
-        return relationship.guide(chart, plan.fit, plan.locale)
-    return GENERIC_GUIDES[plan.form]
+        return relationship.guide(chart, ctx.table, plan.fit, plan.locale)
+    return wording.say(GENERIC_GUIDES[plan.form], plan.locale)
 
 
 def _guide(plan: ChartPlan, ctx: Context) -> Finding:
@@ -125,7 +124,7 @@ def _refit(plan: ChartPlan, ctx: Context) -> ChartPlan:
     assert isinstance(chart, RelationshipChart)
     fit = relationship.fit_for(chart, ctx.table)
     notes = [n for n in plan.notes if "r²" not in n]
-    guide = relationship.guide(chart, fit, plan.locale)
+    guide = relationship.guide(chart, ctx.table, fit, plan.locale)
     return plan.model_copy(update={"fit": fit, "guide": guide, "notes": notes})
 
 

@@ -68,7 +68,7 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     axis = plan.value_axis
     lines = [r.value for r in reading.references]
     if lines and (min(lines) < axis.lo or max(lines) > axis.hi):
-        wider = movement.fitted_axis(reading, axis.unit, axis.label)
+        wider = movement.fitted_axis(reading, axis.unit, axis.label, axis.style)
         notes = [n for n in plan.notes if n != scale_note(axis, plan.locale)]
         if not wider.includes_zero:
             notes.append(scale_note(wider, plan.locale))

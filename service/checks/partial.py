@@ -31,28 +31,30 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
             False, 1.0, f"{label} was complete at as_of but is drawn as partial.", "complete"
         )
     fraction = round(done.fraction, 4)
-    expected = PartialMark(index=index, text=done.text(), fraction=done.fraction)
+    expected = PartialMark(index=index, text=done.text(ctx.locale), fraction=done.fraction)
     if plan.partial == expected:
         return Finding(
             True,
             fraction,
-            f"{label} had run {done.text()} at as_of: drawn as a "
+            f"{label} had run {done.text(ctx.locale)} at as_of: drawn as a "
             "hollow point, not joined to the line, and labelled, so it does not read "
             "as a fall.",
-            done.text(),
+            done.text(ctx.locale),
         )
     return Finding(
         False,
         fraction,
-        f"{label} had run only {done.text()} at as_of, but is drawn like a complete period.",
-        done.text(),
+        f"{label} had run only {done.text(ctx.locale)} at as_of, but is drawn like a complete period.",
+        done.text(ctx.locale),
     )
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     _, done, index = _last(ctx)
     mark = (
-        None if done is None else PartialMark(index=index, text=done.text(), fraction=done.fraction)
+        None
+        if done is None
+        else PartialMark(index=index, text=done.text(ctx.locale), fraction=done.fraction)
     )
     return plan.model_copy(update={"partial": mark})
 

@@ -123,7 +123,7 @@ def _chosen(plan: ChartPlan, ctx: Context) -> tuple[str, str]:
     """What a relative_change chart draws instead of two y-axes, and why."""
     chart = ctx.chart
     assert isinstance(chart, RelativeChangeChart)
-    differ = relative_change.units_text(chart, ctx.table)
+    differ = relative_change.units_text(chart, ctx.table, ctx.locale)
     why = f"units differ ({differ})" if differ else "only the change is compared"
     if plan.form == "panels":
         return "aligned panels, each with its own scale", why

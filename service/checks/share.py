@@ -233,7 +233,9 @@ def _pie_measure(plan: ChartPlan, ctx: Context) -> Finding:
 
 def _pie_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     categories = share.sorted_parts(plan.categories)
-    axis = share.bars_axis(categories, plan.value_axis.unit, plan.value_axis.label)
+    axis = share.bars_axis(
+        categories, plan.value_axis.unit, plan.value_axis.label, plan.value_axis.style
+    )
     return plan.model_copy(
         update={"form": "bars", "baseline": 0.0, "categories": categories, "value_axis": axis}
     )

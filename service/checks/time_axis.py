@@ -5,7 +5,7 @@ has its place on the x axis, at its index, so a gap keeps its width; every line'
 time order within that axis. Calendar periods are spaced equally: months of 28–31 days take the same
 width (common practice, no source).
 
-``log-scale-noted``: a logarithmic value axis is said on the chart (``trend.LOG_NOTE``), and is never
+``log-scale-noted``: a logarithmic value axis is said on the chart (``trend.log_note``), and is never
 used for marks that encode value by length (bars, deviation, histogram, pie): on a log axis a bar's
 length does not encode its value.
 """
@@ -19,7 +19,7 @@ from service.data import periods
 from service.definition.model import INTENTS, OVER_TIME
 from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
 from service.intents.plan import ChartPlan, Scale, all_series
-from service.intents.trend import LOG_NOTE
+from service.intents.trend import log_note
 
 _TIME_FORMS = frozenset({"lines", "panels", "control"})
 
@@ -122,7 +122,8 @@ def _log_noted(plan: ChartPlan, ctx: Context) -> Finding:
             "does not encode its value. Use a linear axis from zero, or dots or lines.",
             f"log ({plan.form})",
         )
-    unnoted = [name for name, _, notes in logs if LOG_NOTE not in notes]
+    note = log_note(plan.locale)
+    unnoted = [name for name, _, notes in logs if note not in notes]
     if unnoted:
         return Finding(
             False,
@@ -130,15 +131,14 @@ def _log_noted(plan: ChartPlan, ctx: Context) -> Finding:
             f"The {', '.join(unnoted)} is logarithmic, but the chart does not say so.",
             "log, not noted",
         )
-    return Finding(
-        True, "log", f"The scale is logarithmic, and the chart says so: {LOG_NOTE}", "log"
-    )
+    return Finding(True, "log", f"The scale is logarithmic, and the chart says so: {note}", "log")
 
 
 def _add_note(plan: ChartPlan, ctx: Context) -> ChartPlan:
-    if LOG_NOTE in plan.notes:
+    note = log_note(plan.locale)
+    if note in plan.notes:
         return plan
-    return plan.model_copy(update={"notes": [*plan.notes, LOG_NOTE]})
+    return plan.model_copy(update={"notes": [*plan.notes, note]})
 
 
 SPEC_LOG = register(

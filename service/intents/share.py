@@ -34,7 +34,7 @@ from fractions import Fraction
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import ShareChart
@@ -129,7 +129,7 @@ def closest_pair(values: list[float]) -> tuple[float, float] | None:
 
 
 def _pct(share: float, locale: str) -> str:
-    return formatting.number(share, locale, digits=1) + " %"
+    return formatting.percent(share, locale, digits=1)
 
 
 def decimals(values: list[float]) -> int:
@@ -193,10 +193,12 @@ def problems(chart: ShareChart, table: Table, path: str, limits: Limits) -> Iter
         seen.add(expected)
 
 
-def bars_axis(categories: list[Category], unit: str, label: str) -> Scale:
+def bars_axis(
+    categories: list[Category], unit: str, label: str, style: formatting.Style | None = None
+) -> Scale:
     """A zero-based value axis holding every part."""
     lo, hi = scales.fit([c.value for c in categories if c.value is not None], include_zero=True)
-    return Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label)
+    return Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label, style=style)
 
 
 def sorted_parts(categories: list[Category]) -> list[Category]:
@@ -206,14 +208,15 @@ def sorted_parts(categories: list[Category]) -> list[Category]:
     return present + [c for c in categories if c.value is None]
 
 
-def guide_note(values: list[float | None], unit: str, locale: str) -> str | None:
+def guide_note(values: list[float | None], style: formatting.Style, locale: str) -> str | None:
     present = [v for v in values if v is not None]
     if all(p is None for p in percents(values)):
         return None
-    total = formatting.with_unit(
-        math.fsum(present), unit, locale, digits=formatting.decimals_for(present)
+    digits = formatting.decimals_for(present) if style.decimals is None else style.decimals
+    total = formatting.show(
+        math.fsum(present), style.model_copy(update={"decimals": digits}), locale
     )
-    return f"Percentages of the whole ({total}); they sum to 100."
+    return wording.say("text.share_note", locale, total=total)
 
 
 def encode(chart: ShareChart, table: Table, env: Env) -> ChartPlan:
@@ -225,12 +228,15 @@ def encode(chart: ShareChart, table: Table, env: Env) -> ChartPlan:
     ]
     categories = sorted_parts(categories)
     unit = table.units.get(chart.measure, "")
-    note = guide_note(values, unit, env.locale)
+    style = table.style(chart.measure)
+    note = guide_note(values, style, env.locale)
     pie = chart.allow_pie
     return ChartPlan(
         **heading(chart, env.locale, table.source),
         form="pie" if pie else "bars",
-        value_axis=bars_axis(categories, unit, formatting.titled(chart.measure, unit)),
+        value_axis=bars_axis(
+            categories, unit, formatting.titled(table.label(chart.measure), unit), style
+        ),
         baseline=None if pie else 0.0,
         categories=categories,
         palette=list(env.palette or []),

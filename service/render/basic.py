@@ -42,7 +42,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
         pad = span * 0.008 * (1 if inside >= 0 else -1)
         text = common.value_label(plan, category.value)
         if category.percent is not None:
-            text = f"{category.percent} %  ({text})"
+            text = f"{formatting.percent(category.percent, plan.locale)} ({text})"
         ends = [category.value, category.hi, category.target]
         top = max(v for v in ends if v is not None)
         ax.text(

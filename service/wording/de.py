@@ -6,6 +6,146 @@ WORDS: dict[str, str] = {
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
     # -- tables ------------------------------------------------------------------------------------
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
+    "text.no_data": "keine Daten",
+    "text.pp_long": "{value} Prozentpunkte",
+    "text.pp_short": "{value} Pp.",
+    "text.days_of_one": "{elapsed} von {total} Tag",
+    "text.days_of": "{elapsed} von {total} Tagen",
+    "text.estimate_of": "{name} (Schätzung)",
+    "text.estimates_note": "Schätzungen, keine Istwerte (gestrichelt): {names}.",
+    "text.no_projection": "Keine Hochrechnung: Der letzte Zeitraum war zum Datenstand abgeschlossen.",
+    "text.log_note": (
+        "Logarithmische Skala: Gleiche Abstände zeigen gleiche Verhältnisse, nicht gleiche Differenzen."
+    ),
+    "text.scale_note": (
+        "Die Skala beginnt bei {start}, nicht bei null: Positionen vergleichen, nicht Längen."
+    ),
+    "text.truncation_note": (
+        "Die Balken beginnen bei {start}, nicht bei null: Ihre Längen übertreiben die Unterschiede."
+    ),
+    "text.and": "{first} und {last}",
+    "text.row": "Zeile",
+    "text.scatter_guide": (
+        "Jeder Punkt ist eine Einheit „{what}“: Weiter rechts heißt mehr {x}, weiter oben mehr {y}."
+    ),
+    "text.fit_guide": (
+        "Die Linie ist die Ausgleichsgerade nach der Methode der kleinsten Quadrate ({r2}: Sie erklärt "
+        "{share} der Streuung von {y}); sie zeigt einen Zusammenhang, keine Ursache."
+    ),
+    "text.dropped_one": "1 Zeile ohne beide Werte wird nicht gezeigt.",
+    "text.dropped": "{count} Zeilen ohne beide Werte werden nicht gezeigt.",
+    "text.horizontal_scale_note": (
+        "Die waagerechte Skala beginnt bei {start}, nicht bei null: Positionen vergleichen, nicht "
+        "Längen."
+    ),
+    "text.histogram_guide": "Jeder Balken zählt die Werte von {name} zwischen seinen Grenzen.",
+    "text.values_in_all": "Insgesamt {count} Werte.",
+    "text.box_guide": (
+        "Die Box umfasst die mittlere Hälfte der Werte von {name} (von Q1 bis Q3); die Linie darin ist "
+        "der Median; die Antennen reichen bis zu den äußersten Werten innerhalb von 1,5 Boxlängen; "
+        "Punkte sind Werte darüber hinaus."
+    ),
+    "text.missing_value_one": "1 Zeile hat keinen Wert für {name}: weggelassen, nicht als null gezählt.",
+    "text.missing_values": (
+        "{count} Zeilen haben keinen Wert für {name}: weggelassen, nicht als null gezählt."
+    ),
+    "text.observations": "Beobachtungen",
+    "text.count_axis": "Anzahl der Werte",
+    "text.all": "Alle",
+    "text.generic_histogram_guide": "Jeder Balken zählt die Werte zwischen seinen Grenzen.",
+    "text.generic_box_guide": (
+        "Die Box umfasst die mittlere Hälfte der Werte (von Q1 bis Q3); die Linie darin ist der "
+        "Median; die Antennen reichen bis zu den äußersten Werten innerhalb von 1,5 Boxlängen; Punkte "
+        "sind Werte darüber hinaus."
+    ),
+    "text.generic_scatter_guide": (
+        "Jeder Punkt ist eine Zeile: Weiter rechts heißt mehr vom waagerechten Maß, weiter oben mehr "
+        "vom senkrechten."
+    ),
+    "text.share_note": "Prozentanteile am Ganzen ({total}); sie ergeben zusammen 100.",
+    "text.target_line": "Ziel {value}",
+    "text.no_target": "Kein Ziel angegeben für: {names}.",
+    "text.deviation_note": "Die Balken zeigen Ist minus Ziel.",
+    "text.one_target": "Das Ziel ist {value} für jede Kategorie.",
+    "text.minus_target": "{name} minus Ziel",
+    "text.pp_unit": "Prozentpunkte",
+    "text.on_target": "im Ziel",
+    "text.rule1_above": "Regel 1: jenseits der oberen Grenze",
+    "text.rule1_below": "Regel 1: jenseits der unteren Grenze",
+    "text.rule2_above": "Regel 2: 2 von 3 mehr als 2 Sigma darüber",
+    "text.rule2_below": "Regel 2: 2 von 3 mehr als 2 Sigma darunter",
+    "text.rule3_above": "Regel 3: 4 von 5 mehr als 1 Sigma darüber",
+    "text.rule3_below": "Regel 3: 4 von 5 mehr als 1 Sigma darunter",
+    "text.rule4_above": "Regel 4: {run} in Folge über der Mittellinie",
+    "text.rule4_below": "Regel 4: {run} in Folge unter der Mittellinie",
+    "text.too_little_history": "Zu wenig Verlauf für ein Urteil ({count} von {needed} Punkten)",
+    "text.centre_line": "Mittellinie {value}",
+    "text.upper_limit": "obere natürliche Prozessgrenze {value}",
+    "text.lower_limit": "untere natürliche Prozessgrenze {value}",
+    "text.limits_band": "Grenzen {lo} bis {hi}; Grenze der gleitenden Spannweite {range}",
+    "text.no_change_to_judge": "Keine Veränderung zu beurteilen für {period} (kein Wert im Zeitraum davor)",
+    "text.latest_change": "Letzte Veränderung {change} ({before} bis {after})",
+    "text.range_beyond": "gleitende Spannweite jenseits ihrer Grenze",
+    "text.signal_verdict": "{opening}: Signal ({why}; {band})",
+    "text.routine_verdict": "{opening}: im Rahmen der üblichen Schwankung ({band})",
+    "text.signal_rule": "{period}: Signal (Regel {rules})",
+    "text.signal_rules": "{period}: Signal (Regeln {rules})",
+    "text.measure_in_unit": "{name} in {unit}",
+    "text.change_since": "Veränderung in % seit {base}",
+    "text.index_unit": "Index ({base} = 100)",
+    "text.base_line": "{base} = {value}",
+    "text.change_opening": "Veränderung seit {base}, in %.",
+    "text.index_opening": "Indexiert: {base} = 100.",
+    "text.units_differ_only": (
+        "Die Einheiten unterscheiden sich ({differ}), daher wird nur die Veränderung verglichen."
+    ),
+    "text.only_change": "Nur die Veränderung wird verglichen.",
+    "text.panels_units_differ": (
+        "Die Einheiten unterscheiden sich ({differ}): Jedes Feld hat eine eigene Skala, also die Form "
+        "jeder Linie vergleichen, nicht die Höhen über Felder hinweg."
+    ),
+    "text.panels_note": (
+        "Jedes Feld hat eine eigene Skala, also die Form jeder Linie vergleichen, nicht die Höhen über "
+        "Felder hinweg."
+    ),
+    "text.form_bars": "Balkendiagramm",
+    "text.form_dots": "Punktdiagramm",
+    "text.form_deviation": "Diagramm der Abweichungen vom Ziel",
+    "text.form_pie": "Kreisdiagramm",
+    "text.form_lines": "Liniendiagramm",
+    "text.form_control": "Diagramm der Werte mit ihren natürlichen Prozessgrenzen",
+    "text.form_panels": "Ausgerichtete Felder",
+    "text.form_histogram": "Histogramm",
+    "text.form_box": "Boxplot",
+    "text.form_scatter": "Streudiagramm",
+    "text.opening": "{form}: {title}",
+    "text.one_category": "{count} Kategorie",
+    "text.categories": "{count} Kategorien",
+    "text.highest": "am höchsten {name} ({value})",
+    "text.lowest": "am niedrigsten {name} ({value})",
+    "text.no_data_for": "keine Daten für {names}",
+    "text.no_data_for_more": "keine Daten für {names} und weitere",
+    "text.one_period": "nur {period}",
+    "text.period_range": "{first} bis {last}",
+    "text.series_one": "{name} {value} ({period})",
+    "text.series_from_to": "{name} von {first} ({first_period}) bis {last} ({last_period})",
+    "text.partial_period": "{period} ist unvollständig ({done})",
+    "text.bins": (
+        "{total} Werte, in Klassen von {lo} bis {hi}; die vollste Klasse ist {top_lo} bis {top_hi} "
+        "({count})"
+    ),
+    "text.box": "{name}: Median {median}, mittlere Hälfte {q1} bis {q3} (n = {n})",
+    "text.points": "{count} Punkte",
+    "text.points_fit": "{count} Punkte; r² = {r2}",
+    "text.corrected_by": "Von den Prüfungen korrigiert: {checks}.",
+    "text.failed_checks": "Nicht bestandene Prüfungen: {checks}.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
+    "finding.estimate_series": "{count} Schätzreihen",
+    "finding.estimates_ok": (
+        "Gestrichelt gezeichnet, beschriftet und aufgeführt: {names}; nie mit den Istwerten verbunden."
+    ),
+    "finding.estimates_unmarked": "Schätzungen nicht als Schätzungen gezeichnet: {names}.",
+    "finding.estimates_unlisted": "Schätzungen nicht auf dem Diagramm aufgeführt.",
+    "finding.actuals_only": "Das Diagramm zeigt nur Istwerte.",
 }

@@ -6,6 +6,127 @@ WORDS: dict[str, str] = {
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
     # -- tables ------------------------------------------------------------------------------------
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
+    "text.no_data": "no data",
+    "text.pp_long": "{value} percentage points",
+    "text.pp_short": "{value} pp",
+    "text.days_of_one": "{elapsed} of {total} day",
+    "text.days_of": "{elapsed} of {total} days",
+    "text.estimate_of": "{name} (estimate)",
+    "text.estimates_note": "Estimates, not actuals (dashed): {names}.",
+    "text.no_projection": "No projection: the last period was complete at the time of the data.",
+    "text.log_note": "Logarithmic scale: equal distances show equal ratios, not equal differences.",
+    "text.scale_note": "Scale starts at {start}, not zero: compare positions, not lengths.",
+    "text.truncation_note": "Bars start at {start}, not zero: their lengths exaggerate the differences.",
+    "text.and": "{first} and {last}",
+    "text.row": "row",
+    "text.scatter_guide": "Each dot is one {what}: further right means more {x}, higher means more {y}.",
+    "text.fit_guide": (
+        "The line is the least-squares fit ({r2}: the line accounts for {share} of the variation in "
+        "{y}); it shows association, not cause."
+    ),
+    "text.dropped_one": "1 row without both values is not shown.",
+    "text.dropped": "{count} rows without both values are not shown.",
+    "text.horizontal_scale_note": (
+        "Horizontal scale starts at {start}, not zero: compare positions, not lengths."
+    ),
+    "text.histogram_guide": "Each bar counts the {name} values between its edges.",
+    "text.values_in_all": "{count} values in all.",
+    "text.box_guide": (
+        "The box holds the middle half of the {name} values (from Q1 to Q3); the line inside is the "
+        "median; whiskers reach the furthest values within 1.5 box-lengths; dots are values beyond."
+    ),
+    "text.missing_value_one": "1 row has no {name} value: left out, not counted as zero.",
+    "text.missing_values": "{count} rows have no {name} value: left out, not counted as zero.",
+    "text.observations": "observations",
+    "text.count_axis": "Number of values",
+    "text.all": "All",
+    "text.generic_histogram_guide": "Each bar counts the values between its edges.",
+    "text.generic_box_guide": (
+        "The box holds the middle half of the values (from Q1 to Q3); the line inside is the median; "
+        "whiskers reach the furthest values within 1.5 box-lengths; dots are values beyond."
+    ),
+    "text.generic_scatter_guide": (
+        "Each dot is one row: further right means more of the horizontal measure, higher means more of "
+        "the vertical one."
+    ),
+    "text.share_note": "Percentages of the whole ({total}); they sum to 100.",
+    "text.target_line": "target {value}",
+    "text.no_target": "No target given for: {names}.",
+    "text.deviation_note": "Bars show actual minus target.",
+    "text.one_target": "The target is {value} for every category.",
+    "text.minus_target": "{name} minus target",
+    "text.pp_unit": "percentage points",
+    "text.on_target": "on target",
+    "text.rule1_above": "rule 1: beyond the upper limit",
+    "text.rule1_below": "rule 1: beyond the lower limit",
+    "text.rule2_above": "rule 2: 2 of 3 beyond 2 sigma above",
+    "text.rule2_below": "rule 2: 2 of 3 beyond 2 sigma below",
+    "text.rule3_above": "rule 3: 4 of 5 beyond 1 sigma above",
+    "text.rule3_below": "rule 3: 4 of 5 beyond 1 sigma below",
+    "text.rule4_above": "rule 4: {run} in a row above the centre line",
+    "text.rule4_below": "rule 4: {run} in a row below the centre line",
+    "text.too_little_history": "Too little history for a verdict ({count} of {needed} points)",
+    "text.centre_line": "centre line {value}",
+    "text.upper_limit": "upper natural process limit {value}",
+    "text.lower_limit": "lower natural process limit {value}",
+    "text.limits_band": "limits {lo} to {hi}; moving-range limit {range}",
+    "text.no_change_to_judge": "No change to judge for {period} (no value the period before)",
+    "text.latest_change": "Latest change {change} ({before} to {after})",
+    "text.range_beyond": "moving range beyond its limit",
+    "text.signal_verdict": "{opening}: signal ({why}; {band})",
+    "text.routine_verdict": "{opening}: within routine variation ({band})",
+    "text.signal_rule": "{period}: signal (rule {rules})",
+    "text.signal_rules": "{period}: signal (rules {rules})",
+    "text.measure_in_unit": "{name} in {unit}",
+    "text.change_since": "% change since {base}",
+    "text.index_unit": "index ({base} = 100)",
+    "text.base_line": "{base} = {value}",
+    "text.change_opening": "Change since {base}, in %.",
+    "text.index_opening": "Indexed: {base} = 100.",
+    "text.units_differ_only": "Units differ ({differ}), so only the change is compared.",
+    "text.only_change": "Only the change is compared.",
+    "text.panels_units_differ": (
+        "Units differ ({differ}): each panel has its own scale, so compare the shape of each line, not "
+        "heights across panels."
+    ),
+    "text.panels_note": (
+        "Each panel has its own scale, so compare the shape of each line, not heights across panels."
+    ),
+    "text.form_bars": "Bar chart",
+    "text.form_dots": "Dot chart",
+    "text.form_deviation": "Chart of differences from target",
+    "text.form_pie": "Pie chart",
+    "text.form_lines": "Line chart",
+    "text.form_control": "Chart of values against their natural process limits",
+    "text.form_panels": "Aligned panels",
+    "text.form_histogram": "Histogram",
+    "text.form_box": "Box plot",
+    "text.form_scatter": "Scatter plot",
+    "text.opening": "{form}: {title}",
+    "text.one_category": "{count} category",
+    "text.categories": "{count} categories",
+    "text.highest": "highest {name} ({value})",
+    "text.lowest": "lowest {name} ({value})",
+    "text.no_data_for": "no data for {names}",
+    "text.no_data_for_more": "no data for {names} and more",
+    "text.one_period": "{period} only",
+    "text.period_range": "{first} to {last}",
+    "text.series_one": "{name} {value} ({period})",
+    "text.series_from_to": "{name} from {first} ({first_period}) to {last} ({last_period})",
+    "text.partial_period": "{period} is partial ({done})",
+    "text.bins": (
+        "{total} values, in bins from {lo} to {hi}; the fullest bin is {top_lo} to {top_hi} ({count})"
+    ),
+    "text.box": "{name}: median {median}, middle half {q1} to {q3} (n = {n})",
+    "text.points": "{count} points",
+    "text.points_fit": "{count} points; r² = {r2}",
+    "text.corrected_by": "Corrected by the checks: {checks}.",
+    "text.failed_checks": "Failed checks: {checks}.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
+    "finding.estimate_series": "{count} estimate series",
+    "finding.estimates_ok": "Drawn dashed, labelled and listed: {names}; never joined to the actuals.",
+    "finding.estimates_unmarked": "Estimates not drawn as estimates: {names}.",
+    "finding.estimates_unlisted": "Estimates not listed on the chart.",
+    "finding.actuals_only": "The chart shows actuals only.",
 }

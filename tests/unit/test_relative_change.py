@@ -171,7 +171,7 @@ def test_panels_each_have_their_own_axis_fitted_to_their_measure() -> None:
     assert plan.form == "panels"
     assert plan.series == []
     cost, cases = plan.panels
-    assert (cost.title, cases.title) == ("cost (GBP)", "cases")
+    assert (cost.title, cases.title) == ("Cost (GBP)", "Cases")
     assert [s.values for s in cost.series] == [[200.0, 250.0]]
     assert [s.values for s in cases.series] == [[40.0, 44.0]]
     assert (cost.value_axis.unit, cases.value_axis.unit) == ("GBP", "cases")
@@ -216,7 +216,7 @@ def test_a_measure_declared_as_estimates_is_drawn_and_listed_as_such(form: str) 
     plan = only_chart(checked).plan
     drawn = plan.series or [s for p in plan.panels for s in p.series]
     assert [s.estimate for s in drawn] == [False, True]
-    assert "Estimates, not actuals (dashed or hollow): cases." in plan.notes
+    assert "Estimates, not actuals (dashed): Cases." in plan.notes
 
 
 # --- drawing ---------------------------------------------------------------------------------------

@@ -77,7 +77,7 @@ def test_rounded_parts_within_tolerance_pass() -> None:
     found = result_of(run_checks(share_definition(THIRDS, whole=100)), "parts-sum-to-whole")
     assert found.status is Status.passed
     assert found.measured == pytest.approx(-0.1)
-    assert found.measured_text == "99.9 GBP against 100.0 GBP"
+    assert found.measured_text == "£99.9 against £100.0"
 
 
 def test_no_whole_stated_passes() -> None:
@@ -90,7 +90,7 @@ def test_parts_missing_the_whole_fail_and_flag_the_chart() -> None:
     checked = run_checks(share_definition({"A": 33.3, "B": 33.3, "C": 33.0}, whole=100))
     found = result_of(checked, "parts-sum-to-whole")
     assert found.status is Status.failed
-    assert "0.4 GBP apart" in found.explanation
+    assert "£0.40 apart" in found.explanation
     assert only_chart(checked).plan.flags[0].startswith("parts-sum-to-whole: ")
 
 
@@ -115,7 +115,7 @@ def test_a_negative_part_fails() -> None:
         1,
         "1 negative",
     )
-    assert "B (-2 GBP)" in found.explanation
+    assert "B (\u2212£2)" in found.explanation
     plan = only_chart(checked).plan
     assert all(c.percent is None for c in plan.categories)  # no shares of a broken whole
     assert result_of(checked, "shares-sum-to-100").status is Status.passed
@@ -216,7 +216,7 @@ def test_parts_a_point_apart_are_drawn_as_bars() -> None:
     found = result_of(checked, "pie-readable")
     assert found.status is Status.corrected
     assert found.measured_text == "3 parts, closest 1.0 points apart (×1.03)"
-    assert "30.0 % and 31.0 % differ by 1.0 points and ×1.03" in found.explanation
+    assert "30.0% and 31.0% differ by 1.0 points and ×1.03" in found.explanation
     plan = only_chart(checked).plan
     assert plan.form == "bars"
     assert [c.label for c in plan.categories] == ["C", "B", "A"]
