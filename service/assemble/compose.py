@@ -16,7 +16,7 @@ from collections.abc import Mapping
 import pandas as pd
 import pikepdf
 
-from service import formatting
+from service import formatting, wording
 from service.assemble import pack, place
 from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock, TableBlock
 from service.checks import registry
@@ -124,7 +124,7 @@ def _appendix_row(result: CheckResult, locale: str) -> AppendixRow:
 
 def _table_block(spec: TableSpec, table: Table, locale: str) -> TableBlock:
     names = spec.columns or list(table.frame.columns)
-    header = [formatting.titled(n, table.units.get(n)) for n in names]
+    header = [formatting.titled(table.label(n), table.units.get(n)) for n in names]
     numeric = [table.types.get(n) in (ColumnType.number, ColumnType.integer) for n in names]
     rows: list[list[str]] = []
     frame = table.frame
@@ -139,9 +139,11 @@ def _table_block(spec: TableSpec, table: Table, locale: str) -> TableBlock:
 def _cell(value: object, table: Table, name: str, row: int, locale: str) -> str:
     kind = table.types.get(name)
     if value is None or (isinstance(value, float) and math.isnan(value)) or value is pd.NaT:
-        return "no data"
+        return wording.say("text.no_data", locale)
     if kind in (ColumnType.number, ColumnType.integer):
-        return formatting.number(float(value), locale)  # type: ignore[arg-type]
+        style = table.style(name)  # the unit is in the header
+        number = float(value)  # type: ignore[arg-type]
+        return formatting.number(number, locale, digits=style.decimals, grouping=style.grouping)
     if name == table.time_column and table.periods is not None and table.frequency is not None:
         return periods.label(table.periods[row], table.frequency, locale)
     if kind is ColumnType.date and isinstance(value, pd.Timestamp):

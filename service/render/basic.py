@@ -10,8 +10,8 @@ from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 from matplotlib.ticker import FixedLocator, NullFormatter
 
-from service import formatting
-from service.intents.plan import ChartPlan, Scale, Series
+from service import formatting, wording
+from service.intents.plan import ChartPlan, Scale, Series, all_series
 from service.render import common, style
 from service.render.drawer import Drawer, drawer
 
@@ -212,8 +212,10 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         ]
         if complete and (len(series_list) > 1 or series.estimate):
             tagged = series.estimate and "estimate" not in series.name
-            name = f"{series.name} (estimate)" if tagged else series.name
-            ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
+            name = wording.say("text.estimate_of", plan.locale, name=series.title)
+            ends.append(
+                (name if tagged else series.title, complete[-1][0], float(complete[-1][1]), colour)
+            )
     return ends
 
 
@@ -240,7 +242,10 @@ def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None
     for gap in plan.gaps:
         ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0, zorder=0)
         everyone = len(gap.series) >= series_count
-        text = "no data" if everyone else "no data: " + ", ".join(gap.series)
+        titles = {s.name: s.title for s in all_series(plan)}
+        text = wording.say("text.no_data", plan.locale)
+        if not everyone:
+            text += ": " + ", ".join(titles.get(n, n) for n in gap.series)
         ax.text(
             gap.index,
             middle,
@@ -289,7 +294,9 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
             present.append(float(series.values[xs.index(partial.index)] or 0.0))
     if present:
         ax.annotate(
-            f"{plan.periods[partial.index]} so far:\n{partial.text}",
+            wording.say(
+                "text.so_far", plan.locale, period=plan.periods[partial.index], done=partial.text
+            ),
             xy=(partial.index, min(present)),
             xytext=(-8, 0),
             textcoords="offset points",

@@ -139,6 +139,7 @@ WORDS: dict[str, str] = {
     "text.points_fit": "{count} Punkte; r² = {r2}",
     "text.corrected_by": "Von den Prüfungen korrigiert: {checks}.",
     "text.failed_checks": "Nicht bestandene Prüfungen: {checks}.",
+    "text.so_far": "{period} bisher:\n{done}",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} Schätzreihen",

@@ -122,6 +122,7 @@ WORDS: dict[str, str] = {
     "text.points_fit": "{count} points; r² = {r2}",
     "text.corrected_by": "Corrected by the checks: {checks}.",
     "text.failed_checks": "Failed checks: {checks}.",
+    "text.so_far": "{period} so far:\n{done}",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} estimate series",
