@@ -149,4 +149,16 @@ WORDS: dict[str, str] = {
     "finding.estimates_unmarked": "Schätzungen nicht als Schätzungen gezeichnet: {names}.",
     "finding.estimates_unlisted": "Schätzungen nicht auf dem Diagramm aufgeführt.",
     "finding.actuals_only": "Das Diagramm zeigt nur Istwerte.",
+    "finding.last_complete": "Der letzte Zeitraum, {period}, war zum Datenstand abgeschlossen.",
+    "finding.complete_drawn_partial": (
+        "{period} war zum Datenstand abgeschlossen, ist aber als unvollständig gezeichnet."
+    ),
+    "finding.partial_drawn": (
+        "{period} war zum Datenstand {done} alt: als hohler Punkt gezeichnet, nicht mit der Linie "
+        "verbunden und beschriftet, damit er nicht als Einbruch gelesen wird."
+    ),
+    "finding.partial_not_drawn": (
+        "{period} war zum Datenstand erst {done} alt, ist aber wie ein vollständiger Zeitraum "
+        "gezeichnet."
+    ),
 }

@@ -130,4 +130,15 @@ WORDS: dict[str, str] = {
     "finding.estimates_unmarked": "Estimates not drawn as estimates: {names}.",
     "finding.estimates_unlisted": "Estimates not listed on the chart.",
     "finding.actuals_only": "The chart shows actuals only.",
+    "finding.last_complete": "The last period, {period}, was complete at the time of the data.",
+    "finding.complete_drawn_partial": (
+        "{period} was complete at the time of the data but is drawn as partial."
+    ),
+    "finding.partial_drawn": (
+        "{period} had run {done} at the time of the data: drawn as a hollow point, not joined to the "
+        "line, and labelled, so it does not read as a fall."
+    ),
+    "finding.partial_not_drawn": (
+        "{period} had run only {done} at the time of the data, but is drawn like a complete period."
+    ),
 }
