@@ -93,20 +93,25 @@ def pie_problem(values: list[float], locale: str = "en-GB") -> str | None:
     every part that lies between them in size.
     """
     if len(values) > MAX_PIE_PARTS:
-        return f"{len(values)} parts, more than {MAX_PIE_PARTS}"
+        return wording.say("finding.pie_too_many", locale, count=len(values), most=MAX_PIE_PARTS)
     if not values:
-        return "no part has a value"
+        return wording.say("finding.pie_no_value", locale)
     if any(v <= 0 for v in values):
-        return "a part of zero or less has no wedge"
+        return wording.say("finding.pie_zero_part", locale)
     pair = closest_pair(values)
     if pair is not None:
         small, large = pair
         points, ratio = large - small, large / small
         if points < MIN_PIE_POINTS and ratio < MIN_PIE_RATIO:
-            return (
-                f"{_pct(small, locale)} and {_pct(large, locale)} differ by "
-                f"{formatting.number(points, locale, digits=1)} "
-                f"points and ×{ratio:.2f}, under {MIN_PIE_POINTS:g} points and ×{MIN_PIE_RATIO}"
+            return wording.say(
+                "finding.pie_too_close",
+                locale,
+                small=_pct(small, locale),
+                large=_pct(large, locale),
+                points=formatting.points(points, locale, digits=1),
+                ratio=formatting.number(ratio, locale, digits=2),
+                min_points=formatting.points(MIN_PIE_POINTS, locale),
+                min_ratio=formatting.number(MIN_PIE_RATIO, locale),
             )
     return None
 
