@@ -164,32 +164,88 @@ WORDS: dict[str, str] = {
     "finding.pie_too_many": "{count} Teile, mehr als {most}",
     "finding.pie_no_value": "kein Teil hat einen Wert",
     "finding.pie_zero_part": "ein Teil von null oder weniger hat kein Segment",
-    "finding.pie_too_close": "{small} und {large} unterscheiden sich um {points} und ×{ratio}, weniger als {min_points} und ×{min_ratio}",
+    "finding.pie_too_close": (
+        "{small} und {large} unterscheiden sich um {points} und ×{ratio}, weniger als {min_points} und "
+        "×{min_ratio}"
+    ),
     "finding.no_whole": "Kein Ganzes angegeben: Die Anteile beziehen sich auf die Summe der Teile, {sum}.",
     "finding.against": "{value} gegenüber {other}",
-    "finding.sum_within": "Die Teile ergeben {sum}, innerhalb von {allowed} des angegebenen Ganzen {whole}.",
-    "finding.sum_apart": "Die Teile ergeben {sum}, das angegebene Ganze ist aber {whole}: {apart} Abstand, mehr als die Toleranz von {allowed}. Die Daten oder das angegebene Ganze korrigieren.",
+    "finding.sum_within": (
+        "Die Teile ergeben {sum}, innerhalb von {allowed} des angegebenen Ganzen {whole}."
+    ),
+    "finding.sum_apart": (
+        "Die Teile ergeben {sum}, das angegebene Ganze ist aber {whole}: {apart} Abstand, mehr als die "
+        "Toleranz von {allowed}. Die Daten oder das angegebene Ganze korrigieren."
+    ),
     "finding.no_negative": "Kein Teil ist negativ.",
-    "finding.negative_one": "{count} Teil ist negativ: {listed}. Ein Teil eines Ganzen kann nicht weniger als nichts sein; stattdessen als Veränderung zeigen (ein Vergleichsdiagramm).",
-    "finding.negative": "{count} Teile sind negativ: {listed}. Ein Teil eines Ganzen kann nicht weniger als nichts sein; stattdessen als Veränderung zeigen (ein Vergleichsdiagramm).",
+    "finding.negative_one": (
+        "{count} Teil ist negativ: {listed}. Ein Teil eines Ganzen kann nicht weniger als nichts sein; "
+        "stattdessen als Veränderung zeigen (ein Vergleichsdiagramm)."
+    ),
+    "finding.negative": (
+        "{count} Teile sind negativ: {listed}. Ein Teil eines Ganzen kann nicht weniger als nichts "
+        "sein; stattdessen als Veränderung zeigen (ein Vergleichsdiagramm)."
+    ),
     "finding.count_negative": "{count} negativ",
     "finding.parts_absent": "{count} von {total} erwarteten Teilen fehlen in den Daten: {names}.",
     "finding.parts_not_shown": "{count} von {total} nicht gezeigt",
     "finding.none_listed": "keine aufgeführt",
     "finding.no_expected": "Es sind keine erwarteten Teile aufgeführt.",
-    "finding.parts_shown_flagged": "Alle {total} erwarteten Teile werden gezeigt ({names} als „erwartet, keine Daten“).",
+    "finding.parts_shown_flagged": (
+        "Alle {total} erwarteten Teile werden gezeigt ({names} als „erwartet, keine Daten“)."
+    ),
     "finding.parts_shown": "Alle {total} erwarteten Teile werden gezeigt.",
     "finding.all_shown": "alle gezeigt",
     "finding.no_labels": "keine Beschriftungen",
     "finding.sum_of": "Summe {value}",
-    "finding.labels_missing": "Es werden keine Prozentbeschriftungen gezeigt; {names} tragen nicht den Anteil nach größtem Rest.",
-    "finding.labels_wrong": "Die Beschriftungen ergeben {total}; {names} tragen nicht den Anteil nach größtem Rest.",
+    "finding.labels_missing": (
+        "Es werden keine Prozentbeschriftungen gezeigt; {names} tragen nicht den Anteil nach größtem "
+        "Rest."
+    ),
+    "finding.labels_wrong": (
+        "Die Beschriftungen ergeben {total}; {names} tragen nicht den Anteil nach größtem Rest."
+    ),
     "finding.no_shares": "Es werden keine Prozente gezeigt: Die Teile haben keine Anteile.",
-    "finding.labels_ok": "Die Prozentbeschriftungen ergeben 100 (größter Rest; bei gleichen Resten erhält der in den Daten erste Teil den Vorzug).",
+    "finding.labels_ok": (
+        "Die Prozentbeschriftungen ergeben 100 (größter Rest; bei gleichen Resten erhält der in den "
+        "Daten erste Teil den Vorzug)."
+    ),
     "finding.parts": "{count} Teile",
     "finding.parts_closest": "{count} Teile, am engsten {points} auseinander (×{ratio})",
     "finding.bars_measured": "Balken; {shown}",
     "finding.as_bars": "Als Balken gezeichnet: {shown}.",
     "finding.pie_ok": "Das Kreisdiagramm ist lesbar: {shown}, jedes Paar unterscheidbar.",
     "finding.pie_bad": "Ein Kreisdiagramm dieser Teile ist nicht lesbar: {problem}.",
+    "finding.bars_from_zero": "Die Balken beginnen bei null.",
+    "finding.bars_asked_from": (
+        "Die Definition verlangte Balken ab {start}; ihre Längen würden die Unterschiede übertreiben."
+    ),
+    "finding.starts_at": "beginnt bei {start}",
+    "finding.includes_zero": "enthält 0",
+    "finding.axis_includes_zero": "Die Werteachse enthält null.",
+    "finding.scale_noted": "Die Skala {shown}, und das Diagramm sagt es.",
+    "finding.scale_not_noted": "Die Skala {shown}, aber das Diagramm sagt es nicht.",
+    "finding.no_effect": (
+        "Weniger als zwei verschiedene Werte ungleich null: kein Effekt, der übertrieben werden könnte."
+    ),
+    "finding.lengths_proportional": (
+        "Die gezeichneten Längen sind proportional zu den Werten (Lügenfaktor {factor})."
+    ),
+    "finding.lengths_exaggerate": (
+        "Die gezeichneten Längen übertreiben die Unterschiede {factor}-fach (Lügenfaktor {factor}, "
+        "außerhalb von {low}–{high})."
+    ),
+    "finding.axis_lacks_periods": "die Zeitachse enthält nicht jeden erwarteten Zeitraum",
+    "finding.value_drawn_at": "{name} hat einen gezeichneten Wert bei {period}",
+    "finding.joined_across": "{name} ist über {period} hinweg verbunden",
+    "finding.gap_unmarked": "{period} ist für {name} nicht als „keine Daten“ markiert",
+    "finding.and_more": "{listed} und {more} weitere",
+    "finding.period": "{count} Zeitraum",
+    "finding.periods": "{count} Zeiträume",
+    "finding.gaps_but": "{shown} ohne Daten, aber {problems}.",
+    "finding.no_gaps": "Jeder erwartete Zeitraum von {first} bis {last} hat Daten.",
+    "finding.gaps_ok": (
+        "{shown} ohne Daten ({listed}): Die Linie ist dort unterbrochen und als „keine Daten“ "
+        "markiert; nichts wird aufgefüllt."
+    ),
 }

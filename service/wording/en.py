@@ -144,32 +144,81 @@ WORDS: dict[str, str] = {
     "finding.pie_too_many": "{count} parts, more than {most}",
     "finding.pie_no_value": "no part has a value",
     "finding.pie_zero_part": "a part of zero or less has no wedge",
-    "finding.pie_too_close": "{small} and {large} differ by {points} and ×{ratio}, under {min_points} and ×{min_ratio}",
+    "finding.pie_too_close": (
+        "{small} and {large} differ by {points} and ×{ratio}, under {min_points} and ×{min_ratio}"
+    ),
     "finding.no_whole": "No whole is stated: the shares are of the parts' sum, {sum}.",
     "finding.against": "{value} against {other}",
     "finding.sum_within": "The parts add up to {sum}, within {allowed} of the stated whole {whole}.",
-    "finding.sum_apart": "The parts add up to {sum}, but the stated whole is {whole}: {apart} apart, more than the tolerance of {allowed}. Correct the data or the stated whole.",
+    "finding.sum_apart": (
+        "The parts add up to {sum}, but the stated whole is {whole}: {apart} apart, more than the "
+        "tolerance of {allowed}. Correct the data or the stated whole."
+    ),
     "finding.no_negative": "No part is negative.",
-    "finding.negative_one": "{count} part is negative: {listed}. A part of a whole cannot be less than nothing; show it as a change (a compare chart) instead.",
-    "finding.negative": "{count} parts are negative: {listed}. A part of a whole cannot be less than nothing; show these as a change (a compare chart) instead.",
+    "finding.negative_one": (
+        "{count} part is negative: {listed}. A part of a whole cannot be less than nothing; show it as "
+        "a change (a compare chart) instead."
+    ),
+    "finding.negative": (
+        "{count} parts are negative: {listed}. A part of a whole cannot be less than nothing; show "
+        "these as a change (a compare chart) instead."
+    ),
     "finding.count_negative": "{count} negative",
     "finding.parts_absent": "{count} of {total} expected parts are not in the data: {names}.",
     "finding.parts_not_shown": "{count} of {total} not shown",
     "finding.none_listed": "none listed",
     "finding.no_expected": "No expected parts are listed.",
-    "finding.parts_shown_flagged": "All {total} expected parts are shown ({names} shown as 'expected, no data').",
+    "finding.parts_shown_flagged": (
+        "All {total} expected parts are shown ({names} shown as 'expected, no data')."
+    ),
     "finding.parts_shown": "All {total} expected parts are shown.",
     "finding.all_shown": "all shown",
     "finding.no_labels": "no labels",
     "finding.sum_of": "sum {value}",
-    "finding.labels_missing": "No percentage labels are shown; {names} do not carry the largest-remainder share.",
-    "finding.labels_wrong": "The labels add up to {total}; {names} do not carry the largest-remainder share.",
+    "finding.labels_missing": (
+        "No percentage labels are shown; {names} do not carry the largest-remainder share."
+    ),
+    "finding.labels_wrong": (
+        "The labels add up to {total}; {names} do not carry the largest-remainder share."
+    ),
     "finding.no_shares": "No percentages are shown: the parts have no shares.",
-    "finding.labels_ok": "The percentage labels add up to 100 (largest remainder; equal remainders go to the part first in the data).",
+    "finding.labels_ok": (
+        "The percentage labels add up to 100 (largest remainder; equal remainders go to the part first "
+        "in the data)."
+    ),
     "finding.parts": "{count} parts",
     "finding.parts_closest": "{count} parts, closest {points} apart (×{ratio})",
     "finding.bars_measured": "bars; {shown}",
     "finding.as_bars": "Drawn as bars: {shown}.",
     "finding.pie_ok": "The pie can be read: {shown}, each pair told apart.",
     "finding.pie_bad": "A pie of these parts cannot be read: {problem}.",
+    "finding.bars_from_zero": "Bars start at zero.",
+    "finding.bars_asked_from": (
+        "The definition asked for bars starting at {start}, which would make their lengths exaggerate "
+        "the differences."
+    ),
+    "finding.starts_at": "starts at {start}",
+    "finding.includes_zero": "includes 0",
+    "finding.axis_includes_zero": "The value axis includes zero.",
+    "finding.scale_noted": "The scale {shown}, and the chart says so.",
+    "finding.scale_not_noted": "The scale {shown}, but the chart does not say so.",
+    "finding.no_effect": "Fewer than two distinct non-zero values: no effect to exaggerate.",
+    "finding.lengths_proportional": "Drawn lengths are proportional to the values (lie factor {factor}).",
+    "finding.lengths_exaggerate": (
+        "Drawn lengths exaggerate the differences {factor} times (lie factor {factor}, outside "
+        "{low}–{high})."
+    ),
+    "finding.axis_lacks_periods": "the time axis does not hold every expected period",
+    "finding.value_drawn_at": "{name} has a value drawn at {period}",
+    "finding.joined_across": "{name} is joined across {period}",
+    "finding.gap_unmarked": "{period} is not marked 'no data' for {name}",
+    "finding.and_more": "{listed} and {more} more",
+    "finding.period": "{count} period",
+    "finding.periods": "{count} periods",
+    "finding.gaps_but": "{shown} without data, but {problems}.",
+    "finding.no_gaps": "Every expected period from {first} to {last} has data.",
+    "finding.gaps_ok": (
+        "{shown} without data ({listed}): the line is broken there and marked 'no data'; nothing is "
+        "filled in."
+    ),
 }
