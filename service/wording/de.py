@@ -140,6 +140,18 @@ WORDS: dict[str, str] = {
     "text.corrected_by": "Von den Prüfungen korrigiert: {checks}.",
     "text.failed_checks": "Nicht bestandene Prüfungen: {checks}.",
     "text.so_far": "{period} bisher:\n{done}",
+    "text.beyond_chance": "Die Unterschiede zwischen den {things} gehen über den Zufall hinaus ({test}).",
+    "text.may_be_chance": (
+        "Die Unterschiede zwischen den {things} können Zufall sein ({test}): keine Rangfolge bilden."
+    ),
+    "text.intervals_apart": (
+        "Die Intervalle ({level}) überlappen für {count} von {pairs} Paaren der {things} nicht "
+        "({listed}); Überlappung beweist keine Gleichheit."
+    ),
+    "text.intervals_overlap": (
+        "Die {level}-Intervalle aller {things} überlappen: Die Unterschiede können Zufall sein."
+    ),
+    "text.undecided": "Zu wenige {things} haben ein Intervall, um ihre Unterschiede zu beurteilen.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} Schätzreihen",
@@ -248,4 +260,37 @@ WORDS: dict[str, str] = {
         "{shown} ohne Daten ({listed}): Die Linie ist dort unterbrochen und als „keine Daten“ "
         "markiert; nichts wird aufgefüllt."
     ),
+    "finding.categories": "Kategorien",
+    "finding.anova": "einfaktorielle Varianzanalyse F = {f}, {p}",
+    "finding.distinguishable_p": "unterscheidbar ({p})",
+    "finding.not_distinguishable_p": "nicht unterscheidbar ({p})",
+    "finding.anova_apart": (
+        "Die Unterschiede zwischen den {things} sind unterscheidbar: {test} (auf dem Niveau von "
+        "{level} weicht mindestens eine über den Zufall hinaus ab; nicht jedes Paar muss sich "
+        "unterscheiden)."
+    ),
+    "finding.anova_chance": (
+        "Die Unterschiede zwischen den {things} sind nicht vom Zufall unterscheidbar: {test} (nicht "
+        "signifikant auf dem Niveau von {level})."
+    ),
+    "finding.pairs_apart_one": "{count} von {pairs} Paar getrennt",
+    "finding.pairs_apart": "{count} von {pairs} Paaren getrennt",
+    "finding.intervals_apart": (
+        "Die Unterschiede zwischen den {things} sind für {count} von {pairs} Paaren unterscheidbar "
+        "({listed}): Ihre {level}-Intervalle überlappen nicht; überlappende Intervalle beweisen keine "
+        "Gleichheit der Werte."
+    ),
+    "finding.intervals_overlap": (
+        "Jedes Paar der {things} hat überlappende {level}-Intervalle, daher ist kein Unterschied klar "
+        "unterscheidbar; überlappende Intervalle beweisen keine Gleichheit der Werte."
+    ),
+    "finding.too_few_intervals": "zu wenige Intervalle",
+    "finding.undecided": (
+        "Weniger als zwei {things} haben ein Intervall, daher lassen sich ihre Unterschiede nicht "
+        "beurteilen."
+    ),
+    "finding.no_uncertainty": "Die Daten geben keine Unsicherheit für diese Werte an.",
+    "finding.intervals_not_drawn": "die Intervalle von {names} sind nicht wie angegeben gezeichnet",
+    "finding.verdict_not_said": "das Diagramm sagt nicht, ob die Unterschiede echt sind",
+    "finding.but": "Aber {problems}.",
 }

@@ -123,6 +123,16 @@ WORDS: dict[str, str] = {
     "text.corrected_by": "Corrected by the checks: {checks}.",
     "text.failed_checks": "Failed checks: {checks}.",
     "text.so_far": "{period} so far:\n{done}",
+    "text.beyond_chance": "Differences between {things} are beyond chance ({test}).",
+    "text.may_be_chance": "Differences between {things} may be chance ({test}): do not rank them.",
+    "text.intervals_apart": (
+        "Intervals ({level}) do not overlap for {count} of {pairs} pairs of {things} ({listed}); "
+        "overlap does not prove equality."
+    ),
+    "text.intervals_overlap": (
+        "The {level} intervals of all {things} overlap: the differences may be chance."
+    ),
+    "text.undecided": "Too few {things} have an interval to judge their differences.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} estimate series",
@@ -221,4 +231,32 @@ WORDS: dict[str, str] = {
         "{shown} without data ({listed}): the line is broken there and marked 'no data'; nothing is "
         "filled in."
     ),
+    "finding.categories": "categories",
+    "finding.anova": "one-way ANOVA F = {f}, {p}",
+    "finding.distinguishable_p": "distinguishable ({p})",
+    "finding.not_distinguishable_p": "not distinguishable ({p})",
+    "finding.anova_apart": (
+        "Differences between {things} are distinguishable: {test} (at the {level} level at least one "
+        "differs beyond chance; not every pair need differ)."
+    ),
+    "finding.anova_chance": (
+        "Differences between {things} are not distinguishable from chance: {test} (not significant at "
+        "the {level} level)."
+    ),
+    "finding.pairs_apart_one": "{count} of {pairs} pair apart",
+    "finding.pairs_apart": "{count} of {pairs} pairs apart",
+    "finding.intervals_apart": (
+        "Differences between {things} are distinguishable for {count} of {pairs} pairs ({listed}): "
+        "their {level} intervals do not overlap; overlapping intervals do not prove the values equal."
+    ),
+    "finding.intervals_overlap": (
+        "Every pair of {things} has overlapping {level} intervals, so no difference is clearly "
+        "distinguishable; overlapping intervals do not prove the values equal."
+    ),
+    "finding.too_few_intervals": "too few intervals",
+    "finding.undecided": "Fewer than two {things} have an interval, so their differences cannot be judged.",
+    "finding.no_uncertainty": "The data gives no uncertainty for these values.",
+    "finding.intervals_not_drawn": "the intervals of {names} are not drawn as given",
+    "finding.verdict_not_said": "the chart does not say whether the differences are real",
+    "finding.but": "But {problems}.",
 }
