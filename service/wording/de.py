@@ -152,6 +152,10 @@ WORDS: dict[str, str] = {
         "Die {level}-Intervalle aller {things} überlappen: Die Unterschiede können Zufall sein."
     ),
     "text.undecided": "Zu wenige {things} haben ein Intervall, um ihre Unterschiede zu beurteilen.",
+    "text.values_labelled": (
+        "Die Werte sind beschriftet: Das Diagramm allein löst nur etwa {chart} auf; Lesende brauchen "
+        "{need}."
+    ),
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} Schätzreihen",
@@ -293,4 +297,17 @@ WORDS: dict[str, str] = {
     "finding.intervals_not_drawn": "die Intervalle von {names} sind nicht wie angegeben gezeichnet",
     "finding.verdict_not_said": "das Diagramm sagt nicht, ob die Unterschiede echt sind",
     "finding.but": "Aber {problems}.",
+    "finding.no_precision": "Von diesem Diagramm wird keine Genauigkeit verlangt.",
+    "finding.not_asked": "nicht verlangt",
+    "finding.no_values_to_read": "Das Diagramm zeigt keine ablesbaren Werte.",
+    "finding.no_values": "keine Werte",
+    "finding.chart_alone": "das Diagramm allein löst etwa {res} auf (0,5 mm bei {per_mm} je mm)",
+    "finding.about": "etwa {value}",
+    "finding.precision_ok": "{alone}; Lesende brauchen {need}.",
+    "finding.precision_labelled": (
+        "Die Werte sind beschriftet: {alone}, gröber als die {need}, die Lesende brauchen."
+    ),
+    "finding.labelled_about": "beschriftet (Diagramm allein etwa {value})",
+    "finding.precision_short": "Lesende müssen {need} unterscheiden, aber {alone}.",
+    "finding.labels_round": "Seine Beschriftungen runden auf {step}.",
 }

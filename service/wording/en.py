@@ -133,6 +133,9 @@ WORDS: dict[str, str] = {
         "The {level} intervals of all {things} overlap: the differences may be chance."
     ),
     "text.undecided": "Too few {things} have an interval to judge their differences.",
+    "text.values_labelled": (
+        "Values are labelled: the chart alone resolves only about {chart}; readers need {need}."
+    ),
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} estimate series",
@@ -259,4 +262,15 @@ WORDS: dict[str, str] = {
     "finding.intervals_not_drawn": "the intervals of {names} are not drawn as given",
     "finding.verdict_not_said": "the chart does not say whether the differences are real",
     "finding.but": "But {problems}.",
+    "finding.no_precision": "No precision is asked of this chart.",
+    "finding.not_asked": "not asked",
+    "finding.no_values_to_read": "The chart shows no values to read.",
+    "finding.no_values": "no values",
+    "finding.chart_alone": "the chart alone resolves about {res} (0.5 mm at {per_mm} per mm)",
+    "finding.about": "about {value}",
+    "finding.precision_ok": "{alone}; readers need {need}.",
+    "finding.precision_labelled": "Values are labelled: {alone}, coarser than the {need} readers need.",
+    "finding.labelled_about": "labelled (chart alone about {value})",
+    "finding.precision_short": "Readers need to tell apart {need}, but {alone}.",
+    "finding.labels_round": "Its labels round to {step}.",
 }
