@@ -156,6 +156,7 @@ WORDS: dict[str, str] = {
         "Die Werte sind beschriftet: Das Diagramm allein löst nur etwa {chart} auf; Lesende brauchen "
         "{need}."
     ),
+    "text.shared_scale": "Die Felder teilen eine Skala, daher lassen sich ihre Höhen vergleichen.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} Schätzreihen",
@@ -310,4 +311,42 @@ WORDS: dict[str, str] = {
     "finding.labelled_about": "beschriftet (Diagramm allein etwa {value})",
     "finding.precision_short": "Lesende müssen {need} unterscheiden, aber {alone}.",
     "finding.labels_round": "Seine Beschriftungen runden auf {step}.",
+    "finding.split_shared": "aufgeteilt in {panels} Felder mit einer gemeinsamen Skala",
+    "finding.split_own": "aufgeteilt in {panels} Felder mit verschiedenen Skalen",
+    "finding.panels_ok": (
+        "Die Reihen sind in {panels} Feldern mit einer gemeinsamen Skala gezeichnet, in jedem "
+        "höchstens {most} farbcodiert."
+    ),
+    "finding.panels_differ": (
+        "Die Reihen sind in {panels} Felder aufgeteilt, aber ihre Skalen unterscheiden sich."
+    ),
+    "finding.panels_crowded": (
+        "Die Reihen sind in {panels} Felder aufgeteilt, aber eines hat {most} farbcodierte Reihen."
+    ),
+    "finding.other_grey": "{count} weitere in Grau",
+    "finding.others_grey": "{count} weitere in Grau",
+    "finding.highlighted": "hervorgehoben {names}, {others}",
+    "finding.count_series": "{count} Reihen",
+    "finding.highlighted_ok": (
+        "Hervorgehoben: {names}; die {others} sind Kontext und müssen nicht unterschieden werden."
+    ),
+    "finding.series_ok": "{count} farbcodierte Reihen (höchstens {most}): Jede lässt sich unterscheiden.",
+    "finding.series_too_many": (
+        "{count} Reihen werden allein durch Farbe unterschieden, mehr als die {most}, die Lesende "
+        "zuverlässig ihren Beschriftungen zuordnen können."
+    ),
+    "finding.units_differ": "die Einheiten unterscheiden sich ({differ})",
+    "finding.only_change": "nur die Veränderung wird verglichen",
+    "finding.aligned_panels": "ausgerichtete Felder mit je eigener Skala",
+    "finding.indexed_change": "indexiert als Veränderung in % seit {base}",
+    "finding.indexed_100": "indexiert auf {base} = 100",
+    "finding.drawn_instead": (
+        "Gezeichnet als {chosen}, weil {why}: nie zwei y-Achsen, denn mit der Wahl zweier Skalen "
+        "ließen sich beliebige zwei Linien scheinbar kreuzen oder gleichlaufen."
+    ),
+    "finding.axis_per_panel": "1 Werteachse in jedem von {count} Feldern",
+    "finding.one_axis": "1 Werteachse",
+    "finding.no_second_axis": (
+        "{shown}: Diese Form kann keine zweite y-Achse zeichnen, zwei y-Achsen sind also unmöglich."
+    ),
 }

@@ -136,6 +136,7 @@ WORDS: dict[str, str] = {
     "text.values_labelled": (
         "Values are labelled: the chart alone resolves only about {chart}; readers need {need}."
     ),
+    "text.shared_scale": "The panels share one scale, so their heights can be compared.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} estimate series",
@@ -273,4 +274,38 @@ WORDS: dict[str, str] = {
     "finding.labelled_about": "labelled (chart alone about {value})",
     "finding.precision_short": "Readers need to tell apart {need}, but {alone}.",
     "finding.labels_round": "Its labels round to {step}.",
+    "finding.split_shared": "split into {panels} panels on one shared scale",
+    "finding.split_own": "split into {panels} panels on different scales",
+    "finding.panels_ok": (
+        "The series are drawn in {panels} panels on one shared scale, at most {most} colour-coded in "
+        "each."
+    ),
+    "finding.panels_differ": "The series are split into {panels} panels, but their scales differ.",
+    "finding.panels_crowded": (
+        "The series are split into {panels} panels, but one has {most} colour-coded series."
+    ),
+    "finding.other_grey": "{count} other in grey",
+    "finding.others_grey": "{count} others in grey",
+    "finding.highlighted": "highlighted {names}, {others}",
+    "finding.count_series": "{count} series",
+    "finding.highlighted_ok": "Highlighted {names}; the {others} are context, not to be told apart.",
+    "finding.series_ok": "{count} colour-coded series (at most {most}): each can be told apart.",
+    "finding.series_too_many": (
+        "{count} series are told apart by colour alone, more than the {most} a reader can match to "
+        "their labels reliably."
+    ),
+    "finding.units_differ": "units differ ({differ})",
+    "finding.only_change": "only the change is compared",
+    "finding.aligned_panels": "aligned panels, each with its own scale",
+    "finding.indexed_change": "indexed as % change since {base}",
+    "finding.indexed_100": "indexed to {base} = 100",
+    "finding.drawn_instead": (
+        "Drawn as {chosen} because {why}: never two y-axes, which would let the choice of two scales "
+        "make any two lines appear to cross or move together."
+    ),
+    "finding.axis_per_panel": "1 value axis in each of {count} panels",
+    "finding.one_axis": "1 value axis",
+    "finding.no_second_axis": (
+        "{shown}: this form cannot draw a second y-axis, so two y-axes are impossible."
+    ),
 }
