@@ -349,4 +349,48 @@ WORDS: dict[str, str] = {
     "finding.no_second_axis": (
         "{shown}: Diese Form kann keine zweite y-Achse zeichnen, zwei y-Achsen sind also unmöglich."
     ),
+    "finding.points": "{most} Punkte",
+    "finding.points_over": (
+        "{names}: {shown}, mehr als die {limit} (4 je Pixelspalte), die eine Linie von {width} px "
+        "Breite bei {dpi} dpi zeigen kann."
+    ),
+    "finding.points_reduced": (
+        "{before} Punkte wurden mit M4 bei {px} px auf {after} reduziert: Der erste, letzte, "
+        "niedrigste und höchste Punkt jeder Pixelspalte bleiben erhalten, die gezeichnete Linie ist "
+        "also dieselbe; keine Linie wird über eine Lücke verbunden."
+    ),
+    "finding.points_m4": "{most} (M4 bei {width} px)",
+    "finding.points_gaps": (
+        "{shown} in der längsten Reihe, durch Lücken unterbrochen: schon nicht mehr als 4 je "
+        "Pixelspalte und gezeichnetem Abschnitt, so wenige, wie M4 behält, ohne über eine Lücke zu "
+        "verbinden."
+    ),
+    "finding.points_ok": (
+        "Höchstens {shown} je Reihe: innerhalb der {limit}, die eine Linie von {width} px Breite bei "
+        "{dpi} dpi zeigen kann, also wird jeder Punkt gezeichnet."
+    ),
+    "finding.periods_of": "{drawn} von {count} Zeiträumen",
+    "finding.axis_missing": (
+        "die Zeitachse setzt nicht jeden erwarteten Zeitraum an seine eigene Stelle (fehlend: {names})"
+    ),
+    "finding.axis_misplaced": "die Zeitachse setzt nicht jeden erwarteten Zeitraum an seine eigene Stelle",
+    "finding.out_of_order": "Punkte von {names} sind nicht in zeitlicher Reihenfolge",
+    "finding.own_place": (
+        "Jeder der {count} Zeiträume von {first} bis {last} hat seinen eigenen Platz auf der "
+        "Zeitachse, eine Lücke behält also ihre Breite."
+    ),
+    "finding.months_equal": (
+        "Kalenderzeiträume haben gleiche Abstände (ein Monat mit 28 Tagen nimmt die Breite eines mit "
+        "31 ein)."
+    ),
+    "finding.linear": "Die Werteachse ist linear.",
+    "finding.log_lengths": (
+        "Ein Diagramm dieser Form ({form}) nutzt eine logarithmische Werteachse: Die Länge eines "
+        "Balkens auf einer logarithmischen Achse codiert nicht seinen Wert. Eine lineare Achse ab null "
+        "oder Punkte oder Linien verwenden."
+    ),
+    "finding.value_axis": "Werteachse",
+    "finding.x_axis": "x-Achse",
+    "finding.log_not_noted": "Die {names} ist logarithmisch, aber das Diagramm sagt es nicht.",
+    "finding.log_noted": "Die Skala ist logarithmisch, und das Diagramm sagt es: {note}",
 }

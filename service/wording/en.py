@@ -308,4 +308,45 @@ WORDS: dict[str, str] = {
     "finding.no_second_axis": (
         "{shown}: this form cannot draw a second y-axis, so two y-axes are impossible."
     ),
+    "finding.points": "{most} points",
+    "finding.points_over": (
+        "{names}: {shown}, more than the {limit} (4 per pixel column) a line {width} px wide at {dpi} "
+        "dpi can show."
+    ),
+    "finding.points_reduced": (
+        "{before} points were reduced to {after} with M4 at {px} px: the first, last, lowest and "
+        "highest point of every pixel column are kept, so the drawn line is the same; no line is "
+        "joined across a gap."
+    ),
+    "finding.points_m4": "{most} (M4 at {width} px)",
+    "finding.points_gaps": (
+        "{shown} in the longest series, broken by gaps: already no more than 4 per pixel column and "
+        "drawn segment, as few as M4 keeps without joining across a gap."
+    ),
+    "finding.points_ok": (
+        "At most {shown} per series: within the {limit} a line {width} px wide at {dpi} dpi can show, "
+        "so every point is drawn."
+    ),
+    "finding.periods_of": "{drawn} of {count} periods",
+    "finding.axis_missing": (
+        "the time axis does not place every expected period at its own index (missing: {names})"
+    ),
+    "finding.axis_misplaced": "the time axis does not place every expected period at its own index",
+    "finding.out_of_order": "points of {names} are out of time order",
+    "finding.own_place": (
+        "Each of the {count} periods from {first} to {last} has its own place on the time axis, so a "
+        "gap keeps its width."
+    ),
+    "finding.months_equal": (
+        "Calendar periods are spaced equally (a month of 28 days takes the width of one of 31)."
+    ),
+    "finding.linear": "The value axis is linear.",
+    "finding.log_lengths": (
+        "A chart of this form ({form}) uses a logarithmic value axis: the length of a bar on a log "
+        "axis does not encode its value. Use a linear axis from zero, or dots or lines."
+    ),
+    "finding.value_axis": "value axis",
+    "finding.x_axis": "x axis",
+    "finding.log_not_noted": "The {names} is logarithmic, but the chart does not say so.",
+    "finding.log_noted": "The scale is logarithmic, and the chart says so: {note}",
 }
