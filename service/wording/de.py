@@ -393,4 +393,27 @@ WORDS: dict[str, str] = {
     "finding.x_axis": "x-Achse",
     "finding.log_not_noted": "Die {names} ist logarithmisch, aber das Diagramm sagt es nicht.",
     "finding.log_noted": "Die Skala ist logarithmisch, und das Diagramm sagt es: {note}",
+    "finding.no_guide": "Das Diagramm hat keine Lesehilfe.",
+    "finding.guide_lines": "Die Lesehilfe läuft über mehrere Zeilen.",
+    "finding.guide": "Lesehilfe: {text}",
+    "finding.no_line": "Es ist keine Linie gezeichnet, und keine wurde verlangt.",
+    "finding.line_not_asked": (
+        "Eine Ausgleichslinie ist gezeichnet, aber die Definition hat keine verlangt."
+    ),
+    "finding.line_missing": "Die Definition verlangte eine Ausgleichsgerade, aber keine ist gezeichnet.",
+    "finding.line_wrong": "Die gezeichnete Linie ist nicht die Ausgleichsgerade der Daten.",
+    "finding.r2_not_shown": "Die Ausgleichsgerade ist gezeichnet, aber ihr r² ({r2}) wird nicht gezeigt.",
+    "finding.line_ok": "Die verlangte Ausgleichsgerade ist gezeichnet, mit {r2}.",
+    "finding.no_bins": "Das Histogramm hat keine Klassen.",
+    "finding.bin_no_width": "Eine Klasse endet, wo sie beginnt, oder davor.",
+    "finding.bins_apart": (
+        "Die Klassen schließen nicht aneinander an: Eine Klasse beginnt nicht dort, wo die vorige "
+        "endete."
+    ),
+    "finding.from_to": "{first} bis {last}",
+    "finding.bins_uneven": (
+        "Die Klassenbreiten reichen von {widths}: Bei reinen Anzahlen übertreiben die breiteren Balken "
+        "ihren Anteil an den Werten."
+    ),
+    "finding.bins_even": "Jede Klasse ist {width} breit, die Flächen folgen also den Anzahlen.",
 }

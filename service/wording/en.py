@@ -349,4 +349,22 @@ WORDS: dict[str, str] = {
     "finding.x_axis": "x axis",
     "finding.log_not_noted": "The {names} is logarithmic, but the chart does not say so.",
     "finding.log_noted": "The scale is logarithmic, and the chart says so: {note}",
+    "finding.no_guide": "The chart carries no guide to reading it.",
+    "finding.guide_lines": "The reading guide runs over several lines.",
+    "finding.guide": "Reading guide: {text}",
+    "finding.no_line": "No line is drawn, and none was asked for.",
+    "finding.line_not_asked": "A fitted line is drawn, but the definition did not ask for one.",
+    "finding.line_missing": "The definition asked for a least-squares line, but none is drawn.",
+    "finding.line_wrong": "The line drawn is not the least-squares fit of the data.",
+    "finding.r2_not_shown": "The least-squares line is drawn, but its r² ({r2}) is not shown.",
+    "finding.line_ok": "The least-squares line asked for is drawn, with {r2}.",
+    "finding.no_bins": "The histogram has no bins.",
+    "finding.bin_no_width": "A bin ends where it starts, or before.",
+    "finding.bins_apart": "The bins do not meet: a bin starts away from where the last ended.",
+    "finding.from_to": "{first} to {last}",
+    "finding.bins_uneven": (
+        "Bin widths run from {widths}: with raw counts, the wider bars overstate their share of the "
+        "values."
+    ),
+    "finding.bins_even": "Every bin is {width} wide, so areas follow the counts.",
 }
