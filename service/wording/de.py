@@ -157,6 +157,7 @@ WORDS: dict[str, str] = {
         "{need}."
     ),
     "text.shared_scale": "Die Felder teilen eine Skala, daher lassen sich ihre Höhen vergleichen.",
+    "text.source_unstated": "Datensatz „{dataset}“, geliefert von {owner}; keine Quelle angegeben.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} Schätzreihen",
@@ -416,4 +417,12 @@ WORDS: dict[str, str] = {
         "ihren Anteil an den Werten."
     ),
     "finding.bins_even": "Jede Klasse ist {width} breit, die Flächen folgen also den Anzahlen.",
+    "finding.source": "Quellenzeile: {source}",
+    "finding.no_source": "Weder das Diagramm noch sein Datensatz nennt eine Quelle.",
+    "finding.words": "{count} Wörter",
+    "finding.alternative": "Dem Diagramm ist eine Textalternative beigefügt.",
+    "finding.no_alternative": "Das Diagramm hat keine brauchbare Textalternative.",
+    "finding.no_verdict": "Die letzte Veränderung ({period}) trägt kein Urteil.",
+    "finding.wrong_verdict": "Das gezeigte Urteil „{shown}“ ist nicht, was der Verlauf sagt: „{expected}“.",
+    "finding.wrong_limits": "Die gezeichnete Mittellinie und die Grenzen sind nicht die des Verlaufs.",
 }

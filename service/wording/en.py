@@ -137,6 +137,7 @@ WORDS: dict[str, str] = {
         "Values are labelled: the chart alone resolves only about {chart}; readers need {need}."
     ),
     "text.shared_scale": "The panels share one scale, so their heights can be compared.",
+    "text.source_unstated": "Dataset '{dataset}' supplied by {owner}; no source was stated.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
     "finding.estimate_series": "{count} estimate series",
@@ -367,4 +368,12 @@ WORDS: dict[str, str] = {
         "values."
     ),
     "finding.bins_even": "Every bin is {width} wide, so areas follow the counts.",
+    "finding.source": "Source line: {source}",
+    "finding.no_source": "Neither the chart nor its dataset names a source.",
+    "finding.words": "{count} words",
+    "finding.alternative": "A text alternative is placed with the chart.",
+    "finding.no_alternative": "The chart has no usable text alternative.",
+    "finding.no_verdict": "The latest change ({period}) carries no verdict.",
+    "finding.wrong_verdict": "The verdict shown, '{shown}', is not what the history says: '{expected}'.",
+    "finding.wrong_limits": "The centre line and limits drawn are not those of the history.",
 }
