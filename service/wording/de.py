@@ -425,4 +425,31 @@ WORDS: dict[str, str] = {
     "finding.no_verdict": "Die letzte Veränderung ({period}) trägt kein Urteil.",
     "finding.wrong_verdict": "Das gezeigte Urteil „{shown}“ ist nicht, was der Verlauf sagt: „{expected}“.",
     "finding.wrong_limits": "Die gezeichnete Mittellinie und die Grenzen sind nicht die des Verlaufs.",
+    "finding.one_colour": "Die Markierungen des Diagramms verwenden eine Farbe.",
+    "finding.vision_normal": "normalem Farbsehen",
+    "finding.vision_protan": "simuliertem Protan-Sehen (rotblind)",
+    "finding.vision_deutan": "simuliertem Deutan-Sehen (grünblind)",
+    "finding.vision_tritan": "simuliertem Tritan-Sehen (blaublind)",
+    "finding.colours_apart": (
+        "Die {count} Farben bleiben bei normalem, Protan-, Deutan- und Tritan-Sehen mindestens ΔE00 "
+        "{difference} auseinander (am nächsten: {first} und {second}, bei {seen})."
+    ),
+    "finding.colour_shared": (
+        "Zwei Markierungen teilen die Farbe {first}: Die Palette hat weniger Farben, als das Diagramm "
+        "Markierungen hat."
+    ),
+    "finding.colours_close": (
+        "{first} und {second} liegen bei {seen} nur ΔE00 {difference} auseinander (mindestens {least} "
+        "ist nötig): Lesende können diese Markierungen nicht unterscheiden."
+    ),
+    "finding.contrasts": "Markierungen {marks}, Text {text}",
+    "finding.text_ink": "Schrift",
+    "finding.text_muted_text": "gedämpfter Text",
+    "finding.text_flag": "Warnhinweis",
+    "finding.contrast_ok": (
+        "Jede Markierungsfarbe hat auf Weiß mindestens {marks} Kontrast, Text mindestens {text}."
+    ),
+    "finding.marks_weak": "die Markierungsfarben {colours} liegen auf Weiß unter 3:1",
+    "finding.text_weak": "die Textfarben {colours} liegen auf Weiß unter 4,5:1",
+    "finding.hard_to_see": "{parts}: Sie sind schwer zu sehen.",
 }

@@ -376,4 +376,30 @@ WORDS: dict[str, str] = {
     "finding.no_verdict": "The latest change ({period}) carries no verdict.",
     "finding.wrong_verdict": "The verdict shown, '{shown}', is not what the history says: '{expected}'.",
     "finding.wrong_limits": "The centre line and limits drawn are not those of the history.",
+    "finding.one_colour": "The chart's marks use one colour.",
+    "finding.vision_normal": "normal colour vision",
+    "finding.vision_protan": "simulated protan (red-blind) vision",
+    "finding.vision_deutan": "simulated deutan (green-blind) vision",
+    "finding.vision_tritan": "simulated tritan (blue-blind) vision",
+    "finding.colours_apart": (
+        "The {count} colours stay at least ΔE00 {difference} apart under normal, protan, deutan and "
+        "tritan vision (closest: {first} and {second}, with {seen})."
+    ),
+    "finding.colour_shared": (
+        "Two marks share the colour {first}: the palette has fewer colours than the chart has marks."
+    ),
+    "finding.colours_close": (
+        "{first} and {second} are only ΔE00 {difference} apart with {seen} (at least {least} is "
+        "needed): readers cannot tell those marks apart."
+    ),
+    "finding.contrasts": "marks {marks}, text {text}",
+    "finding.text_ink": "ink",
+    "finding.text_muted_text": "muted text",
+    "finding.text_flag": "flag",
+    "finding.contrast_ok": (
+        "Every mark colour has at least {marks} contrast on white, and text at least {text}."
+    ),
+    "finding.marks_weak": "mark colours {colours} are below 3:1 on white",
+    "finding.text_weak": "text colours {colours} are below 4.5:1 on white",
+    "finding.hard_to_see": "{parts}: they are hard to see.",
 }
