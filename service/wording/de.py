@@ -452,4 +452,65 @@ WORDS: dict[str, str] = {
     "finding.marks_weak": "die Markierungsfarben {colours} liegen auf Weiß unter 3:1",
     "finding.text_weak": "die Textfarben {colours} liegen auf Weiß unter 4,5:1",
     "finding.hard_to_see": "{parts}: Sie sind schwer zu sehen.",
+    "finding.same_month": "demselben Monat ein Jahr zuvor",
+    "finding.same_quarter": "demselben Quartal ein Jahr zuvor",
+    "finding.same_week": "derselben Woche ein Jahr zuvor",
+    "finding.same_day": "demselben Tag eine Woche zuvor",
+    "finding.same_point": "demselben Punkt des Zyklus, {lag} zurück",
+    "finding.day_one": "{count} Tag",
+    "finding.day_many": "{count} Tage",
+    "finding.week_one": "{count} Woche",
+    "finding.week_many": "{count} Wochen",
+    "finding.month_one": "{count} Monat",
+    "finding.month_many": "{count} Monate",
+    "finding.quarter_one": "{count} Quartal",
+    "finding.quarter_many": "{count} Quartale",
+    "finding.year_one": "{count} Jahr",
+    "finding.year_many": "{count} Jahre",
+    "finding.period_one": "{count} Zeitraum",
+    "finding.period_many": "{count} Zeiträume",
+    "finding.too_short_cycle": "Weniger als {count} Werte: zu kurz, um nach einem Zyklus zu suchen.",
+    "finding.no_cycle": "In den Daten wurde kein wiederkehrender Zyklus gefunden.",
+    "finding.cycle_evidence": (
+        "Die Daten wiederholen sich alle {span} (Autokorrelation {r} bei Verschiebung {lag}, über "
+        "{bar})"
+    ),
+    "finding.cycle_shown": "Zyklus von {span}; {window} gezeigt",
+    "finding.too_few_cycles": (
+        "das Diagramm zeigt nur {window}, weniger als zwei Zyklen: mindestens {least} zeigen, damit "
+        "der Zyklus nicht als Trend gelesen wird"
+    ),
+    "finding.pair": "{before} mit {after}",
+    "finding.consecutive": "aufeinanderfolgende Zeiträume",
+    "finding.compare_phase": (
+        "die letzte Veränderung vergleicht {pair}, die an verschiedenen Punkten des Zyklus liegen: "
+        "auch mit {same} vergleichen"
+    ),
+    "finding.cycles_shown": "{evidence}; das Diagramm zeigt {count} Zyklen.",
+    "finding.cycle_but": "{evidence}, aber {advice}.",
+    "finding.drawn_ratio": "gezeichnet {drawn}",
+    "finding.no_slope": (
+        "Die Linien haben keine Steigung zum Ausrichten (flach oder weniger als zwei verbundene "
+        "Punkte)."
+    ),
+    "finding.suggests": "empfohlen {suggested}; gezeichnet {drawn}",
+    "finding.banking_ok": (
+        "Die Ausrichtung auf 45° empfiehlt Höhe/Breite {suggested}; gezeichnet {drawn}: innerhalb "
+        "eines Faktors 2, die mittlere Steigung erscheint also nahe 45°."
+    ),
+    "finding.banking_steep": (
+        "Die Ausrichtung auf 45° empfiehlt Höhe/Breite {suggested}; gezeichnet {drawn}: Steigungen "
+        "wirken steiler, als sie sind; ein breiteres oder niedrigeres Diagramm zeigte "
+        "Steigungsänderungen deutlicher (Rat: 45° ist nicht immer am besten)."
+    ),
+    "finding.banking_flat": (
+        "Die Ausrichtung auf 45° empfiehlt Höhe/Breite {suggested}; gezeichnet {drawn}: Steigungen "
+        "wirken flacher, als sie sind; ein höheres oder schmaleres Diagramm zeigte Steigungsänderungen "
+        "deutlicher (Rat: 45° ist nicht immer am besten)."
+    ),
+    "finding.span": "Die Werte nehmen nur {share} der Werteachse ein, was die Linie abflacht.",
+    "finding.span_zero": (
+        "Die Werte nehmen nur {share} der Werteachse ein (sie beginnt bei null), was die Linie "
+        "abflacht."
+    ),
 }

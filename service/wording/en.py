@@ -402,4 +402,60 @@ WORDS: dict[str, str] = {
     "finding.marks_weak": "mark colours {colours} are below 3:1 on white",
     "finding.text_weak": "text colours {colours} are below 4.5:1 on white",
     "finding.hard_to_see": "{parts}: they are hard to see.",
+    "finding.same_month": "the same month a year earlier",
+    "finding.same_quarter": "the same quarter a year earlier",
+    "finding.same_week": "the same week a year earlier",
+    "finding.same_day": "the same day a week earlier",
+    "finding.same_point": "the same point of the cycle, {lag} back",
+    "finding.day_one": "{count} day",
+    "finding.day_many": "{count} days",
+    "finding.week_one": "{count} week",
+    "finding.week_many": "{count} weeks",
+    "finding.month_one": "{count} month",
+    "finding.month_many": "{count} months",
+    "finding.quarter_one": "{count} quarter",
+    "finding.quarter_many": "{count} quarters",
+    "finding.year_one": "{count} year",
+    "finding.year_many": "{count} years",
+    "finding.period_one": "{count} period",
+    "finding.period_many": "{count} periods",
+    "finding.too_short_cycle": "Fewer than {count} values: too short to look for a cycle.",
+    "finding.no_cycle": "No repeating cycle was found in the data.",
+    "finding.cycle_evidence": (
+        "The data repeat every {span} (autocorrelation {r} at lag {lag}, above {bar})"
+    ),
+    "finding.cycle_shown": "{span} cycle; {window} shown",
+    "finding.too_few_cycles": (
+        "the chart shows only {window}, fewer than two cycles: show at least {least} so the cycle is "
+        "not read as a trend"
+    ),
+    "finding.pair": "{before} with {after}",
+    "finding.consecutive": "consecutive periods",
+    "finding.compare_phase": (
+        "the latest change compares {pair}, which sit at different points of the cycle: compare with "
+        "{same} as well"
+    ),
+    "finding.cycles_shown": "{evidence}; the chart shows {count} cycles.",
+    "finding.cycle_but": "{evidence}, but {advice}.",
+    "finding.drawn_ratio": "drawn {drawn}",
+    "finding.no_slope": "The lines have no slope to bank (flat, or fewer than two joined points).",
+    "finding.suggests": "suggests {suggested}; drawn {drawn}",
+    "finding.banking_ok": (
+        "Banking to 45° suggests height/width {suggested}; drawn {drawn}: within a factor of 2, so the "
+        "median slope is drawn near 45°."
+    ),
+    "finding.banking_steep": (
+        "Banking to 45° suggests height/width {suggested}; drawn {drawn}: slopes look steeper than "
+        "they are; a wider or shorter chart would show changes of slope more clearly (advice: 45° is "
+        "not always best)."
+    ),
+    "finding.banking_flat": (
+        "Banking to 45° suggests height/width {suggested}; drawn {drawn}: slopes look flatter than "
+        "they are; a taller or narrower chart would show changes of slope more clearly (advice: 45° is "
+        "not always best)."
+    ),
+    "finding.span": "The values span only {share} of the value axis, which flattens the line.",
+    "finding.span_zero": (
+        "The values span only {share} of the value axis (it starts at zero), which flattens the line."
+    ),
 }
