@@ -15,6 +15,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, replace
 from datetime import date
 
+from service import wording
 from service.checks import describe, layout, registry
 from service.checks.layout import DrawnLabels
 from service.checks.outcome import Checked
@@ -69,24 +70,33 @@ def _run(
                     plan,
                     Status.waived,
                     finding,
-                    f"{finding.detail} Waived by {waiver.by}.",
+                    wording.sentence(
+                        finding.detail, wording.say("finding.waived_by", ctx.locale, by=waiver.by)
+                    ),
                     waiver=record,
                 )
             )
             continue
-        note = (
-            f" A waiver expired on {expired.isoformat()} and no longer applies." if expired else ""
-        )
+        note = ""
+        if expired:
+            note = wording.say("finding.waiver_expired", ctx.locale, date=expired.isoformat())
         if spec.correct is not None:
             corrected = spec.correct(plan, ctx)
             after = spec.measure(corrected, ctx)
             if after.ok:
-                text = f"{finding.detail} {spec.correction}{note}"
+                text = wording.sentence(finding.detail, correction(spec, ctx.locale), note)
                 results.append(_result(spec, plan, Status.corrected, finding, text, after=after))
                 plan = corrected
                 continue
-        results.append(_result(spec, plan, Status.failed, finding, finding.detail + note))
+        text = wording.sentence(finding.detail, note) if note else finding.detail
+        results.append(_result(spec, plan, Status.failed, finding, text))
     return plan
+
+
+def correction(spec: CheckSpec, locale: str) -> str:
+    """What a check's correction did, in the report's language (the registry holds the English)."""
+    key = f"finding.correction.{spec.id}"
+    return wording.say(key, locale) if key in wording.CATALOGUES["en"] else spec.correction or ""
 
 
 def waiver_for(

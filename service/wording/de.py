@@ -513,4 +513,65 @@ WORDS: dict[str, str] = {
         "Die Werte nehmen nur {share} der Werteachse ein (sie beginnt bei null), was die Linie "
         "abflacht."
     ),
+    "finding.waived_by": "Ausgenommen durch {by}.",
+    "finding.waiver_expired": "Eine Ausnahme ist am {date} abgelaufen und gilt nicht mehr.",
+    "finding.correction.expected-parts-shown": (
+        "Jeder fehlende Teil wurde dem Diagramm als „erwartet, keine Daten“ hinzugefügt."
+    ),
+    "finding.correction.shares-sum-to-100": (
+        "Die Beschriftungen wurden nach dem Verfahren des größten Rests neu berechnet (bei gleichen "
+        "Resten erhält der in den Daten erste Teil den Vorzug)."
+    ),
+    "finding.correction.pie-readable": (
+        "Die Teile wurden stattdessen als Balken ab null gezeichnet, der größte zuerst."
+    ),
+    "finding.correction.series-count": (
+        "Die Fokusreihe wurde hervorgehoben und die übrigen grau gezeichnet; ohne Fokus wurden die "
+        "Reihen in Felder mit einer gemeinsamen Skala aufgeteilt."
+    ),
+    "finding.correction.bar-zero-baseline": "Die Balken wurden stattdessen ab null gezeichnet.",
+    "finding.correction.missing-periods": (
+        "Die Linie wurde an jedem fehlenden Zeitraum unterbrochen und als „keine Daten“ markiert."
+    ),
+    "finding.correction.partial-period": (
+        "Der letzte Zeitraum wurde hohl gezeichnet und mit seiner Vollständigkeit beschriftet."
+    ),
+    "finding.correction.estimates-distinct": (
+        "Die Schätzungen wurden gestrichelt gezeichnet, beschriftet und auf dem Diagramm aufgeführt."
+    ),
+    "finding.correction.delta-verdict": (
+        "Das Urteil über die letzte Veränderung wurde samt Grenzen aus den Daten neu berechnet und "
+        "beigefügt."
+    ),
+    "finding.correction.uncertainty": (
+        "Jedes Intervall wurde gezeichnet, und eine Zeile, ob die Unterschiede echt sind, wurde dem "
+        "Diagramm hinzugefügt."
+    ),
+    "finding.correction.reading-guide": "Die Lesehilfe für die Form wurde dem Diagramm hinzugefügt.",
+    "finding.correction.fit-on-request": (
+        "Die Linie wurde gezeichnet, wie die Definition es verlangt: die Ausgleichsgerade mit ihrem r² "
+        "oder keine Linie."
+    ),
+    "finding.correction.log-scale-noted": (
+        "Ein Hinweis, dass die Skala logarithmisch ist, wurde dem Diagramm hinzugefügt."
+    ),
+    "finding.correction.many-points": (
+        "Jede lange Reihe wurde mit M4 reduziert (erster, letzter, niedrigster und höchster Punkt "
+        "jeder Pixelspalte, jeder gezeichnete Abschnitt für sich), was dieselbe Linie zeichnet."
+    ),
+    "finding.correction.nonzero-scale-noted": (
+        "Ein Hinweis, wo die Skala beginnt, wurde dem Diagramm hinzugefügt."
+    ),
+    "finding.correction.precision": (
+        "Jeder Wert wurde auf dem Diagramm beschriftet, mit einem Hinweis auf den Grund."
+    ),
+    "finding.correction.colour-distinct": (
+        "Das Diagramm wurde mit der Hauspalette statt der eigenen gezeichnet."
+    ),
+    "finding.correction.colour-contrast": (
+        "Das Diagramm wurde mit der Hauspalette statt der eigenen gezeichnet."
+    ),
+    "finding.correction.source-line": (
+        "Die Quellenzeile nennt stattdessen den Datensatz und den Verantwortlichen des Berichts."
+    ),
 }

@@ -458,4 +458,55 @@ WORDS: dict[str, str] = {
     "finding.span_zero": (
         "The values span only {share} of the value axis (it starts at zero), which flattens the line."
     ),
+    "finding.waived_by": "Waived by {by}.",
+    "finding.waiver_expired": "A waiver expired on {date} and no longer applies.",
+    "finding.correction.expected-parts-shown": (
+        "Each missing part was added to the chart as 'expected, no data'."
+    ),
+    "finding.correction.shares-sum-to-100": (
+        "The labels were recomputed by the largest-remainder method (equal remainders go to the part "
+        "first in the data)."
+    ),
+    "finding.correction.pie-readable": "The parts were drawn as zero-based bars, largest first, instead.",
+    "finding.correction.series-count": (
+        "The focus series was highlighted and the others drawn in grey; without a focus, the series "
+        "were split into panels on one shared scale."
+    ),
+    "finding.correction.bar-zero-baseline": "Bars were drawn from zero instead.",
+    "finding.correction.missing-periods": (
+        "The line was broken at each missing period and marked 'no data'."
+    ),
+    "finding.correction.partial-period": (
+        "The last period was drawn hollow and labelled with its completeness."
+    ),
+    "finding.correction.estimates-distinct": (
+        "The estimates were drawn dashed, labelled and listed on the chart."
+    ),
+    "finding.correction.delta-verdict": (
+        "The verdict on the latest change, with its limits, was recomputed from the data and attached."
+    ),
+    "finding.correction.uncertainty": (
+        "Each interval was drawn and a line saying whether the differences are real was added to the "
+        "chart."
+    ),
+    "finding.correction.reading-guide": "The reading guide for the form was added to the chart.",
+    "finding.correction.fit-on-request": (
+        "The line was drawn as the definition asked: the least-squares fit with its r², or no line."
+    ),
+    "finding.correction.log-scale-noted": "A note saying the scale is logarithmic was added to the chart.",
+    "finding.correction.many-points": (
+        "Each long series was reduced with M4 (first, last, lowest and highest point of every pixel "
+        "column, each drawn segment on its own), which draws the same line."
+    ),
+    "finding.correction.nonzero-scale-noted": (
+        "A note saying where the scale starts was added to the chart."
+    ),
+    "finding.correction.precision": "Each value was labelled on the chart, with a note saying why.",
+    "finding.correction.colour-distinct": (
+        "The chart was drawn with the house palette instead of the custom one."
+    ),
+    "finding.correction.colour-contrast": (
+        "The chart was drawn with the house palette instead of the custom one."
+    ),
+    "finding.correction.source-line": "The source line names the dataset and the report's owner instead.",
 }

@@ -19,6 +19,8 @@ from typing import Any
 import pytest
 
 from service.checks.outcome import Checked
+from service.checks.registry import CHECKS
+from service.wording import en
 from tests.factories import Json, make_definition, make_report, run_checks
 
 LABELS = {
@@ -341,3 +343,21 @@ def test_the_check_catches_what_it_is_for() -> None:
     assert "column name 'kpiTotal'" in found
     assert "double space" in found
     assert "doubled punctuation" in found
+
+
+def test_every_finding_is_in_the_reports_language() -> None:
+    english = run_checks(definition("en-GB", 1))
+    german = run_checks(definition("de-DE", 1))
+    same = [
+        f"{e.chart} {e.check}: {e.explanation}"
+        for en_chart, de_chart in zip(english.charts, german.charts, strict=True)
+        for e, d in zip(en_chart.results, de_chart.results, strict=True)
+        if e.explanation == d.explanation
+    ]
+    assert same == []
+
+
+def test_the_catalogue_holds_each_correction_as_the_registry_states_it() -> None:
+    for spec in CHECKS.values():
+        if spec.correction is not None:
+            assert en.WORDS[f"finding.correction.{spec.id}"] == spec.correction
