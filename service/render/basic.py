@@ -182,7 +182,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             if plan.value_labels:
                 for x, y in zip(xs, ys, strict=True):
                     ax.annotate(
-                        formatting.number(y, plan.locale),
+                        formatting.number(y, plan.locale, digits=axis.writes.decimals),
                         xy=(x, y),
                         xytext=(0, 4),
                         textcoords="offset points",
