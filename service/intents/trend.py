@@ -148,7 +148,10 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     present = timeseries.extremes(np.concatenate(measured), positive=log)
     lo, hi = scales.fit_log(present) if log else scales.fit(present, include_zero=chart.from_zero)
     first = chart.measures[0]
-    label = unit if len(chart.measures) > 1 else formatting.titled(table.label(first), unit)
+    if len(chart.measures) > 1:
+        label = formatting.humanise(unit)  # the series are named by their end labels
+    else:
+        label = formatting.titled(table.label(first), unit)
     scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log, style=table.style(first))
     if not (scale.includes_zero or log):
         notes.append(scale_note(scale, locale))

@@ -79,7 +79,7 @@ WORDS: dict[str, str] = {
     "text.signal_rules": "{period}: signal (rules {rules})",
     "text.measure_in_unit": "{name} in {unit}",
     "text.change_since": "% change since {base}",
-    "text.index_unit": "index ({base} = 100)",
+    "text.index_unit": "Index ({base} = 100)",
     "text.base_line": "{base} = {value}",
     "text.change_opening": "Change since {base}, in %.",
     "text.index_opening": "Indexed: {base} = 100.",

@@ -479,7 +479,7 @@ def test_key_figures_of_the_demo(built: Built) -> None:
     cost = {r["month"]: r["operating_cost"] for r in datasets["cost_and_use"]["rows"]}
     (operating, _boardings) = figures["cost-vs-use"]
     assert operating.value == pytest.approx(cost["2026-10-01"] / cost["2025-12-01"] * 100)
-    assert (operating.unit, operating.period) == ("index (Dec 2025 = 100)", "Oct 2026")
+    assert (operating.unit, operating.period) == ("Index (Dec 2025 = 100)", "Oct 2026")
 
 
 def test_a_series_with_only_a_partial_period_gives_that_period_marked(limits: Limits) -> None:
