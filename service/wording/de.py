@@ -160,7 +160,7 @@ WORDS: dict[str, str] = {
     "text.source_unstated": "Datensatz „{dataset}“, geliefert von {owner}; keine Quelle angegeben.",
     # -- appendix ----------------------------------------------------------------------------------
     # -- checks' findings --------------------------------------------------------------------------
-    "finding.estimate_series": "{count} Schätzreihen",
+    "finding.estimate_series": "Schätzreihen: {count}",
     "finding.estimates_ok": (
         "Gestrichelt gezeichnet, beschriftet und aufgeführt: {names}; nie mit den Istwerten verbunden."
     ),
@@ -327,20 +327,20 @@ WORDS: dict[str, str] = {
     "finding.other_grey": "{count} weitere in Grau",
     "finding.others_grey": "{count} weitere in Grau",
     "finding.highlighted": "hervorgehoben {names}, {others}",
-    "finding.count_series": "{count} Reihen",
+    "finding.count_series": "Reihen: {count}",
     "finding.highlighted_ok": (
         "Hervorgehoben: {names}; die {others} sind Kontext und müssen nicht unterschieden werden."
     ),
-    "finding.series_ok": "{count} farbcodierte Reihen (höchstens {most}): Jede lässt sich unterscheiden.",
+    "finding.series_ok": "Farbcodierte Reihen: {count} (höchstens {most}); jede lässt sich unterscheiden.",
     "finding.series_too_many": (
         "{count} Reihen werden allein durch Farbe unterschieden, mehr als die {most}, die Lesende "
         "zuverlässig ihren Beschriftungen zuordnen können."
     ),
-    "finding.units_differ": "die Einheiten unterscheiden sich ({differ})",
-    "finding.only_change": "nur die Veränderung wird verglichen",
+    "finding.units_differ": "sich die Einheiten unterscheiden ({differ})",
+    "finding.only_change": "nur die Veränderung verglichen wird",
     "finding.aligned_panels": "ausgerichtete Felder mit je eigener Skala",
-    "finding.indexed_change": "indexiert als Veränderung in % seit {base}",
-    "finding.indexed_100": "indexiert auf {base} = 100",
+    "finding.indexed_change": "Veränderung in % seit {base}",
+    "finding.indexed_100": "Index mit {base} = 100",
     "finding.drawn_instead": (
         "Gezeichnet als {chosen}, weil {why}: nie zwei y-Achsen, denn mit der Wahl zweier Skalen "
         "ließen sich beliebige zwei Linien scheinbar kreuzen oder gleichlaufen."
@@ -475,7 +475,7 @@ WORDS: dict[str, str] = {
         "Die Daten wiederholen sich alle {span} (Autokorrelation {r} bei Verschiebung {lag}, über "
         "{bar})"
     ),
-    "finding.cycle_shown": "Zyklus von {span}; {window} gezeigt",
+    "finding.cycle_shown": "Zyklus: {span}; gezeigt: {window}",
     "finding.too_few_cycles": (
         "das Diagramm zeigt nur {window}, weniger als zwei Zyklen: mindestens {least} zeigen, damit "
         "der Zyklus nicht als Trend gelesen wird"
@@ -574,4 +574,31 @@ WORDS: dict[str, str] = {
     "finding.correction.source-line": (
         "Die Quellenzeile nennt stattdessen den Datensatz und den Verantwortlichen des Berichts."
     ),
+    "finding.measured.none": "keine",
+    "finding.measured.given": "angegeben",
+    "finding.measured.one_colour": "eine Farbe",
+    "finding.measured.no_cycle": "kein Zyklus",
+    "finding.measured.log": "logarithmisch",
+    "finding.measured.linear": "linear",
+    "finding.measured.signal": "Signal",
+    "finding.measured.routine_variation": "übliche Schwankung",
+    "finding.measured.too_little_history": "zu wenig Verlauf",
+    "finding.measured.complete": "abgeschlossen",
+    "finding.measured.log_not_noted": "logarithmisch, nicht vermerkt",
+    "finding.measured.no_verdict": "kein Urteil",
+    "finding.measured.wrong_verdict": "falsches Urteil",
+    "finding.measured.wrong_limits": "falsche Grenzen",
+    "finding.measured.no_line": "keine Linie",
+    "finding.measured.line_not_asked_for": "Linie nicht verlangt",
+    "finding.measured.not_the_least_squares_line": "nicht die Ausgleichsgerade",
+    "finding.measured.r²_not_shown": "r² nicht gezeigt",
+    "finding.measured.no_bins": "keine Klassen",
+    "finding.measured.a_bin_of_no_width": "eine Klasse ohne Breite",
+    "finding.measured.bins_apart": "Klassen getrennt",
+    "finding.measured.several_lines": "mehrere Zeilen",
+    "finding.measured.wrong": "falsch",
+    "finding.measured.too_short_to_test": "zu kurz zum Prüfen",
+    "finding.measured.no_uncertainty_given": "keine Unsicherheit angegeben",
+    "finding.measured.undecided": "unentschieden",
+    "finding.measured.no_values": "keine Werte",
 }
