@@ -21,7 +21,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, Scale, Series
@@ -110,41 +110,25 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     locale = ctx.locale
     shown_drawn = formatting.number(drawn, locale, digits=2)
     m = _median_slope(plan)
+    drawn_text = wording.say("finding.drawn_ratio", locale, drawn=shown_drawn)
     if m is None:
-        return Finding(
-            True,
-            None,
-            "The lines have no slope to bank (flat, or fewer than two joined points).",
-            f"drawn {shown_drawn}",
-        )
+        return Finding(True, None, wording.say("finding.no_slope", locale), drawn_text)
     suggested = 1.0 / m
     shown_suggested = formatting.number(suggested, locale, digits=2 if suggested >= 0.1 else 3)
-    shown = f"suggests {shown_suggested}; drawn {shown_drawn}"
-    start = f"Banking to 45° suggests height/width {shown_suggested}; drawn {shown_drawn}"
+    ratios = {"suggested": shown_suggested, "drawn": shown_drawn}
+    shown = wording.say("finding.suggests", locale, **ratios)
     if suggested / FACTOR <= drawn <= suggested * FACTOR:
-        return Finding(
-            True,
-            round(suggested, 4),
-            f"{start}: within a factor of 2, so the median slope is drawn near 45°.",
-            shown,
-        )
-    looks = "steeper" if drawn > suggested else "flatter"
-    remedy = "wider or shorter" if drawn > suggested else "taller or narrower"
+        detail = wording.say("finding.banking_ok", locale, **ratios)
+        return Finding(True, round(suggested, 4), detail, shown)
+    key = "finding.banking_steep" if drawn > suggested else "finding.banking_flat"
+    detail = wording.say(key, locale, **ratios)
     share = data_share(plan)
-    zero = " (it starts at zero)" if plan.value_axis.lo == 0 and not plan.panels else ""
-    why = (
-        f" The values span only {round(share * 100)} % of the value axis{zero}, which flattens "
-        "the line."
-        if drawn < suggested and share < 0.5
-        else ""
-    )
-    return Finding(
-        False,
-        round(suggested, 4),
-        f"{start} — slopes look {looks} than they are; a {remedy} chart would show changes of "
-        f"slope more clearly (advice: 45° is not always best).{why}",
-        shown,
-    )
+    if drawn < suggested and share < 0.5:
+        zero = plan.value_axis.lo == 0 and not plan.panels
+        span = formatting.percent(round(share * 100), locale)
+        why = wording.say("finding.span_zero" if zero else "finding.span", locale, share=span)
+        detail = wording.sentence(detail, why)
+    return Finding(False, round(suggested, 4), detail, shown)
 
 
 SPEC = register(

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from service import formatting
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.intents import intents_drawing, scales
 from service.intents.compare import truncation_note
@@ -12,14 +12,13 @@ from service.intents.plan import ChartPlan
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     base = plan.baseline or 0.0
     if base == 0.0:
-        return Finding(True, 0.0, "Bars start at zero.", "0")
-    shown = formatting.with_unit(base, plan.value_axis.unit, ctx.locale)
+        return Finding(True, 0.0, wording.say("finding.bars_from_zero", ctx.locale), "0")
+    shown = plan.value_axis.shown(base, ctx.locale)
     return Finding(
         False,
         base,
-        f"The definition asked for bars starting at {shown}, which would "
-        "make their lengths exaggerate the differences.",
-        f"starts at {shown}",
+        wording.say("finding.bars_asked_from", ctx.locale, start=shown),
+        wording.say("finding.starts_at", ctx.locale, start=shown),
     )
 
 

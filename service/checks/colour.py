@@ -11,7 +11,7 @@ thresholds. A breach on a custom palette is corrected by drawing with the house 
 
 from __future__ import annotations
 
-from service import colour_math
+from service import colour_math, formatting, wording
 from service import palette as house
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS
@@ -32,12 +32,6 @@ BACKGROUND = "#ffffff"
 TEXT_COLOURS = {"ink": house.INK, "muted text": house.MUTED, "flag": house.FLAG}
 
 _SERIES_FORMS = frozenset({"lines", "control"})
-_VISION_WORDS = {
-    "normal": "normal colour vision",
-    "protan": "simulated protan (red-blind) vision",
-    "deutan": "simulated deutan (green-blind) vision",
-    "tritan": "simulated tritan (blue-blind) vision",
-}
 
 
 def palette_of(plan: ChartPlan) -> list[str]:
@@ -91,8 +85,9 @@ def mark_colours(plan: ChartPlan) -> list[str]:
 
 def _distinct(plan: ChartPlan, ctx: Context) -> Finding:
     groups = [g for g in colour_groups(plan) if len(g) > 1]
+    locale = plan.locale
     if not groups:
-        return Finding(True, None, "The chart's marks use one colour.", "one colour")
+        return Finding(True, None, wording.say("finding.one_colour", locale), "one colour")
     colours = max(groups, key=len)
     found = [
         (*colour_math.min_pairwise_difference(group, vision), vision)
@@ -101,27 +96,25 @@ def _distinct(plan: ChartPlan, ctx: Context) -> Finding:
     ]
     difference, pair, vision = min(found, key=lambda f: f[0])
     first, second = pair or (colours[0], colours[1])
-    shown = f"ΔE00 {difference:.1f} ({vision})"
-    seen = _VISION_WORDS[vision]
+    shown = f"ΔE00 {formatting.number(difference, locale, digits=1)} ({vision})"
+    words = {
+        "count": len(colours),
+        "difference": formatting.number(difference, locale, digits=1),
+        "first": first,
+        "second": second,
+        "seen": wording.say(f"finding.vision_{vision}", locale),
+        "least": formatting.number(MIN_DIFFERENCE, locale, digits=0),
+    }
     if difference >= MIN_DIFFERENCE:
-        return Finding(
-            True,
-            round(difference, 2),
-            f"The {len(colours)} colours stay at least ΔE00 {difference:.1f} apart under normal, "
-            f"protan, deutan and tritan vision (closest: {first} and {second}, with {seen}).",
-            shown,
-        )
-    if first == second:
-        detail = (
-            f"Two marks share the colour {first}: the palette has fewer colours than the chart "
-            "has marks."
-        )
-    else:
-        detail = (
-            f"{first} and {second} are only ΔE00 {difference:.1f} apart with {seen} (at least "
-            f"{MIN_DIFFERENCE:.0f} is needed): readers cannot tell those marks apart."
-        )
-    return Finding(False, round(difference, 2), detail, shown)
+        detail = wording.say("finding.colours_apart", locale, **words)
+        return Finding(True, round(difference, 2), detail, shown)
+    key = "finding.colour_shared" if first == second else "finding.colours_close"
+    return Finding(False, round(difference, 2), wording.say(key, locale, **words), shown)
+
+
+def _text_name(name: str, locale: str) -> str:
+    """A text colour's role in words ("ink", "muted text", "flag")."""
+    return wording.say("finding.text_" + name.replace(" ", "_"), locale)
 
 
 def _contrast(plan: ChartPlan, ctx: Context) -> Finding:
@@ -131,30 +124,33 @@ def _contrast(plan: ChartPlan, ctx: Context) -> Finding:
     texts = {n: colour_math.contrast_ratio(c, BACKGROUND) for n, c in TEXT_COLOURS.items()}
     lowest = min(marks, key=lambda c: marks[c])
     low_text = min(texts, key=lambda n: texts[n])
-    shown = f"marks {marks[lowest]:.2f}:1, text {texts[low_text]:.2f}:1"
-    weak = [f"{c} ({r:.2f}:1)" for c, r in marks.items() if r < MIN_MARK_CONTRAST]
+    locale = plan.locale
+
+    def ratio(value: float) -> str:
+        return f"{formatting.number(value, locale, digits=2)}:1"
+
+    shown = wording.say(
+        "finding.contrasts", locale, marks=ratio(marks[lowest]), text=ratio(texts[low_text])
+    )
+    weak = [f"{c} ({ratio(r)})" for c, r in marks.items() if r < MIN_MARK_CONTRAST]
     weak_text = [
-        f"{n} {TEXT_COLOURS[n]} ({r:.2f}:1)" for n, r in texts.items() if r < MIN_TEXT_CONTRAST
+        f"{_text_name(n, locale)} {TEXT_COLOURS[n]} ({ratio(r)})"
+        for n, r in texts.items()
+        if r < MIN_TEXT_CONTRAST
     ]
     if not weak and not weak_text:
-        return Finding(
-            True,
-            round(marks[lowest], 2),
-            f"Every mark colour has at least {marks[lowest]:.2f}:1 contrast on white, and text "
-            f"at least {texts[low_text]:.2f}:1.",
-            shown,
+        detail = wording.say(
+            "finding.contrast_ok", locale, marks=ratio(marks[lowest]), text=ratio(texts[low_text])
         )
+        return Finding(True, round(marks[lowest], 2), detail, shown)
     parts = []
     if weak:
-        parts.append(f"mark colours {', '.join(weak)} are below 3:1 on white")
+        parts.append(wording.say("finding.marks_weak", locale, colours=", ".join(weak)))
     if weak_text:
-        parts.append(f"text colours {', '.join(weak_text)} are below 4.5:1 on white")
-    return Finding(
-        False,
-        round(marks[lowest], 2),
-        f"{'; '.join(parts).capitalize()}: they are hard to see.",
-        shown,
-    )
+        parts.append(wording.say("finding.text_weak", locale, colours=", ".join(weak_text)))
+    text = "; ".join(parts)
+    detail = wording.say("finding.hard_to_see", locale, parts=text[:1].upper() + text[1:])
+    return Finding(False, round(marks[lowest], 2), detail, shown)
 
 
 def _house_palette(plan: ChartPlan, ctx: Context) -> ChartPlan:

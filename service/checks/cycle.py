@@ -22,6 +22,7 @@ from statistics import NormalDist
 import numpy as np
 import numpy.typing as npt
 
+from service import formatting, wording
 from service.checks.missing import measures_of
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
@@ -31,12 +32,13 @@ from service.intents.plan import ChartPlan, all_series
 MIN_POINTS = 8
 FAMILY_ERROR = 0.05
 _SAME_PHASE = {
-    ("month", 12): "the same month a year earlier",
-    ("quarter", 4): "the same quarter a year earlier",
-    ("week", 52): "the same week a year earlier",
-    ("week", 53): "the same week a year earlier",
-    ("day", 7): "the same day a week earlier",
+    ("month", 12): "finding.same_month",
+    ("quarter", 4): "finding.same_quarter",
+    ("week", 52): "finding.same_week",
+    ("week", 53): "finding.same_week",
+    ("day", 7): "finding.same_day",
 }
+"""Catalogue keys for the period one cycle back, where it has a name of its own."""
 
 
 Values = Sequence[float | None] | npt.NDArray[np.float64]
@@ -173,48 +175,65 @@ def histories(plan: ChartPlan, ctx: Context) -> list[npt.NDArray[np.float64]]:
     return _on_axis(plan)
 
 
-def _span(n: int, unit: str) -> str:
-    return f"{n} {unit}{'' if n == 1 else 's'}"
+def _span(n: int, unit: str, locale: str) -> str:
+    """A number of periods in words: "12 months", "1 Woche"."""
+    return wording.say(f"finding.{unit}_{'one' if n == 1 else 'many'}", locale, count=n)
 
 
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     found = histories(plan, ctx)
+    locale = ctx.locale
     if max((int(np.count_nonzero(~np.isnan(h))) for h in found), default=0) < MIN_POINTS:
-        return Finding(
-            True,
-            "too short to test",
-            f"Fewer than {MIN_POINTS} values: too short to look for a cycle.",
-        )
+        detail = wording.say("finding.too_short_cycle", locale, count=MIN_POINTS)
+        return Finding(True, "too short to test", detail)
     cycles = [c for c in map(dominant_cycle, found) if c is not None]
     if not cycles:
-        return Finding(True, "no cycle", "No repeating cycle was found in the data.", "no cycle")
+        return Finding(True, "no cycle", wording.say("finding.no_cycle", locale), "no cycle")
     cycle = max(cycles, key=lambda c: c.r)
     unit = str(ctx.table.frequency or "period")
     window = len(plan.periods)
-    evidence = (
-        f"The data repeat every {_span(cycle.lag, unit)} (autocorrelation {cycle.r:.2f} at lag "
-        f"{cycle.lag}, above {cycle.bar:.2f})"
+    evidence = wording.say(
+        "finding.cycle_evidence",
+        locale,
+        span=_span(cycle.lag, unit, locale),
+        r=formatting.number(cycle.r, locale, digits=2),
+        lag=cycle.lag,
+        bar=formatting.number(cycle.bar, locale, digits=2),
     )
-    shown = f"{_span(cycle.lag, unit)} cycle; {_span(window, unit)} shown"
+    shown = wording.say(
+        "finding.cycle_shown",
+        locale,
+        span=_span(cycle.lag, unit, locale),
+        window=_span(window, unit, locale),
+    )
     advice = []
     if window < 2 * cycle.lag:
         advice.append(
-            f"the chart shows only {_span(window, unit)}, fewer than two cycles: show at least "
-            f"{_span(2 * cycle.lag, unit)} so the cycle is not read as a trend"
+            wording.say(
+                "finding.too_few_cycles",
+                locale,
+                window=_span(window, unit, locale),
+                least=_span(2 * cycle.lag, unit, locale),
+            )
         )
     if plan.intent == "movement" and plan.verdicts and 1 % cycle.lag != 0:
         i = plan.verdicts[0].index
-        same = _SAME_PHASE.get((unit, cycle.lag), f"the same point of the cycle, {cycle.lag} back")
-        pair = f"{plan.periods[i - 1]} with {plan.periods[i]}" if i > 0 else "consecutive periods"
-        advice.append(
-            f"the latest change compares {pair}, which sit at different points of the cycle: "
-            f"compare with {same} as well"
-        )
+        key = _SAME_PHASE.get((unit, cycle.lag), "finding.same_point")
+        same = wording.say(key, locale, lag=cycle.lag)
+        if i > 0:
+            pair = wording.say(
+                "finding.pair", locale, before=plan.periods[i - 1], after=plan.periods[i]
+            )
+        else:
+            pair = wording.say("finding.consecutive", locale)
+        advice.append(wording.say("finding.compare_phase", locale, pair=pair, same=same))
     if not advice:
-        return Finding(
-            True, cycle.lag, f"{evidence}; the chart shows {window // cycle.lag} cycles.", shown
+        detail = wording.say(
+            "finding.cycles_shown", locale, evidence=evidence, count=window // cycle.lag
         )
-    return Finding(False, cycle.lag, f"{evidence}, but " + "; and ".join(advice) + ".", shown)
+        return Finding(True, cycle.lag, detail, shown)
+    detail = wording.say("finding.cycle_but", locale, evidence=evidence, advice="; ".join(advice))
+    return Finding(False, cycle.lag, detail, shown)
 
 
 SPEC = register(

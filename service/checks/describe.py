@@ -7,26 +7,17 @@ by :func:`describe` only when the plan has none (the author's own text is kept a
 
 from __future__ import annotations
 
-from service import formatting
+from service import formatting, wording
 from service.checks.results import CheckResult, Status
-from service.intents.plan import ChartPlan
+from service.intents.plan import ChartPlan, all_series
 
-_FORM_WORDS = {
-    "bars": "Bar chart",
-    "dots": "Dot chart",
-    "deviation": "Chart of differences from target",
-    "pie": "Pie chart",
-    "lines": "Line chart",
-    "control": "Chart of values against their natural process limits",
-    "panels": "Aligned panels",
-    "histogram": "Histogram",
-    "box": "Box plot",
-    "scatter": "Scatter plot",
-}
+
+def _say(plan: ChartPlan, key: str, **values: object) -> str:
+    return wording.say(key, plan.locale, **values)
 
 
 def _value(plan: ChartPlan, value: float | None) -> str:
-    return formatting.with_unit(value, plan.value_axis.unit, plan.locale)
+    return plan.value_axis.shown(value, plan.locale)
 
 
 def _categories(plan: ChartPlan) -> list[str]:
@@ -36,86 +27,132 @@ def _categories(plan: ChartPlan) -> list[str]:
     top = max(present, key=lambda c: c.value or 0.0)
     low = min(present, key=lambda c: c.value or 0.0)
     count = len(plan.categories)
-    words = [f"{count} {'category' if count == 1 else 'categories'}"]
+    words = [_say(plan, "text.one_category" if count == 1 else "text.categories", count=count)]
     if top is not low:
-        words.append(f"highest {top.label} ({_value(plan, top.value)})")
-        words.append(f"lowest {low.label} ({_value(plan, low.value)})")
+        words.append(_say(plan, "text.highest", name=top.label, value=_value(plan, top.value)))
+        words.append(_say(plan, "text.lowest", name=low.label, value=_value(plan, low.value)))
     missing = [c.label for c in plan.categories if c.value is None]
     if missing:
-        words.append("no data for " + ", ".join(missing))
+        words.append(_say(plan, "text.no_data_for", names=", ".join(missing)))
     return words
 
 
 def _series(plan: ChartPlan) -> list[str]:
-    series = plan.series or [s for p in plan.panels for s in p.series]
+    series = all_series(plan)
     if not series or not plan.periods:
         return []
-    words = [f"{plan.periods[0]} to {plan.periods[-1]}"]
+    first_period, last_period = plan.periods[0], plan.periods[-1]
+    if first_period == last_period:
+        words = [_say(plan, "text.one_period", period=first_period)]
+    else:
+        words = [_say(plan, "text.period_range", first=first_period, last=last_period)]
     for s in series:
         values = [(i, v) for i, v in enumerate(s.values) if v is not None]
         if not values:
             continue
         first, last = values[0], values[-1]
-        xs = s.xs or list(range(len(s.values)))
-        unit = s.unit
+        xs = s.positions()
+        style = _style_of(plan, s.unit)
+        if first[0] == last[0]:
+            words.append(
+                _say(
+                    plan,
+                    "text.series_one",
+                    name=s.title,
+                    value=formatting.show(first[1], style, plan.locale),
+                    period=plan.periods[xs[first[0]]],
+                )
+            )
+            continue
         words.append(
-            f"{s.name} from {formatting.with_unit(first[1], unit, plan.locale)} "
-            f"({plan.periods[xs[first[0]]]}) to {formatting.with_unit(last[1], unit, plan.locale)} "
-            f"({plan.periods[xs[last[0]]]})"
+            _say(
+                plan,
+                "text.series_from_to",
+                name=s.title,
+                first=formatting.show(first[1], style, plan.locale),
+                first_period=plan.periods[xs[first[0]]],
+                last=formatting.show(last[1], style, plan.locale),
+                last_period=plan.periods[xs[last[0]]],
+            )
         )
     if plan.gaps:
-        words.append(
-            "no data for "
-            + ", ".join(plan.periods[g.index] for g in plan.gaps[:6])
-            + (" and more" if len(plan.gaps) > 6 else "")
-        )
+        names = ", ".join(plan.periods[g.index] for g in plan.gaps[:6])
+        key = "text.no_data_for_more" if len(plan.gaps) > 6 else "text.no_data_for"
+        words.append(_say(plan, key, names=names))
     if plan.partial is not None:
-        words.append(f"{plan.periods[plan.partial.index]} is partial ({plan.partial.text})")
+        period = plan.periods[plan.partial.index]
+        words.append(_say(plan, "text.partial_period", period=period, done=plan.partial.text))
     return words
+
+
+def _style_of(plan: ChartPlan, unit: str) -> formatting.Style:
+    """How a series' values are written: its axis's style when the units agree."""
+    axes = [plan.value_axis, *(p.value_axis for p in plan.panels)]
+    return next((a.writes for a in axes if a.unit == unit), formatting.style_for(unit))
 
 
 def _shape(plan: ChartPlan) -> str:
     """What histograms, box plots and scatter plots hold, which categories and series do not say."""
-    if plan.bins:
+    locale = plan.locale
+    if plan.bins and plan.x_axis is not None:
+        axis = plan.x_axis
         total = sum(b.count for b in plan.bins)
         top = max(plan.bins, key=lambda b: b.count)
-        unit = plan.x_axis.unit if plan.x_axis else ""
-        lo = formatting.with_unit(plan.bins[0].lo, unit, plan.locale)
-        hi = formatting.with_unit(plan.bins[-1].hi, unit, plan.locale)
-        most = (
-            f"{formatting.number(top.lo, plan.locale)} to "
-            f"{formatting.with_unit(top.hi, unit, plan.locale)}"
-        )
-        return (
-            f" {total} values, in bins from {lo} to {hi}; the fullest bin is {most} ({top.count})."
+        return _say(
+            plan,
+            "text.bins",
+            total=formatting.number(total, locale),
+            lo=axis.shown(plan.bins[0].lo, locale),
+            hi=axis.shown(plan.bins[-1].hi, locale),
+            top_lo=formatting.number(top.lo, locale),
+            top_hi=axis.shown(top.hi, locale),
+            count=formatting.number(top.count, locale),
         )
     if plan.boxes:
-        medians = "; ".join(
-            f"{b.label}: median {_value(plan, b.median)}, middle half "
-            f"{formatting.number(b.q1, plan.locale)} to {_value(plan, b.q3)} (n = {b.n})"
+        return "; ".join(
+            _say(
+                plan,
+                "text.box",
+                name=b.label,
+                median=_value(plan, b.median),
+                q1=formatting.number(b.q1, locale),
+                q3=_value(plan, b.q3),
+                n=formatting.number(b.n, locale),
+            )
             for b in plan.boxes
         )
-        return f" {medians}."
     if plan.points:
-        fit = f"; r² = {plan.fit.r2:.2f}" if plan.fit else ""
-        return f" {len(plan.points)} points{fit}."
+        count = formatting.number(len(plan.points), locale)
+        if plan.fit is None:
+            return _say(plan, "text.points", count=count)
+        r2 = formatting.number(plan.fit.r2, locale, digits=2)
+        return _say(plan, "text.points_fit", count=count, r2=r2)
     return ""
 
 
 def describe(plan: ChartPlan, results: list[CheckResult]) -> str:
     """A plain-language description of the chart for readers who cannot see it."""
-    opening = f"{_FORM_WORDS.get(plan.form, 'Chart')}: {plan.title}."
+    form = _say(plan, f"text.form_{plan.form}")
     parts = _categories(plan) + _series(plan)
-    text = opening + (" " + "; ".join(parts) + "." if parts else "")
-    text += _shape(plan)
+    sentences = [wording.sentence(_say(plan, "text.opening", form=form, title=plan.title))]
+    if parts:
+        sentences.append(wording.sentence(_capital("; ".join(parts))))
+    shape = _shape(plan)
+    if shape:
+        sentences.append(wording.sentence(_capital(shape)))
     if plan.guide:
-        text += f" {plan.guide}"
-    text += "".join(f" {v.text}." for v in plan.verdicts)
-    text += "".join(f" {note}" for note in plan.notes)
+        sentences.append(wording.sentence(plan.guide))
+    sentences += [wording.sentence(v.text) for v in plan.verdicts]
+    sentences += [wording.sentence(note) for note in plan.notes]
     corrected = [r.check for r in results if r.status is Status.corrected]
     failed = [r.check for r in results if r.status is Status.failed]
     if corrected:
-        text += f" Corrected by the checks: {', '.join(corrected)}."
+        sentences.append(_say(plan, "text.corrected_by", checks=", ".join(corrected)))
     if failed:
-        text += f" Failed checks: {', '.join(failed)}."
-    return text
+        sentences.append(_say(plan, "text.failed_checks", checks=", ".join(failed)))
+    return " ".join(s for s in sentences if s)
+
+
+def _capital(text: str) -> str:
+    """A sentence begins with a capital letter."""
+    return text[:1].upper() + text[1:]

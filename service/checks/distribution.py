@@ -13,18 +13,17 @@ from __future__ import annotations
 import itertools
 import math
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import DistributionChart, RelationshipChart
 from service.intents import distribution, relationship
 from service.intents.plan import ChartPlan, Fit
 
-#: A guide for a form, when the chart definition cannot supply a fuller one.
+#: A guide for a form (its catalogue key), when the chart definition cannot supply a fuller one.
 GENERIC_GUIDES = {
-    "histogram": "Each bar counts the values between its edges.",
-    "box": distribution.box_guide("measured"),
-    "scatter": "Each dot is one row: further right means more of the horizontal measure, higher "
-    "means more of the vertical one.",
+    "histogram": "text.generic_histogram_guide",
+    "box": "text.generic_box_guide",
+    "scatter": "text.generic_scatter_guide",
 }
 #: Bin widths (and joins) may differ by this share of the histogram's whole range: float dust only.
 BIN_TOLERANCE = 1e-9
@@ -34,22 +33,23 @@ def guide_for(plan: ChartPlan, ctx: Context) -> str:
     chart = ctx.chart
     if plan.form == "histogram" and isinstance(chart, DistributionChart):
         total = sum(b.count for b in plan.bins)
-        return distribution.histogram_guide(chart.measure, total, plan.locale)
+        return distribution.histogram_guide(ctx.table.label(chart.measure), total, plan.locale)
     if plan.form == "box" and isinstance(chart, DistributionChart):
-        return distribution.box_guide(chart.measure)
+        return distribution.box_guide(ctx.table.label(chart.measure), plan.locale)
     if plan.form == "scatter" and isinstance(chart, RelationshipChart):
-        return relationship.guide(chart, plan.fit, plan.locale)
-    return GENERIC_GUIDES[plan.form]
+        return relationship.guide(chart, ctx.table, plan.fit, plan.locale)
+    return wording.say(GENERIC_GUIDES[plan.form], plan.locale)
 
 
 def _guide(plan: ChartPlan, ctx: Context) -> Finding:
     text = (plan.guide or "").strip()
     words = len(text.split())
+    locale = plan.locale
     if not text:
-        return Finding(False, 0, "The chart carries no guide to reading it.", "none")
+        return Finding(False, 0, wording.say("finding.no_guide", locale), "none")
     if "\n" in text:
-        return Finding(False, words, "The reading guide runs over several lines.", "several lines")
-    return Finding(True, words, f"Reading guide: {text}", "given")
+        return Finding(False, words, wording.say("finding.guide_lines", locale), "several lines")
+    return Finding(True, words, wording.say("finding.guide", locale, text=text), "given")
 
 
 def _add_guide(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -83,40 +83,24 @@ def _close(a: Fit, b: Fit) -> bool:
 def _fit(plan: ChartPlan, ctx: Context) -> Finding:
     chart = ctx.chart
     assert isinstance(chart, RelationshipChart)
+    locale = plan.locale
     if not chart.fit:
         if plan.fit is None:
-            return Finding(True, None, "No line is drawn, and none was asked for.", "no line")
-        return Finding(
-            False,
-            round(plan.fit.r2, 4),
-            "A fitted line is drawn, but the definition did not ask for one.",
-            "line not asked for",
-        )
+            return Finding(True, None, wording.say("finding.no_line", locale), "no line")
+        detail = wording.say("finding.line_not_asked", locale)
+        return Finding(False, round(plan.fit.r2, 4), detail, "line not asked for")
     expected = relationship.fit_for(chart, ctx.table)
     if plan.fit is None:
-        return Finding(
-            False, None, "The definition asked for a least-squares line, but none is drawn.", "none"
-        )
+        return Finding(False, None, wording.say("finding.line_missing", locale), "none")
     if expected is None or not _close(plan.fit, expected):
-        return Finding(
-            False,
-            round(plan.fit.r2, 4),
-            "The line drawn is not the least-squares fit of the data.",
-            "not the least-squares line",
-        )
-    text = relationship.r2_text(plan.fit, plan.locale)
+        detail = wording.say("finding.line_wrong", locale)
+        return Finding(False, round(plan.fit.r2, 4), detail, "not the least-squares line")
+    text = relationship.r2_text(plan.fit, locale)
     if not any(text in t for t in [plan.guide or "", *plan.notes]):
-        return Finding(
-            False,
-            round(plan.fit.r2, 4),
-            f"The least-squares line is drawn, but its r² ({text}) is not shown.",
-            "r² not shown",
-        )
+        detail = wording.say("finding.r2_not_shown", locale, r2=text)
+        return Finding(False, round(plan.fit.r2, 4), detail, "r² not shown")
     return Finding(
-        True,
-        round(plan.fit.r2, 4),
-        f"The least-squares line asked for is drawn, with {text}.",
-        text,
+        True, round(plan.fit.r2, 4), wording.say("finding.line_ok", locale, r2=text), text
     )
 
 
@@ -125,7 +109,7 @@ def _refit(plan: ChartPlan, ctx: Context) -> ChartPlan:
     assert isinstance(chart, RelationshipChart)
     fit = relationship.fit_for(chart, ctx.table)
     notes = [n for n in plan.notes if "r²" not in n]
-    guide = relationship.guide(chart, fit, plan.locale)
+    guide = relationship.guide(chart, ctx.table, fit, plan.locale)
     return plan.model_copy(update={"fit": fit, "guide": guide, "notes": notes})
 
 
@@ -150,35 +134,28 @@ SPEC_FIT = register(
 
 def _bins(plan: ChartPlan, ctx: Context) -> Finding:
     bins = plan.bins
+    locale = plan.locale
     if not bins:
-        return Finding(False, None, "The histogram has no bins.", "no bins")
+        return Finding(False, None, wording.say("finding.no_bins", locale), "no bins")
     unit = plan.x_axis.unit if plan.x_axis else ""
     widths = [b.hi - b.lo for b in bins]
     narrow, wide = min(widths), max(widths)
     tolerance = BIN_TOLERANCE * (bins[-1].hi - bins[0].lo)
     if narrow <= 0:
-        return Finding(False, None, "A bin ends where it starts, or before.", "a bin of no width")
+        detail = wording.say("finding.bin_no_width", locale)
+        return Finding(False, None, detail, "a bin of no width")
     ratio = round(wide / narrow, 4)
     joins = [a.hi - b.lo for a, b in itertools.pairwise(bins)]
     if any(abs(j) > tolerance for j in joins):
-        return Finding(
-            False,
-            ratio,
-            "The bins do not meet: a bin starts away from where the last ended.",
-            "bins apart",
-        )
-    narrow_text = formatting.with_unit(narrow, unit, plan.locale)
+        return Finding(False, ratio, wording.say("finding.bins_apart", locale), "bins apart")
+    narrow_text = formatting.with_unit(narrow, unit, locale)
     if wide - narrow > tolerance:
-        wide_text = formatting.with_unit(wide, unit, plan.locale)
-        return Finding(
-            False,
-            ratio,
-            f"Bin widths run from {narrow_text} to {wide_text}: with raw counts, the wider bars "
-            "overstate their share of the values.",
-            f"{narrow_text} to {wide_text}",
-        )
+        wide_text = formatting.with_unit(wide, unit, locale)
+        widths_text = wording.say("finding.from_to", locale, first=narrow_text, last=wide_text)
+        detail = wording.say("finding.bins_uneven", locale, widths=widths_text)
+        return Finding(False, ratio, detail, widths_text)
     return Finding(
-        True, ratio, f"Every bin is {narrow_text} wide, so areas follow the counts.", narrow_text
+        True, ratio, wording.say("finding.bins_even", locale, width=narrow_text), narrow_text
     )
 
 

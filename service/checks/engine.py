@@ -11,10 +11,12 @@ measured it. Both phases find a chart's waiver through :func:`waiver_for`, the o
 
 from __future__ import annotations
 
+import re
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
 from datetime import date
 
+from service import formatting, wording
 from service.checks import describe, layout, registry
 from service.checks.layout import DrawnLabels
 from service.checks.outcome import Checked
@@ -69,24 +71,33 @@ def _run(
                     plan,
                     Status.waived,
                     finding,
-                    f"{finding.detail} Waived by {waiver.by}.",
+                    wording.sentence(
+                        finding.detail, wording.say("finding.waived_by", ctx.locale, by=waiver.by)
+                    ),
                     waiver=record,
                 )
             )
             continue
-        note = (
-            f" A waiver expired on {expired.isoformat()} and no longer applies." if expired else ""
-        )
+        note = ""
+        if expired:
+            note = wording.say("finding.waiver_expired", ctx.locale, date=expired.isoformat())
         if spec.correct is not None:
             corrected = spec.correct(plan, ctx)
             after = spec.measure(corrected, ctx)
             if after.ok:
-                text = f"{finding.detail} {spec.correction}{note}"
+                text = wording.sentence(finding.detail, correction(spec, ctx.locale), note)
                 results.append(_result(spec, plan, Status.corrected, finding, text, after=after))
                 plan = corrected
                 continue
-        results.append(_result(spec, plan, Status.failed, finding, finding.detail + note))
+        text = wording.sentence(finding.detail, note) if note else finding.detail
+        results.append(_result(spec, plan, Status.failed, finding, text))
     return plan
+
+
+def correction(spec: CheckSpec, locale: str) -> str:
+    """What a check's correction did, in the report's language (the registry holds the English)."""
+    key = f"finding.correction.{spec.id}"
+    return wording.say(key, locale) if key in wording.CATALOGUES["en"] else spec.correction or ""
 
 
 def waiver_for(
@@ -140,8 +151,8 @@ def _result(
         chart=plan.chart_id,
         status=status,
         measured=finding.measured,
-        measured_text=_shown(finding),
-        corrected_to=None if after is None else _shown(after),
+        measured_text=_shown(finding, plan.locale),
+        corrected_to=None if after is None else _shown(after, plan.locale),
         threshold=spec.threshold,
         explanation=explanation,
         source=spec.source,
@@ -149,13 +160,22 @@ def _result(
     )
 
 
-def _shown(finding: Finding) -> str:
-    return finding.shown if finding.shown is not None else _plain(finding.measured)
+def _shown(finding: Finding, locale: str) -> str:
+    """The measured value as the appendix prints it; a fixed word ("none", "signal") in the
+    report's language."""
+    text = finding.shown if finding.shown is not None else _plain(finding.measured, locale)
+    key = "finding.measured." + re.sub(r"\W+", "_", text).strip("_")
+    return wording.say(key, locale) if key in wording.CATALOGUES["en"] else text
 
 
-def _plain(value: float | int | str | None) -> str:
+def _plain(value: float | int | str | None, locale: str) -> str:
+    """A measured value without words of its own: four significant digits, in the locale."""
     if value is None:
         return "—"
     if isinstance(value, float):
-        return f"{value:.4g}"
+        rounded = float(f"{value:.4g}")
+        digits = next((d for d in range(7) if round(rounded, d) == rounded), 6)
+        return formatting.number(rounded, locale, digits=digits)
+    if isinstance(value, int) and not isinstance(value, bool):
+        return formatting.number(value, locale)
     return str(value)

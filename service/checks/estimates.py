@@ -8,10 +8,12 @@ diamonds when they are single points), labelled "estimate", and named in a note 
 
 from __future__ import annotations
 
+from service import wording
 from service.checks.missing import measures_of
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, Series, all_series
+from service.intents.trend import estimate_titles, listed
 from service.intents.trend import estimates_note as note_for
 
 
@@ -25,21 +27,23 @@ def _expected(plan: ChartPlan, ctx: Context) -> set[str]:
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     expected = sorted(_expected(plan, ctx))
     if not expected:
-        return Finding(True, 0, "The chart shows actuals only.", "none")
-    flagged = {s.name for s in all_series(plan) if s.estimate}
-    unmarked = [n for n in expected if n not in flagged]
-    listed = note_for(expected) in plan.notes
-    shown = f"{len(expected)} estimate series"
-    if not unmarked and listed:
-        return Finding(
-            True,
-            len(expected),
-            f"Drawn dashed, labelled and listed: "
-            f"{', '.join(expected)}; never joined to the actuals.",
-            shown,
+        return Finding(True, 0, wording.say("finding.actuals_only", plan.locale), "none")
+    series = all_series(plan)
+    flagged = {s.name for s in series if s.estimate}
+    unmarked = estimate_titles(series, {n for n in expected if n not in flagged})
+    titles = estimate_titles(series, set(expected))
+    noted = note_for(titles, plan.locale) in plan.notes
+    shown = wording.say("finding.estimate_series", plan.locale, count=len(expected))
+    if not unmarked and noted:
+        detail = wording.say("finding.estimates_ok", plan.locale, names=listed(titles, plan.locale))
+        return Finding(True, len(expected), wording.sentence(detail), shown)
+    if unmarked:
+        what = wording.say(
+            "finding.estimates_unmarked", plan.locale, names=listed(unmarked, plan.locale)
         )
-    what = f"not drawn as estimates: {', '.join(unmarked)}" if unmarked else "not listed"
-    return Finding(False, len(expected), f"Estimates {what}.", shown)
+    else:
+        what = wording.say("finding.estimates_unlisted", plan.locale)
+    return Finding(False, len(expected), wording.sentence(what), shown)
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -49,7 +53,8 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
         return series.model_copy(update={"estimate": series.estimate or series.name in expected})
 
     panels = [p.model_copy(update={"series": [marked(s) for s in p.series]}) for p in plan.panels]
-    note = note_for(sorted(expected))
+    series = [marked(s) for s in plan.series] + [s for p in panels for s in p.series]
+    note = note_for(estimate_titles(series, expected), plan.locale)
     notes = plan.notes if note in plan.notes else [*plan.notes, note]
     return plan.model_copy(
         update={"series": [marked(s) for s in plan.series], "panels": panels, "notes": notes}

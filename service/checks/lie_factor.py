@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.intents import intents_drawing
 from service.intents.plan import ChartPlan
@@ -57,24 +57,19 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     values, lengths = drawn_lengths(plan)
     factor = worst(values, lengths)
     if factor is None:
-        return Finding(
-            True, None, "Fewer than two distinct non-zero values: no effect to exaggerate."
-        )
-    shown = formatting.number(factor, "en-GB", digits=2)
+        return Finding(True, None, wording.say("finding.no_effect", ctx.locale))
+    shown = formatting.number(factor, ctx.locale, digits=2)
     if LOW <= factor <= HIGH:
-        return Finding(
-            True,
-            round(factor, 4),
-            f"Drawn lengths are proportional to the values (lie factor {shown}).",
-            shown,
-        )
-    return Finding(
-        False,
-        round(factor, 4),
-        f"Drawn lengths exaggerate the differences {shown} times (lie factor {shown}, "
-        f"outside {LOW}–{HIGH}).",
-        shown,
+        detail = wording.say("finding.lengths_proportional", ctx.locale, factor=shown)
+        return Finding(True, round(factor, 4), detail, shown)
+    detail = wording.say(
+        "finding.lengths_exaggerate",
+        ctx.locale,
+        factor=shown,
+        low=formatting.number(LOW, ctx.locale),
+        high=formatting.number(HIGH, ctx.locale),
     )
+    return Finding(False, round(factor, 4), detail, shown)
 
 
 #: The forms drawn with bars from a zero line.

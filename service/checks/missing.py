@@ -7,6 +7,7 @@ for each such period, no line segment spanning it, and a "no data" mark on it.
 
 from __future__ import annotations
 
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
 from service.definition.model import (
@@ -46,47 +47,44 @@ def expected_gaps(ctx: Context) -> tuple[list[str], dict[int, list[str]]]:
 
 
 def _violations(plan: ChartPlan, labels: list[str], gaps: dict[int, list[str]]) -> list[str]:
+    locale = plan.locale
     if plan.periods != labels:
-        return ["the time axis does not hold every expected period"]
+        return [wording.say("finding.axis_lacks_periods", locale)]
     found: list[str] = []
     marked = {g.index: set(g.series) for g in plan.gaps}
     for series in all_series(plan):
         missing = [i for i, names in gaps.items() if series.name in names]
         drawn, joined = series.drawn_at(missing), series.spanned(missing)
         for i, value, across in zip(missing, drawn, joined, strict=True):
+            where = {"name": series.title, "period": labels[i]}
             if value:
-                found.append(f"{series.name} has a value drawn at {labels[i]}")
+                found.append(wording.say("finding.value_drawn_at", locale, **where))
             if across:
-                found.append(f"{series.name} is joined across {labels[i]}")
+                found.append(wording.say("finding.joined_across", locale, **where))
             if series.name not in marked.get(i, set()):
-                found.append(f"{labels[i]} is not marked 'no data' for {series.name}")
+                found.append(wording.say("finding.gap_unmarked", locale, **where))
     return found
 
 
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     labels, gaps = expected_gaps(ctx)
+    locale = plan.locale
     listed = ", ".join(labels[i] for i in list(gaps)[:_LISTED])
-    more = f" and {len(gaps) - _LISTED} more" if len(gaps) > _LISTED else ""
-    noun = "period" if len(gaps) == 1 else "periods"
+    if len(gaps) > _LISTED:
+        listed = wording.say("finding.and_more", locale, listed=listed, more=len(gaps) - _LISTED)
+    count = len(gaps)
+    shown = wording.say("finding.period" if count == 1 else "finding.periods", locale, count=count)
     problems = _violations(plan, labels, gaps)
-    shown = f"{len(gaps)} {noun}"
     if problems:
-        return Finding(
-            False,
-            len(gaps),
-            f"{len(gaps)} {noun} without data, but " + "; ".join(problems[:3]) + ".",
-            shown,
+        detail = wording.say(
+            "finding.gaps_but", locale, shown=shown, problems="; ".join(problems[:3])
         )
+        return Finding(False, count, wording.sentence(detail), shown)
     if not gaps:
-        return Finding(
-            True, 0, f"Every expected period from {labels[0]} to {labels[-1]} has data.", shown
-        )
+        detail = wording.say("finding.no_gaps", locale, first=labels[0], last=labels[-1])
+        return Finding(True, 0, detail, shown)
     return Finding(
-        True,
-        len(gaps),
-        f"{len(gaps)} {noun} without data ({listed}{more}): the line "
-        "is broken there and marked 'no data'; nothing is filled in.",
-        shown,
+        True, count, wording.say("finding.gaps_ok", locale, shown=shown, listed=listed), shown
     )
 
 

@@ -9,6 +9,7 @@ recomputed and attached.
 
 from __future__ import annotations
 
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import MovementChart
 from service.intents import movement
@@ -36,26 +37,18 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     kind = _kind(reading)
     where = reading.labels[expected.index]
     drawn = [r for r in plan.references if r.kind in _LINES]
+    locale = ctx.locale
     if not plan.verdicts:
-        return Finding(
-            False, "none", f"The latest change ({where}) carries no verdict.", "no verdict"
-        )
+        detail = wording.say("finding.no_verdict", locale, period=where)
+        return Finding(False, "none", detail, "no verdict")
     if plan.verdicts[0] != expected:
-        return Finding(
-            False,
-            "wrong",
-            f"The verdict shown, '{plan.verdicts[0].text}', is not what the history says: "
-            f"'{expected.text}'.",
-            "wrong verdict",
+        detail = wording.say(
+            "finding.wrong_verdict", locale, shown=plan.verdicts[0].text, expected=expected.text
         )
+        return Finding(False, "wrong", detail, "wrong verdict")
     if drawn != reading.references:
-        return Finding(
-            False,
-            kind,
-            "The centre line and limits drawn are not those of the history.",
-            "wrong limits",
-        )
-    return Finding(True, kind, f"{expected.text}.", kind)
+        return Finding(False, kind, wording.say("finding.wrong_limits", locale), "wrong limits")
+    return Finding(True, kind, wording.sentence(expected.text), kind)
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -68,7 +61,7 @@ def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     axis = plan.value_axis
     lines = [r.value for r in reading.references]
     if lines and (min(lines) < axis.lo or max(lines) > axis.hi):
-        wider = movement.fitted_axis(reading, axis.unit, axis.label)
+        wider = movement.fitted_axis(reading, axis.unit, axis.label, axis.style)
         notes = [n for n in plan.notes if n != scale_note(axis, plan.locale)]
         if not wider.includes_zero:
             notes.append(scale_note(wider, plan.locale))

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
 from service.definition.model import OVER_TIME
@@ -23,37 +24,34 @@ def _last(ctx: Context) -> tuple[str, periods.Completeness | None, int]:
 
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     label, done, index = _last(ctx)
+    locale = ctx.locale
     if done is None:
         if plan.partial is None:
             return Finding(
-                True, 1.0, f"The last period, {label}, was complete at as_of.", "complete"
+                True, 1.0, wording.say("finding.last_complete", locale, period=label), "complete"
             )
         return Finding(
-            False, 1.0, f"{label} was complete at as_of but is drawn as partial.", "complete"
+            False,
+            1.0,
+            wording.say("finding.complete_drawn_partial", locale, period=label),
+            "complete",
         )
     fraction = round(done.fraction, 4)
-    expected = PartialMark(index=index, text=done.text(), fraction=done.fraction)
+    ran = done.text(locale)
+    expected = PartialMark(index=index, text=ran, fraction=done.fraction)
     if plan.partial is not None and plan.partial.model_copy(update={"off_scale": None}) == expected:
-        return Finding(
-            True,
-            fraction,
-            f"{label} had run {done.text()} at as_of: drawn as a "
-            "hollow point, not joined to the line, and labelled, so it does not read "
-            "as a fall.",
-            done.text(),
-        )
-    return Finding(
-        False,
-        fraction,
-        f"{label} had run only {done.text()} at as_of, but is drawn like a complete period.",
-        done.text(),
-    )
+        detail = wording.say("finding.partial_drawn", locale, period=label, done=ran)
+        return Finding(True, fraction, detail, ran)
+    detail = wording.say("finding.partial_not_drawn", locale, period=label, done=ran)
+    return Finding(False, fraction, detail, ran)
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     _, done, index = _last(ctx)
     mark = (
-        None if done is None else PartialMark(index=index, text=done.text(), fraction=done.fraction)
+        None
+        if done is None
+        else PartialMark(index=index, text=done.text(ctx.locale), fraction=done.fraction)
     )
     return off_scale.mark_off_scale(plan.model_copy(update={"partial": mark}))
 

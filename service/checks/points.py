@@ -16,7 +16,7 @@ from __future__ import annotations
 import numpy as np
 import numpy.typing as npt
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import OVER_TIME
 from service.intents.plan import ChartPlan, Reduction, Series, all_series
@@ -114,43 +114,30 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     counts = [present_count(s) for s in everyone]
     most = max(counts, default=0)
     limit, locale, x_range = PER_COLUMN * width_px(), ctx.locale, _x_range(plan)
-    width = formatting.number(width_px(), locale)
-    shown = f"{formatting.number(most, locale)} points"
-    over = [s.name for s in everyone if _too_many(s, x_range)]
+    n = {
+        "width": formatting.number(width_px(), locale),
+        "limit": formatting.number(limit, locale),
+        "dpi": DPI,
+        "most": formatting.number(most, locale),
+    }
+    shown = wording.say("finding.points", locale, **n)
+    over = [s.title for s in everyone if _too_many(s, x_range)]
     if over:
-        return Finding(
-            False,
-            most,
-            f"{', '.join(over)}: {shown}, more than the {formatting.number(limit, locale)} "
-            f"(4 per pixel column) a line {width} px wide at {DPI} dpi can show.",
-            shown,
-        )
+        detail = wording.say("finding.points_over", locale, names=", ".join(over), shown=shown, **n)
+        return Finding(False, most, detail, shown)
     if plan.reduction is not None:
         r = plan.reduction
-        return Finding(
-            True,
-            most,
-            f"{formatting.number(r.before, locale)} points were reduced to "
-            f"{formatting.number(r.after, locale)} with M4 at {formatting.number(r.width_px, locale)}"
-            " px: the first, last, lowest and highest point of every pixel column are kept, so the "
-            "drawn line is the same; no line is joined across a gap.",
-            f"{formatting.number(most, locale)} (M4 at {width} px)",
+        detail = wording.say(
+            "finding.points_reduced",
+            locale,
+            before=formatting.number(r.before, locale),
+            after=formatting.number(r.after, locale),
+            px=formatting.number(r.width_px, locale),
         )
+        return Finding(True, most, detail, wording.say("finding.points_m4", locale, **n))
     if most > limit:
-        return Finding(
-            True,
-            most,
-            f"{shown} in the longest series, broken by gaps: already no more than 4 per pixel "
-            "column and drawn segment, as few as M4 keeps without joining across a gap.",
-            shown,
-        )
-    return Finding(
-        True,
-        most,
-        f"At most {shown} per series: within the {formatting.number(limit, locale)} a line {width}"
-        f" px wide at {DPI} dpi can show, so every point is drawn.",
-        shown,
-    )
+        return Finding(True, most, wording.say("finding.points_gaps", locale, shown=shown), shown)
+    return Finding(True, most, wording.say("finding.points_ok", locale, shown=shown, **n), shown)
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:

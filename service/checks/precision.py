@@ -18,7 +18,7 @@ from __future__ import annotations
 
 import math
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS, Precision
 from service.intents.plan import ChartPlan, all_series
@@ -80,7 +80,7 @@ def label_step(values: list[float]) -> float:
 
 
 def about(value: float, unit: str, locale: str) -> str:
-    """An amount to two significant figures, with its unit ("0.014 %", "1,200 GBP")."""
+    """An amount to two significant figures, with its unit ("0.014%", "£1,200")."""
     if value <= 0 or not math.isfinite(value):
         return formatting.with_unit(value, unit, locale)
     places = 1 - math.floor(math.log10(value))
@@ -99,44 +99,41 @@ def note_for(plan: ChartPlan, ctx: Context) -> str | None:
     unit = plan.value_axis.unit
     chart = about(resolvable(plan, values, precision), unit, ctx.locale)
     need = about(required(precision, values), unit, ctx.locale)
-    return f"Values are labelled: the chart alone resolves only about {chart}; readers need {need}."
+    return wording.say("text.values_labelled", ctx.locale, chart=chart, need=need)
 
 
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     precision = ctx.chart.precision
+    locale = ctx.locale
     if precision is None:
-        return Finding(True, None, "No precision is asked of this chart.", "not asked")
+        detail = wording.say("finding.no_precision", locale)
+        return Finding(True, None, detail, wording.say("finding.not_asked", locale))
     values = shown_values(plan)
     if not values:
-        return Finding(True, None, "The chart shows no values to read.", "no values")
+        detail = wording.say("finding.no_values_to_read", locale)
+        return Finding(True, None, detail, wording.say("finding.no_values", locale))
     unit = plan.value_axis.unit
     res, need = resolvable(plan, values, precision), required(precision, values)
-    res_text, need_text = about(res, unit, ctx.locale), about(need, unit, ctx.locale)
-    per_mm = about(res / READING_MM, unit, ctx.locale)
-    alone = f"the chart alone resolves about {res_text} (0.5 mm at {per_mm} per mm)"
+    res_text, need_text = about(res, unit, locale), about(need, unit, locale)
+    per_mm = about(res / READING_MM, unit, locale)
+    alone = wording.say("finding.chart_alone", locale, res=res_text, per_mm=per_mm)
     measured = float(f"{res:.4g}")
+    shown = wording.say("finding.about", locale, value=res_text)
     if res <= need:
-        return Finding(
-            True,
-            measured,
-            f"{alone[0].upper()}{alone[1:]}; readers need {need_text}.",
-            f"about {res_text}",
-        )
+        detail = wording.say("finding.precision_ok", locale, alone=alone, need=need_text)
+        return Finding(True, measured, wording.sentence(detail[:1].upper() + detail[1:]), shown)
     step = label_step(values)
     if plan.value_labels and step <= need:
-        return Finding(
-            True,
-            measured,
-            f"Values are labelled: {alone}, coarser than the {need_text} readers need.",
-            f"labelled (chart alone about {res_text})",
+        detail = wording.say("finding.precision_labelled", locale, alone=alone, need=need_text)
+        labelled = wording.say("finding.labelled_about", locale, value=res_text)
+        return Finding(True, measured, detail, labelled)
+    detail = wording.say("finding.precision_short", locale, alone=alone, need=need_text)
+    if plan.value_labels:
+        step_text = about(step, unit, locale)
+        detail = wording.sentence(
+            detail, wording.say("finding.labels_round", locale, step=step_text)
         )
-    rounding = f" Its labels round to {about(step, unit, ctx.locale)}." if plan.value_labels else ""
-    return Finding(
-        False,
-        measured,
-        f"Readers need to tell apart {need_text}, but {alone}.{rounding}",
-        f"about {res_text}",
-    )
+    return Finding(False, measured, detail, shown)
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:

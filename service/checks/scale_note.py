@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from service import formatting
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.intents import intents_drawing
 from service.intents.compare import scale_note
@@ -22,17 +22,18 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     for axis, notes in _axes(plan):
         if axis.includes_zero or axis.log:  # a log scale has a note of its own
             continue
-        start = formatting.with_unit(axis.lo, axis.unit, ctx.locale)
+        start = axis.shown(axis.lo, ctx.locale)
         starts.append(start)
         if scale_note(axis, plan.locale) not in notes:
             unmarked.append(start)
     lo = plan.panels[0].value_axis.lo if plan.panels else plan.value_axis.lo
+    locale = ctx.locale
     if not starts:
-        return Finding(True, lo, "The value axis includes zero.", "includes 0")
-    shown = "starts at " + ", ".join(starts)
-    if not unmarked:
-        return Finding(True, lo, f"The scale {shown}, and the chart says so.", shown)
-    return Finding(False, lo, f"The scale {shown}, but the chart does not say so.", shown)
+        included = wording.say("finding.includes_zero", locale)
+        return Finding(True, lo, wording.say("finding.axis_includes_zero", locale), included)
+    shown = wording.say("finding.starts_at", locale, start=", ".join(starts))
+    key = "finding.scale_noted" if not unmarked else "finding.scale_not_noted"
+    return Finding(not unmarked, lo, wording.say(key, locale, shown=shown), shown)
 
 
 def _correct(plan: ChartPlan, ctx: Context) -> ChartPlan:

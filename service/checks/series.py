@@ -7,6 +7,7 @@ can tell apart.
 
 from __future__ import annotations
 
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS, RelativeChangeChart, TrendChart
 from service.intents import relative_change
@@ -16,11 +17,13 @@ from service.intents.plan import ChartPlan, Panel, Series
 #: At most this many series may be told apart by colour alone on one axes.
 MAX_COLOURED = 4
 
-SHARED_NOTE = "The panels share one scale, so their heights can be compared."
+
+def shared_note(locale: str) -> str:
+    """The note of panels split from one chart: they share its scale."""
+    return wording.say("text.shared_scale", locale)
 
 
-def _others(count: int) -> str:
-    return f"{count} other{'' if count == 1 else 's'} in grey"
+SHARED_NOTE = shared_note("en-GB")
 
 
 def _coloured(series: list[Series]) -> list[Series]:
@@ -28,46 +31,34 @@ def _coloured(series: list[Series]) -> list[Series]:
 
 
 def _count(plan: ChartPlan, ctx: Context) -> Finding:
+    locale = ctx.locale
     if plan.form == "panels":
         most = max((len(_coloured(p.series)) for p in plan.panels), default=0)
         shared = len({p.value_axis for p in plan.panels}) <= 1
-        shown = f"split into {len(plan.panels)} panels on " + (
-            "one shared scale" if shared else "different scales"
+        panels = {"panels": len(plan.panels), "most": most}
+        shown = wording.say(
+            "finding.split_shared" if shared else "finding.split_own", locale, **panels
         )
         if shared and most <= MAX_COLOURED:
-            return Finding(
-                True,
-                most,
-                f"The series are drawn in {len(plan.panels)} panels on one shared scale, "
-                f"at most {most} colour-coded in each.",
-                shown,
-            )
-        return Finding(
-            False,
-            most,
-            f"The series are split into {len(plan.panels)} panels, but "
-            + ("their scales differ." if not shared else f"one has {most} colour-coded series."),
-            shown,
-        )
+            return Finding(True, most, wording.say("finding.panels_ok", locale, **panels), shown)
+        key = "finding.panels_differ" if not shared else "finding.panels_crowded"
+        return Finding(False, most, wording.say(key, locale, **panels), shown)
     coloured = _coloured(plan.series)
     muted = len(plan.series) - len(coloured)
     count = len(coloured)
-    names = ", ".join(s.name for s in coloured)
-    shown = f"highlighted {names}, {_others(muted)}" if muted else f"{count} series"
-    if count <= MAX_COLOURED:
-        detail = (
-            f"Highlighted {names}; the {_others(muted)} are context, not to be told apart."
-            if muted
-            else f"{count} colour-coded series (at most {MAX_COLOURED}): each can be told apart."
-        )
-        return Finding(True, count, detail, shown)
-    return Finding(
-        False,
-        count,
-        f"{count} series are told apart by colour alone, more than the {MAX_COLOURED} a reader "
-        "can match to their labels reliably.",
-        shown,
+    names = ", ".join(s.title for s in coloured)
+    grey = wording.say(
+        "finding.other_grey" if muted == 1 else "finding.others_grey", locale, count=muted
     )
+    words = {"names": names, "others": grey, "count": count, "most": MAX_COLOURED}
+    if muted:
+        shown = wording.say("finding.highlighted", locale, **words)
+    else:
+        shown = wording.say("finding.count_series", locale, **words)
+    if count <= MAX_COLOURED:
+        key = "finding.highlighted_ok" if muted else "finding.series_ok"
+        return Finding(True, count, wording.say(key, locale, **words), shown)
+    return Finding(False, count, wording.say("finding.series_too_many", locale, **words), shown)
 
 
 def _split(plan: ChartPlan) -> ChartPlan:
@@ -77,14 +68,14 @@ def _split(plan: ChartPlan) -> ChartPlan:
     needs_note = not (axis.includes_zero or axis.log)
     panels = [
         Panel(
-            title=series.name,
+            title=series.title,
             value_axis=axis,
             series=[series.model_copy(update={"muted": False})],
             notes=[note] if needs_note else [],
         )
         for series in plan.series
     ]
-    notes = [n for n in plan.notes if n != note] + [SHARED_NOTE]
+    notes = [n for n in plan.notes if n != note] + [shared_note(plan.locale)]
     return plan.model_copy(
         update={"form": "panels", "series": [], "panels": panels, "notes": notes}
     )
@@ -123,37 +114,35 @@ def _chosen(plan: ChartPlan, ctx: Context) -> tuple[str, str]:
     """What a relative_change chart draws instead of two y-axes, and why."""
     chart = ctx.chart
     assert isinstance(chart, RelativeChangeChart)
-    differ = relative_change.units_text(chart, ctx.table)
-    why = f"units differ ({differ})" if differ else "only the change is compared"
+    locale = ctx.locale
+    differ = relative_change.units_text(chart, ctx.table, locale)
+    if differ:
+        why = wording.say("finding.units_differ", locale, differ=differ)
+    else:
+        why = wording.say("finding.only_change", locale)
     if plan.form == "panels":
-        return "aligned panels, each with its own scale", why
-    base = relative_change.base_label(chart, ctx.table, ctx.locale)
+        return wording.say("finding.aligned_panels", locale), why
+    base = relative_change.base_label(chart, ctx.table, locale)
     if chart.index_as == "percent_change":
-        return f"indexed as % change since {base}", why
-    return f"indexed to {base} = 100", why
+        return wording.say("finding.indexed_change", locale, base=base), why
+    return wording.say("finding.indexed_100", locale, base=base), why
 
 
 def _axes(plan: ChartPlan, ctx: Context) -> Finding:
     # A Panel has one value_axis and a plan without panels has one: a second y-axis cannot be
     # written down, so the count is one by construction; what is recorded is the form.
+    locale = ctx.locale
     if isinstance(ctx.chart, RelativeChangeChart):
         chosen, why = _chosen(plan, ctx)
-        return Finding(
-            True,
-            1,
-            f"Drawn as {chosen} because {why}: never two y-axes, which would let the "
-            "choice of two scales make any two lines appear to cross or move together.",
-            chosen,
-        )
+        detail = wording.say("finding.drawn_instead", locale, chosen=chosen, why=why)
+        return Finding(True, 1, detail, chosen)
     count = len(plan.panels)
-    shown = f"1 value axis in each of {count} panels" if count else "1 value axis"
-    return Finding(
-        True,
-        1,
-        f"{shown.capitalize()}: this form cannot draw a second y-axis, so two y-axes are "
-        "impossible.",
-        shown,
-    )
+    if count:
+        shown = wording.say("finding.axis_per_panel", locale, count=count)
+    else:
+        shown = wording.say("finding.one_axis", locale)
+    detail = wording.say("finding.no_second_axis", locale, shown=shown[:1].upper() + shown[1:])
+    return Finding(True, 1, detail, shown)
 
 
 NO_DUAL_AXIS = register(

@@ -15,7 +15,7 @@ import math
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import ShareChart
 from service.intents import share
@@ -44,28 +44,31 @@ def _sum_measure(plan: ChartPlan, ctx: Context) -> Finding:
     chart = _chart(ctx)
     values = [v for _, v in _parts(ctx) if v is not None]
     total = math.fsum(values)
-    unit = plan.value_axis.unit
+    axis, locale = plan.value_axis, ctx.locale
     digits = formatting.decimals_for([*values, total])
 
     def text(x: float) -> str:
-        return formatting.with_unit(x, unit, ctx.locale, digits=digits)
+        return axis.shown(x, locale, digits=digits)
 
     if chart.whole is None:
-        return Finding(
-            True, total, f"No whole is stated: the shares are of the parts' sum, {text(total)}."
-        )
+        return Finding(True, total, wording.say("finding.no_whole", locale, sum=text(total)))
     tolerance = chart.tolerance if chart.tolerance is not None else share.default_tolerance(values)
     gap = total - chart.whole
-    shown = f"{text(total)} against {text(chart.whole)}"
-    allowed = formatting.with_unit(tolerance, unit, ctx.locale)
-    added = f"The parts add up to {text(total)}"
+    whole = text(chart.whole)
+    shown = wording.say("finding.against", locale, value=text(total), other=whole)
+    allowed = axis.shown(tolerance, locale)
     if abs(gap) <= tolerance + 1e-9 * max(1.0, abs(chart.whole)):
-        detail = f"{added}, within {allowed} of the stated whole {text(chart.whole)}."
+        detail = wording.say(
+            "finding.sum_within", locale, sum=text(total), allowed=allowed, whole=whole
+        )
         return Finding(True, round(gap, 12), detail, shown)
-    apart = formatting.with_unit(abs(gap), unit, ctx.locale)
-    detail = (
-        f"{added}, but the stated whole is {text(chart.whole)}: {apart} apart, more than the "
-        f"tolerance of {allowed}. Correct the data or the stated whole."
+    detail = wording.say(
+        "finding.sum_apart",
+        locale,
+        sum=text(total),
+        whole=whole,
+        apart=axis.shown(abs(gap), locale),
+        allowed=allowed,
     )
     return Finding(False, round(gap, 12), detail, shown)
 
@@ -89,19 +92,16 @@ SUM = register(
 
 def _negative_measure(plan: ChartPlan, ctx: Context) -> Finding:
     negative = [(label, v) for label, v in _parts(ctx) if v is not None and v < 0]
+    locale = ctx.locale
     if not negative:
-        return Finding(True, 0, "No part is negative.", "none")
-    listed = ", ".join(
-        f"{label} ({formatting.with_unit(v, plan.value_axis.unit, ctx.locale)})"
-        for label, v in negative[:5]
-    )
-    noun = "part is" if len(negative) == 1 else "parts are"
+        return Finding(True, 0, wording.say("finding.no_negative", locale), "none")
+    listed = ", ".join(f"{label} ({plan.value_axis.shown(v, locale)})" for label, v in negative[:5])
+    key = "finding.negative_one" if len(negative) == 1 else "finding.negative"
     return Finding(
         False,
         len(negative),
-        f"{len(negative)} {noun} negative: {listed}. A part of a whole cannot be less than nothing; "
-        "show these as a change (a compare chart) instead.",
-        f"{len(negative)} negative",
+        wording.say(key, locale, count=len(negative), listed=listed),
+        wording.say("finding.count_negative", locale, count=len(negative)),
     )
 
 
@@ -129,15 +129,19 @@ def _absent(plan: ChartPlan, ctx: Context) -> list[str]:
 def _expected_measure(plan: ChartPlan, ctx: Context) -> Finding:
     expected = _chart(ctx).expected_categories or []
     absent = _absent(plan, ctx)
+    locale = ctx.locale
+    counts = {"count": len(absent), "total": len(expected)}
     if absent:
-        detail = f"{len(absent)} of {len(expected)} expected parts are not in the data: "
-        shown = f"{len(absent)} of {len(expected)} not shown"
-        return Finding(False, len(absent), detail + ", ".join(absent[:6]) + ".", shown)
+        detail = wording.say("finding.parts_absent", locale, names=", ".join(absent[:6]), **counts)
+        shown = wording.say("finding.parts_not_shown", locale, **counts)
+        return Finding(False, len(absent), detail, shown)
     if not expected:
-        return Finding(True, 0, "No expected parts are listed.", "none listed")
+        listed = wording.say("finding.none_listed", locale)
+        return Finding(True, 0, wording.say("finding.no_expected", locale), listed)
     flagged = [c.label for c in plan.categories if c.expected_missing]
-    without = f" ({', '.join(flagged[:6])} shown as 'expected, no data')" if flagged else ""
-    return Finding(True, 0, f"All {len(expected)} expected parts are shown{without}.", "all shown")
+    key = "finding.parts_shown_flagged" if flagged else "finding.parts_shown"
+    detail = wording.say(key, locale, total=len(expected), names=", ".join(flagged[:6]))
+    return Finding(True, 0, detail, wording.say("finding.all_shown", locale))
 
 
 def _expected_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -173,17 +177,18 @@ def _percent_measure(plan: ChartPlan, ctx: Context) -> Finding:
     shown = [c.percent for c in plan.categories if c.percent is not None]
     total = sum(shown) if shown else None
     wrong = [c.label for c in plan.categories if c.percent != want.get(c.label)]
-    measured = "no labels" if total is None else f"sum {total} %"
+    locale = ctx.locale
+    if total is None:
+        measured = wording.say("finding.no_labels", locale)
+    else:
+        measured = wording.say("finding.sum_of", locale, value=formatting.percent(total, locale))
     if wrong:
-        adds = (
-            "No percentage labels are shown" if total is None else f"The labels add up to {total}"
-        )
-        detail = f"{adds}; {', '.join(wrong[:6])} do not carry the largest-remainder share."
+        key = "finding.labels_missing" if total is None else "finding.labels_wrong"
+        detail = wording.say(key, locale, total=total, names=", ".join(wrong[:6]))
         return Finding(False, total, detail, measured)
     if total is None:
-        return Finding(True, None, "No percentages are shown: the parts have no shares.", measured)
-    detail = "The percentage labels add up to 100 (largest remainder; equal remainders go to the "
-    return Finding(True, total, detail + "part first in the data).", measured)
+        return Finding(True, None, wording.say("finding.no_shares", locale), measured)
+    return Finding(True, total, wording.say("finding.labels_ok", locale), measured)
 
 
 def _percent_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
@@ -214,26 +219,35 @@ PERCENT = register(
 def _pie_measure(plan: ChartPlan, ctx: Context) -> Finding:
     values = [c.value for c in plan.categories if c.value is not None]
     pair = share.closest_pair(values) if values and all(v > 0 for v in values) else None
-    closest = (
-        ""
-        if pair is None
-        else f", closest {formatting.number(pair[1] - pair[0], ctx.locale, digits=1)} points "
-        f"apart (×{pair[1] / pair[0]:.2f})"
-    )
-    shown = f"{len(values)} parts{closest}"
-    if plan.form != "pie":
-        return Finding(True, len(values), f"Drawn as bars: {shown}.", f"bars; {shown}")
-    problem = share.pie_problem(values, ctx.locale)
-    if problem is None:
-        return Finding(
-            True, len(values), f"The pie can be read: {shown}, each pair told apart.", shown
+    locale = ctx.locale
+    if pair is None:
+        shown = wording.say("finding.parts", locale, count=len(values))
+    else:
+        shown = wording.say(
+            "finding.parts_closest",
+            locale,
+            count=len(values),
+            points=formatting.points(pair[1] - pair[0], locale, digits=1, short=True),
+            ratio=formatting.number(pair[1] / pair[0], locale, digits=2),
         )
-    return Finding(False, len(values), f"A pie of these parts cannot be read: {problem}.", shown)
+    if plan.form != "pie":
+        measured = wording.say("finding.bars_measured", locale, shown=shown)
+        return Finding(
+            True, len(values), wording.say("finding.as_bars", locale, shown=shown), measured
+        )
+    problem = share.pie_problem(values, locale)
+    if problem is None:
+        return Finding(True, len(values), wording.say("finding.pie_ok", locale, shown=shown), shown)
+    return Finding(
+        False, len(values), wording.say("finding.pie_bad", locale, problem=problem), shown
+    )
 
 
 def _pie_correct(plan: ChartPlan, ctx: Context) -> ChartPlan:
     categories = share.sorted_parts(plan.categories)
-    axis = share.bars_axis(categories, plan.value_axis.unit, plan.value_axis.label)
+    axis = share.bars_axis(
+        categories, plan.value_axis.unit, plan.value_axis.label, plan.value_axis.style
+    )
     return plan.model_copy(
         update={"form": "bars", "baseline": 0.0, "categories": categories, "value_axis": axis}
     )

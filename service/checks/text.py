@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import INTENTS
 from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
@@ -13,15 +14,15 @@ _ALL_FORMS = LENGTH_FORMS | POSITION_FORMS
 
 def _source(plan: ChartPlan, ctx: Context) -> Finding:
     if plan.source:
-        return Finding(True, plan.source, f"Source line: {plan.source}", "given")
-    return Finding(False, None, "Neither the chart nor its dataset names a source.", "none")
+        detail = wording.say("finding.source", plan.locale, source=plan.source)
+        return Finding(True, plan.source, detail, "given")
+    return Finding(False, None, wording.say("finding.no_source", plan.locale), "none")
 
 
 def _fill_source(plan: ChartPlan, ctx: Context) -> ChartPlan:
-    table = ctx.table.name
-    return plan.model_copy(
-        update={"source": f"Dataset '{table}' supplied by {ctx.owner}; no source was stated."}
-    )
+    dataset = formatting.humanise(ctx.table.name)
+    source = wording.say("text.source_unstated", ctx.locale, dataset=dataset, owner=ctx.owner)
+    return plan.model_copy(update={"source": source})
 
 
 register(
@@ -43,11 +44,10 @@ register(
 
 def _alternative(plan: ChartPlan, ctx: Context) -> Finding:
     words = len((plan.description or "").split())
+    count = wording.say("finding.words", plan.locale, count=words)
     if words >= 5:
-        return Finding(
-            True, words, "A text alternative is placed with the chart.", f"{words} words"
-        )
-    return Finding(False, words, "The chart has no usable text alternative.", f"{words} words")
+        return Finding(True, words, wording.say("finding.alternative", plan.locale), count)
+    return Finding(False, words, wording.say("finding.no_alternative", plan.locale), count)
 
 
 register(

@@ -5,7 +5,7 @@ has its place on the x axis, at its index, so a gap keeps its width; every line'
 time order within that axis. Calendar periods are spaced equally: months of 28–31 days take the same
 width (common practice, no source).
 
-``log-scale-noted``: a logarithmic value axis is said on the chart (``trend.LOG_NOTE``), and is never
+``log-scale-noted``: a logarithmic value axis is said on the chart (``trend.log_note``), and is never
 used for marks that encode value by length (bars, deviation, histogram, pie): on a log axis a bar's
 length does not encode its value.
 """
@@ -14,12 +14,13 @@ from __future__ import annotations
 
 import itertools
 
+from service import wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.data import periods
 from service.definition.model import INTENTS, OVER_TIME
 from service.intents.forms import LENGTH_FORMS, POSITION_FORMS
 from service.intents.plan import ChartPlan, Scale, all_series
-from service.intents.trend import LOG_NOTE
+from service.intents.trend import log_note
 
 _TIME_FORMS = frozenset({"lines", "panels", "control"})
 
@@ -50,31 +51,30 @@ def _disorder(plan: ChartPlan) -> list[str]:
 
 def _proportional(plan: ChartPlan, ctx: Context) -> Finding:
     labels = expected_labels(ctx)
-    shown = f"{len(plan.periods)} of {len(labels)} periods"
+    locale = ctx.locale
+    counts = {"drawn": len(plan.periods), "count": len(labels)}
+    shown = wording.say("finding.periods_of", locale, **counts)
     problems = []
     if plan.periods != labels:
         drawn = set(plan.periods)
         dropped = [p for p in labels if p not in drawn]
-        listed = f" (missing: {', '.join(dropped[:6])})" if dropped else ""
-        problems.append(
-            f"the time axis does not place every expected period at its own index{listed}"
-        )
-    disordered = _disorder(plan)
+        if dropped:
+            problem = wording.say("finding.axis_missing", locale, names=", ".join(dropped[:6]))
+        else:
+            problem = wording.say("finding.axis_misplaced", locale)
+        problems.append(problem)
+    disordered = [s.title for s in all_series(plan) if s.name in set(_disorder(plan))]
     if disordered:
-        problems.append(f"points of {', '.join(disordered)} are out of time order")
+        problems.append(wording.say("finding.out_of_order", locale, names=", ".join(disordered)))
     if problems:
         text = "; ".join(problems)
-        return Finding(False, len(plan.periods), text[0].upper() + text[1:] + ".", shown)
-    return Finding(
-        True,
-        len(labels),
-        f"Each of the {len(labels)} periods from {labels[0]} to {labels[-1]} has its own place on "
-        "the time axis, so a gap keeps its width. Calendar periods are spaced equally (a month "
-        "of 28 days takes the width of one of 31)."
-        if ctx.table.frequency is not None and ctx.table.frequency.value == "month"
-        else "the time axis, so a gap keeps its width.",
-        shown,
-    )
+        return Finding(
+            False, len(plan.periods), wording.sentence(text[0].upper() + text[1:]), shown
+        )
+    detail = wording.say("finding.own_place", locale, first=labels[0], last=labels[-1], **counts)
+    if ctx.table.frequency is not None and ctx.table.frequency.value == "month":
+        detail = wording.sentence(detail, wording.say("finding.months_equal", locale))
+    return Finding(True, len(labels), detail, shown)
 
 
 SPEC_PROPORTIONAL = register(
@@ -112,33 +112,32 @@ def _length_on_log(plan: ChartPlan) -> bool:
 
 def _log_noted(plan: ChartPlan, ctx: Context) -> Finding:
     logs = _log_axes(plan)
+    locale = plan.locale
     if not logs:
-        return Finding(True, "linear", "The value axis is linear.", "linear")
+        return Finding(True, "linear", wording.say("finding.linear", locale), "linear")
     if _length_on_log(plan):
-        return Finding(
-            False,
-            "log",
-            f"A {plan.form} chart uses a logarithmic value axis: the length of a bar on a log axis "
-            "does not encode its value. Use a linear axis from zero, or dots or lines.",
-            f"log ({plan.form})",
-        )
-    unnoted = [name for name, _, notes in logs if LOG_NOTE not in notes]
+        form = wording.say(f"text.form_{plan.form}", locale)
+        detail = wording.say("finding.log_lengths", locale, form=form)
+        return Finding(False, "log", detail, f"log ({plan.form})")
+    note = log_note(locale)
+    unnoted = [name for name, _, notes in logs if note not in notes]
     if unnoted:
-        return Finding(
-            False,
-            "log",
-            f"The {', '.join(unnoted)} is logarithmic, but the chart does not say so.",
-            "log, not noted",
+        names = ", ".join(
+            wording.say(f"finding.{n.replace(' ', '_')}", locale)
+            if n in ("value axis", "x axis")
+            else n
+            for n in unnoted
         )
-    return Finding(
-        True, "log", f"The scale is logarithmic, and the chart says so: {LOG_NOTE}", "log"
-    )
+        detail = wording.say("finding.log_not_noted", locale, names=names)
+        return Finding(False, "log", detail, "log, not noted")
+    return Finding(True, "log", wording.say("finding.log_noted", locale, note=note), "log")
 
 
 def _add_note(plan: ChartPlan, ctx: Context) -> ChartPlan:
-    if LOG_NOTE in plan.notes:
+    note = log_note(plan.locale)
+    if note in plan.notes:
         return plan
-    return plan.model_copy(update={"notes": [*plan.notes, LOG_NOTE]})
+    return plan.model_copy(update={"notes": [*plan.notes, note]})
 
 
 SPEC_LOG = register(

@@ -21,7 +21,7 @@ from itertools import combinations
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.checks.registry import CheckSpec, Context, Finding, register
 from service.definition.model import CompareChart
 from service.intents import compare
@@ -87,7 +87,19 @@ class Verdict:
 
 
 def _p(value: float, locale: str) -> str:
-    return "p < 0.0001" if value < 0.0001 else f"p = {formatting.number(value, locale, digits=4)}"
+    if value < 0.0001:
+        return f"p < {formatting.number(0.0001, locale, digits=4)}"
+    return f"p = {formatting.number(value, locale, digits=4)}"
+
+
+def things_of(chart: CompareChart, ctx: Context) -> str:
+    """What the categories are, in the plural, for a sentence: "routes" (from the category's
+    label in English), else the catalogue's word for categories."""
+    if ctx.locale.lower().startswith("en"):
+        named = plural(formatting.in_sentence(ctx.table.label(chart.category), ctx.locale))
+        if named != "categories":
+            return named
+    return wording.say("finding.categories", ctx.locale)
 
 
 def verdict(chart: CompareChart, ctx: Context) -> Verdict:
@@ -95,36 +107,37 @@ def verdict(chart: CompareChart, ctx: Context) -> Verdict:
     spec = chart.interval
     assert spec is not None
     frame = ctx.table.frame
-    things = plural(chart.category)
-    level = f"{formatting.number(spec.level * 100, ctx.locale)} %"
+    locale = ctx.locale
+    things = things_of(chart, ctx)
+    level = formatting.percent(spec.level * 100, locale)
+
+    def say(key: str, **values: object) -> str:
+        return wording.say(key, locale, things=things, level=level, **values)
+
     if spec.sd is not None and spec.n is not None:
         rows = frame[[chart.measure, spec.sd, spec.n]].dropna()
         rows = rows[rows[spec.n] >= 1]
         if len(rows) < 2 or rows[spec.n].sum() <= len(rows):
-            return _undecided(things)
+            return _undecided(things, locale)
         result = anova(
             [float(v) for v in rows[chart.measure]],
             [float(v) for v in rows[spec.sd]],
             [float(v) for v in rows[spec.n]],
         )
-        test = (
-            f"one-way ANOVA F = {formatting.number(result.f, ctx.locale, digits=2)}, "
-            f"{_p(result.p, ctx.locale)}"
-        )
+        p = _p(result.p, locale)
+        test = say("finding.anova", f=formatting.number(result.f, locale, digits=2), p=p)
         if result.p < 1 - spec.level:
             return Verdict(
                 round(result.p, 6),
-                f"distinguishable ({_p(result.p, ctx.locale)})",
-                f"Differences between {things} are distinguishable: {test} (at the {level} level "
-                "at least one differs beyond chance; not every pair need differ).",
-                f"Differences between {things} are beyond chance ({test}).",
+                say("finding.distinguishable_p", p=p),
+                say("finding.anova_apart", test=test),
+                say("text.beyond_chance", test=test),
             )
         return Verdict(
             round(result.p, 6),
-            f"not distinguishable ({_p(result.p, ctx.locale)})",
-            f"Differences between {things} are not distinguishable from chance: {test} "
-            f"(not significant at the {level} level).",
-            f"Differences between {things} may be chance ({test}): do not rank them.",
+            say("finding.not_distinguishable_p", p=p),
+            say("finding.anova_chance", test=test),
+            say("text.may_be_chance", test=test),
         )
     assert spec.lower is not None and spec.upper is not None
     bounds = frame[[chart.category, spec.lower, spec.upper]].dropna()
@@ -135,35 +148,27 @@ def verdict(chart: CompareChart, ctx: Context) -> Verdict:
         )
     }
     if len(intervals) < 2:
-        return _undecided(things)
+        return _undecided(things, locale)
     apart, pairs = separate_pairs(intervals)
     listed = ", ".join(f"{a}–{b}" for a, b in apart[:4]) + (" …" if len(apart) > 4 else "")
-    shown = f"{len(apart)} of {pairs} {'pair' if pairs == 1 else 'pairs'} apart"
-    caveat = "overlapping intervals do not prove the values equal"
+    counts = {"count": len(apart), "pairs": pairs}
+    shown = say("finding.pairs_apart_one" if pairs == 1 else "finding.pairs_apart", **counts)
     if apart:
         return Verdict(
             len(apart),
             shown,
-            f"Differences between {things} are distinguishable for {len(apart)} of {pairs} pairs "
-            f"({listed}): their {level} intervals do not overlap; {caveat}.",
-            f"Intervals ({level}) do not overlap for {len(apart)} of {pairs} pairs of {things} "
-            f"({listed}); overlap does not prove equality.",
+            say("finding.intervals_apart", listed=listed, **counts),
+            say("text.intervals_apart", listed=listed, **counts),
         )
-    return Verdict(
-        0,
-        shown,
-        f"Every pair of {things} has overlapping {level} intervals, so no difference is "
-        f"clearly distinguishable; {caveat}.",
-        f"The {level} intervals of all {things} overlap: the differences may be chance.",
-    )
+    return Verdict(0, shown, say("finding.intervals_overlap"), say("text.intervals_overlap"))
 
 
-def _undecided(things: str) -> Verdict:
+def _undecided(things: str, locale: str) -> Verdict:
     return Verdict(
         "undecided",
-        "too few intervals",
-        f"Fewer than two {things} have an interval, so their differences cannot be judged.",
-        f"Too few {things} have an interval to judge their differences.",
+        wording.say("finding.too_few_intervals", locale),
+        wording.say("finding.undecided", locale, things=things),
+        wording.say("text.undecided", locale, things=things),
     )
 
 
@@ -196,19 +201,19 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     chart = ctx.chart
     if not isinstance(chart, CompareChart) or chart.interval is None:
         return Finding(
-            True, "no uncertainty given", "The data gives no uncertainty for these values."
+            True, "no uncertainty given", wording.say("finding.no_uncertainty", ctx.locale)
         )
     found = verdict(chart, ctx)
     wrong = _drawn(plan, _expected_bounds(chart, ctx))
     missing = []
     if wrong:
-        missing.append(f"the intervals of {', '.join(wrong[:5])} are not drawn as given")
+        names = ", ".join(wrong[:5])
+        missing.append(wording.say("finding.intervals_not_drawn", ctx.locale, names=names))
     if found.note not in plan.notes:
-        missing.append("the chart does not say whether the differences are real")
+        missing.append(wording.say("finding.verdict_not_said", ctx.locale))
     if missing:
-        return Finding(
-            False, found.measured, f"{found.detail} But {'; '.join(missing)}.", found.shown
-        )
+        but = wording.say("finding.but", ctx.locale, problems="; ".join(missing))
+        return Finding(False, found.measured, wording.sentence(found.detail, but), found.shown)
     return Finding(True, found.measured, found.detail, found.shown)
 
 

@@ -17,12 +17,15 @@ from typing import Any
 import numpy as np
 import pandas as pd
 
+from service import formatting
 from service.data import periods
 from service.definition.model import (
+    Column,
     ColumnType,
     Dataset,
     Frequency,
     ReportDefinition,
+    display_name,
     local_wall_time,
 )
 from service.errors import Problem
@@ -51,6 +54,22 @@ class Table:
     """Columns declared as estimates or forecasts rather than actuals."""
     same_as: dict[str, str] = field(default_factory=dict)
     """Columns declared the same measure as another dataset's column (``dataset.column``)."""
+    columns: dict[str, Column] = field(default_factory=dict)
+    """The declared columns by name (labels and number formats)."""
+
+    def label(self, name: str) -> str:
+        """What readers see for column ``name`` (its label, else the name in words)."""
+        column = self.columns.get(name)
+        return column.display_name if column is not None else display_name(name)
+
+    def style(self, name: str) -> formatting.Style:
+        """How the values of column ``name`` are written."""
+        column = self.columns.get(name)
+        if column is not None:
+            return column.style
+        return formatting.style_for(
+            self.units.get(name), integer=self.types.get(name) is ColumnType.integer
+        )
 
 
 def load_all(
@@ -129,6 +148,7 @@ def load(
         source=dataset.source,
         estimates=frozenset(c.name for c in dataset.columns if c.estimate),
         same_as={c.name: c.same_as for c in dataset.columns if c.same_as},
+        columns={c.name: c for c in dataset.columns},
     )
     if dataset.time_column and dataset.frequency and not problems:
         table, found = _with_periods(table, dataset, as_of, locate)
@@ -393,4 +413,5 @@ def _with_periods(
         source=table.source,
         estimates=table.estimates,
         same_as=table.same_as,
+        columns=table.columns,
     ), problems

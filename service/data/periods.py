@@ -13,6 +13,7 @@ import numpy as np
 import pandas as pd
 from babel.dates import format_date, get_month_names
 
+from service import wording
 from service.definition.model import Frequency
 
 _PANDAS_FREQ: dict[Frequency, str] = {
@@ -77,9 +78,10 @@ class Completeness:
     def fraction(self) -> float:
         return self.elapsed_days / self.total_days
 
-    def text(self) -> str:
-        unit = "day" if self.total_days == 1 else "days"
-        return f"{self.elapsed_days} of {self.total_days} {unit}"
+    def text(self, locale: str = "en-GB") -> str:
+        """How much had elapsed, in words of the report's language ("8 of 30 days")."""
+        key = "text.days_of_one" if self.total_days == 1 else "text.days_of"
+        return wording.say(key, locale, elapsed=self.elapsed_days, total=self.total_days)
 
 
 def completeness(period: pd.Period, as_of: datetime) -> Completeness | None:

@@ -13,6 +13,7 @@ from typing import Annotated, Any, ClassVar, Literal, get_args
 
 from pydantic import Field, StringConstraints, model_validator
 
+from service import formatting
 from service.definition.base import (
     Day,
     Flag,
@@ -56,11 +57,38 @@ def same_as_parts(link: str) -> tuple[str, str]:
     return dataset, column
 
 
+class Format(Input):
+    """How a numeric column's values are written; what is left out follows its type and unit."""
+
+    decimals: Annotated[Whole, Field(ge=0, le=6)] | None = Field(
+        None,
+        description="Decimals always shown (default: as many as a value needs, up to two; "
+        "none for an integer column).",
+    )
+    style: Literal["plain", "percent", "currency"] | None = Field(
+        None,
+        description="'percent' (values already in percent, e.g. 94.6), 'currency' (the unit is "
+        "an ISO 4217 code or a symbol such as '£'), or 'plain' (the number, then the unit). "
+        "Default: percent for the unit '%', currency for a currency unit, else plain.",
+    )
+    thousands: Flag = Field(
+        True, description="Group thousands the way the report's locale does (1,234 or 1.234)."
+    )
+
+
 class Column(Input):
     name: Name
     type: ColumnType
+    label: Label | None = Field(
+        None,
+        description="What readers see for this column on the pack (chart axes, keys, sentences, "
+        "table headers), e.g. 'On-time journeys'; default: the name in words.",
+    )
     unit: Label | None = Field(
         None, description="Unit of a numeric column, e.g. 'GBP', '%', 'journeys'."
+    )
+    format: Format | None = Field(
+        None, description="How the values are written; defaults follow the type and unit."
     )
     description: Text | None = None
     estimate: Flag = Field(
@@ -90,6 +118,27 @@ class Column(Input):
             return self.additive
         return not _rate(self.unit or "")
 
+    @property
+    def display_name(self) -> str:
+        """What readers see for the column: its ``label``, else its name in words."""
+        return display_name(self.name, self.label)
+
+    @property
+    def style(self) -> formatting.Style:
+        """How the column's values are written (``format``, else defaults from type and unit)."""
+        chosen = self.format or Format()
+        return formatting.style_for(
+            self.unit,
+            integer=self.type is ColumnType.integer,
+            decimals=chosen.decimals,
+            kind=chosen.style,
+            grouping=chosen.thousands,
+        )
+
+    def shown(self, value: float | None, locale: str) -> str:
+        """One of the column's values as the pack writes it, in the report's locale."""
+        return formatting.show(value, self.style, locale)
+
 
 _PERCENT_UNITS = frozenset({"percent", "per cent", "pp", "percentage points", "percentage point"})
 
@@ -98,6 +147,11 @@ def _rate(unit: str) -> bool:
     """A unit of a percentage or a rate, whose values do not add up."""
     text = unit.strip().lower()
     return text in _PERCENT_UNITS or "%" in text or "/" in text or " per " in f" {text} "
+
+
+def display_name(name: str, label: str | None = None) -> str:
+    """A column's name as readers see it: the ``label`` given, else the name in words."""
+    return label or formatting.humanise(name)
 
 
 class Dataset(Input):

@@ -451,6 +451,7 @@ def texts(definition: ReportDefinition) -> list[tuple[str, str | None, bool]]:
         for c, column in enumerate(dataset.columns):
             base = f"datasets[{d}].columns[{c}]"
             out += [
+                (f"{base}.label", column.label, False),
                 (f"{base}.unit", column.unit, False),
                 (f"{base}.description", column.description, True),
             ]
@@ -617,7 +618,34 @@ def _repeated(items: list[tuple[str, str]], field: str, hint: str) -> Iterable[P
             seen.add(value)
 
 
+def _format_problems(path: str, dataset: Dataset) -> Iterable[Problem]:
+    """A ``format`` on a column that holds no numbers, or a currency style without a currency."""
+    for c, column in enumerate(dataset.columns):
+        chosen = column.format
+        if chosen is None:
+            continue
+        where = f"{path}.columns[{c}].format"
+        if column.type not in NUMERIC:
+            yield Problem(
+                "format_not_numeric",
+                where,
+                f"column '{column.name}' has type '{column.type}': a number format needs numbers",
+                "leave out 'format', or declare the column as 'number' or 'integer'",
+                column.type.value,
+            )
+        elif chosen.style == "currency" and formatting.currency_code(column.unit or "") is None:
+            yield Problem(
+                "format_needs_currency",
+                where,
+                f"column '{column.name}' is written as currency but its unit "
+                f"'{column.unit or ''}' names no currency",
+                "give the unit as an ISO 4217 code such as 'GBP' or 'EUR', or a symbol such as '£'",
+                column.unit,
+            )
+
+
 def _dataset_problems(path: str, dataset: Dataset) -> Iterable[Problem]:
+    yield from _format_problems(path, dataset)
     if dataset.time_column is None:
         return
     column = next((c for c in dataset.columns if c.name == dataset.time_column), None)

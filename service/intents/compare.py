@@ -13,7 +13,7 @@ from collections.abc import Iterable
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import CompareChart
@@ -127,11 +127,12 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
     present = [v for v in values if v is not None]
     present += [b for pair in bounds for b in pair if b is not None]
     unit = table.units.get(chart.measure, "")
-    label = formatting.titled(chart.measure, unit)
+    label = formatting.titled(table.label(chart.measure), unit)
+    style = table.style(chart.measure)
     notes: list[str] = []
     if chart.focus == "differences":
         lo, hi = scales.fit(present, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
-        scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
+        scale = Scale(lo=lo, hi=hi, unit=unit, label=label, style=style)
         if not scale.includes_zero:
             notes.append(scale_note(scale, locale))
         return ChartPlan(
@@ -148,7 +149,7 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
     return ChartPlan(
         **heading(chart, locale, table.source),
         form="bars",
-        value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label),
+        value_axis=Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label, style=style),
         baseline=base,
         categories=categories,
         notes=[] if base == 0.0 else [truncation_note(base, unit, locale)],
@@ -157,12 +158,11 @@ def encode(chart: CompareChart, table: Table, env: Env) -> ChartPlan:
 
 def truncation_note(base: float, unit: str, locale: str) -> str:
     start = formatting.with_unit(base, unit, locale)
-    return f"Bars start at {start}, not zero: their lengths exaggerate the differences."
+    return wording.say("text.truncation_note", locale, start=start)
 
 
 def scale_note(scale: Scale, locale: str) -> str:
-    start = formatting.with_unit(scale.lo, scale.unit, locale)
-    return f"Scale starts at {start}, not zero: compare positions, not lengths."
+    return wording.say("text.scale_note", locale, start=scale.shown(scale.lo, locale))
 
 
 ENCODER = register(Encoder("compare", problems, encode, frozenset({"bars", "dots"})))

@@ -2,9 +2,10 @@
 
 Each row is one observation. Missing values are counted and said on the chart, never read as zero.
 
-- **histogram**: equal-width bins whose edges come from numpy (``np.histogram_bin_edges``, the asked
-  number of bins or numpy's ``"auto"`` rule; should ``"auto"`` ask for more than ``MAX_AUTO_BINS``
-  bins, as a long tail can make it, Sturges' rule is used instead). Bars count observations from zero.
+- **histogram**: equal-width bins at round edges (a 1–2–2.5–5 step, ``formatting.nice_edges``), about
+  as many as asked or as numpy's ``"auto"`` rule gives (should ``"auto"`` ask for more than
+  ``MAX_AUTO_BINS`` bins, as a long tail can make it, Sturges' rule is used instead). Bars count
+  observations from zero.
 - **box**: one box per group (or one for all). Quartiles use numpy's default *linear* method (which
   equals Python's ``statistics.quantiles(method="inclusive")``). Whiskers follow Tukey's rule: they
   reach the most extreme values within 1.5 × IQR of the box; values beyond are drawn as dots.
@@ -18,7 +19,7 @@ from collections.abc import Iterable
 import numpy as np
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import DistributionChart
@@ -120,12 +121,14 @@ def _group_problems(
 
 
 def bin_edges(values: np.ndarray, bins: int | None) -> np.ndarray:
-    """Equal-width bin edges from numpy: ``bins`` of them, else the "auto" rule (capped)."""
-    if bins is not None:
-        return np.histogram_bin_edges(values, bins=bins)
-    if _auto_count(values) > MAX_AUTO_BINS:
-        return np.histogram_bin_edges(values, bins="sturges")
-    return np.histogram_bin_edges(values, bins="auto")
+    """Equal-width bin edges at round numbers: about ``bins`` of them, else as many as numpy's
+    "auto" rule asks (capped), moved to a 1–2–2.5–5 step so no edge reads 8.22."""
+    if bins is None:
+        auto = _auto_count(values)
+        rule = "sturges" if auto > MAX_AUTO_BINS else "auto"
+        bins = max(1, len(np.histogram_bin_edges(values, bins=rule)) - 1)
+    lo, hi = float(values.min()), float(values.max())
+    return np.asarray(formatting.nice_edges(lo, hi, bins), dtype=float)
 
 
 def _auto_count(values: np.ndarray) -> int:
@@ -140,22 +143,24 @@ def _auto_count(values: np.ndarray) -> int:
     return math.ceil(span / width)
 
 
-def histogram_guide(measure: str, total: int, locale: str) -> str:
+def histogram_guide(name: str, total: int, locale: str) -> str:
+    """The reading guide of a histogram of the measure called ``name`` (its display name)."""
     count = formatting.number(total, locale)
-    return f"Each bar counts the {measure} values between its edges; {count} values in all."
+    text = wording.say("text.histogram_guide", locale, name=formatting.in_sentence(name, locale))
+    return wording.sentence(text, wording.say("text.values_in_all", locale, count=count))
 
 
-def box_guide(measure: str) -> str:
-    return (
-        f"The box holds the middle half of the {measure} values (from Q1 to Q3); the line inside "
-        "is the median; whiskers reach the furthest values within 1.5 box-lengths; dots are "
-        "values beyond."
-    )
+def box_guide(name: str, locale: str) -> str:
+    """The reading guide of box plots of the measure called ``name`` (its display name)."""
+    return wording.say("text.box_guide", locale, name=formatting.in_sentence(name, locale))
 
 
-def missing_note(missing: int, measure: str, locale: str) -> str:
-    rows = "1 row has" if missing == 1 else f"{formatting.number(missing, locale)} rows have"
-    return f"{rows} no {measure} value: left out, not counted as zero."
+def missing_note(missing: int, name: str, locale: str) -> str:
+    named = formatting.in_sentence(name, locale)
+    if missing == 1:
+        return wording.say("text.missing_value_one", locale, name=named)
+    count = formatting.number(missing, locale)
+    return wording.say("text.missing_values", locale, count=count, name=named)
 
 
 def box_of(label: str, values: np.ndarray) -> Box:
@@ -179,9 +184,10 @@ def box_of(label: str, values: np.ndarray) -> Box:
 def encode(chart: DistributionChart, table: Table, env: Env) -> ChartPlan:
     column = table.frame[chart.measure]
     missing = int(column.isna().sum())
-    notes = [missing_note(missing, chart.measure, env.locale)] if missing else []
+    name = table.label(chart.measure)
+    notes = [missing_note(missing, name, env.locale)] if missing else []
     unit = table.units.get(chart.measure, "")
-    label = formatting.titled(chart.measure, unit)
+    label = formatting.titled(name, unit)
     if chart.form == "box":
         return _box_plan(chart, table, env, label, notes)
     values = column.dropna().to_numpy(dtype=float)
@@ -196,12 +202,22 @@ def encode(chart: DistributionChart, table: Table, env: Env) -> ChartPlan:
         **heading(chart, env.locale, table.source),
         form="histogram",
         value_axis=Scale(
-            lo=0.0, hi=top, unit="observations", label=f"number of {chart.measure} values"
+            lo=0.0,
+            hi=top,
+            unit=wording.say("text.observations", env.locale),
+            label=wording.say("text.count_axis", env.locale),
+            style=formatting.style_for("", integer=True),
         ),
-        x_axis=Scale(lo=float(edges[0]), hi=float(edges[-1]), unit=unit, label=label),
+        x_axis=Scale(
+            lo=float(edges[0]),
+            hi=float(edges[-1]),
+            unit=unit,
+            label=label,
+            style=table.style(chart.measure),
+        ),
         baseline=0.0,
         bins=bins,
-        guide=histogram_guide(chart.measure, int(values.size), env.locale),
+        guide=histogram_guide(name, int(values.size), env.locale),
         notes=notes,
     )
 
@@ -211,7 +227,7 @@ def _box_plan(
 ) -> ChartPlan:
     frame = table.frame.dropna(subset=[chart.measure])
     if chart.group is None:
-        groups = [("All", frame[chart.measure])]
+        groups = [(wording.say("text.all", env.locale), frame[chart.measure])]
     else:
         grouped = frame.groupby(chart.group, sort=False)[chart.measure]
         groups = [(str(name), values) for name, values in grouped]
@@ -221,7 +237,7 @@ def _box_plan(
     lo, hi = scales.fit(present, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
     if present and min(present) >= 0.0:
         lo = max(lo, 0.0)  # padding never pushes a measure that cannot be negative below zero
-    scale = Scale(lo=lo, hi=hi, unit=unit, label=label)
+    scale = Scale(lo=lo, hi=hi, unit=unit, label=label, style=table.style(chart.measure))
     if not scale.includes_zero:
         notes = [*notes, scale_note(scale, env.locale)]
     return ChartPlan(
@@ -229,7 +245,7 @@ def _box_plan(
         form="box",
         value_axis=scale,
         boxes=boxes,
-        guide=box_guide(chart.measure),
+        guide=box_guide(table.label(chart.measure), env.locale),
         notes=notes,
     )
 

@@ -103,9 +103,9 @@ def _series(plan: ChartPlan, measure: Measure) -> list[KeyFigure]:
     """Each series' latest value and its period, skipping a partly elapsed last period when the
     series has a complete one (a part-month against a whole month would show a fall that did not
     happen)."""
-    drawn = [(s, plan.value_axis.unit, s.name) for s in plan.series]
+    drawn = [(s, plan.value_axis.unit, s.title) for s in plan.series]
     drawn += [
-        (s, panel.value_axis.unit, f"{panel.title}: {s.name}")
+        (s, panel.value_axis.unit, f"{panel.title}: {s.title}")
         for panel in plan.panels
         for s in panel.series
     ]

@@ -18,7 +18,7 @@ from itertools import pairwise
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data import periods
 from service.data.frames import Table
@@ -113,18 +113,15 @@ def _z(value: float, limits: ProcessLimits) -> float:
 
 
 def reasons(
-    value: float, limits: ProcessLimits, rules: Iterable[int], run_length: int
+    value: float,
+    limits: ProcessLimits,
+    rules: Iterable[int],
+    run_length: int,
+    locale: str = "en-GB",
 ) -> list[str]:
     """Plain words for the rules that fire at one point."""
-    above = value > limits.centre
-    side = "above" if above else "below"
-    words = {
-        1: f"rule 1: beyond the {'upper' if above else 'lower'} limit",
-        2: f"rule 2: 2 of 3 beyond 2 sigma {side}",
-        3: f"rule 3: 4 of 5 beyond 1 sigma {side}",
-        4: f"rule 4: {run_length} in a row {side} the centre line",
-    }
-    return [words[r] for r in sorted(rules)]
+    side = "above" if value > limits.centre else "below"
+    return [wording.say(f"text.rule{r}_{side}", locale, run=run_length) for r in sorted(rules)]
 
 
 @dataclass(frozen=True)
@@ -148,63 +145,90 @@ def assess(chart: MovementChart, table: Table, env: Env) -> Reading:
     done = periods.completeness(full[-1], env.as_of)
     partial = None
     if done is not None:
-        partial = PartialMark(index=len(full) - 1, text=done.text(), fraction=done.fraction)
+        partial = PartialMark(
+            index=len(full) - 1, text=done.text(env.locale), fraction=done.fraction
+        )
     judged = values[:-1] if partial is not None else values  # a partial period is never judged
     complete = [i for i, v in enumerate(judged) if v is not None]
     last = complete[-1] if complete else 0
+    locale = env.locale
     if len(complete) < chart.min_history or not moving_ranges(judged):
-        text = f"Too little history for a verdict ({len(complete)} of {chart.min_history} points)"
+        text = wording.say(
+            "text.too_little_history", locale, count=len(complete), needed=chart.min_history
+        )
         verdict = Verdict(index=last, text=text, signal=False)
         return Reading(labels, values, partial, None, [], [verdict])
     limits = xmr(judged)
-    unit = table.units.get(chart.measure, "")
-    digits = formatting.decimals_for([v for v in judged if v is not None])
+    style = table.style(chart.measure)
+    if style.decimals is None:
+        digits = formatting.decimals_for([v for v in judged if v is not None])
+        style = style.model_copy(update={"decimals": digits})
+    bare = formatting.style_for("", decimals=style.decimals, grouping=style.grouping)
 
     def shown(value: float, with_unit: bool = True) -> str:
-        return formatting.with_unit(value, unit if with_unit else "", env.locale, digits=digits)
+        return formatting.show(value, style if with_unit else bare, locale)
 
     fired: dict[int, list[int]] = {}
     for rule, indexes in run_rules(judged, limits, chart.run_length).items():
         for i in indexes:
             fired.setdefault(i, []).append(rule)
     references = [
-        Reference(value=limits.centre, label=f"centre line {shown(limits.centre)}", kind="centre"),
+        Reference(
+            value=limits.centre,
+            label=wording.say("text.centre_line", locale, value=shown(limits.centre)),
+            kind="centre",
+        ),
         Reference(
             value=limits.upper,
-            label=f"upper natural process limit {shown(limits.upper)}",
+            label=wording.say("text.upper_limit", locale, value=shown(limits.upper)),
             kind="limit",
         ),
         Reference(
             value=limits.lower,
-            label=f"lower natural process limit {shown(limits.lower)}",
+            label=wording.say("text.lower_limit", locale, value=shown(limits.lower)),
             kind="limit",
         ),
     ]
     value = judged[last] or 0.0
-    why = reasons(value, limits, fired.get(last, []), chart.run_length)
-    band = (
-        f"limits {shown(limits.lower, False)} to {shown(limits.upper, False)}; "
-        f"moving-range limit {shown(limits.range_limit, False)}"
+    why = reasons(value, limits, fired.get(last, []), chart.run_length, locale)
+    band = wording.say(
+        "text.limits_band",
+        locale,
+        lo=shown(limits.lower, False),
+        hi=shown(limits.upper, False),
+        range=formatting.show(limits.range_limit, bare, locale),
     )
     previous = judged[last - 1] if last > 0 else None
     if previous is None:
-        opening = f"No change to judge for {labels[last]} (no value the period before)"
+        opening = wording.say("text.no_change_to_judge", locale, period=labels[last])
     else:
         change = value - previous
-        sign = "+" if change > 0 else ""
-        opening = f"Latest change {sign}{shown(change)} ({labels[last - 1]} to {labels[last]})"
+        opening = wording.say(
+            "text.latest_change",
+            locale,
+            change=formatting.change(change, style, locale),
+            before=labels[last - 1],
+            after=labels[last],
+        )
         if abs(change) > limits.range_limit:
-            why.append("moving range beyond its limit")
+            why.append(wording.say("text.range_beyond", locale))
     if why:
-        text = f"{opening}: signal ({'; '.join(why)}; {band})"
+        text = wording.say(
+            "text.signal_verdict", locale, opening=opening, why="; ".join(why), band=band
+        )
     else:
-        text = f"{opening}: within routine variation ({band})"
+        text = wording.say("text.routine_verdict", locale, opening=opening, band=band)
     verdicts = [Verdict(index=last, text=text, signal=bool(why))]
     for i, rules in sorted(fired.items()):
         if i == last:
             continue  # the verdict on the latest change already names its rules
-        named = f"rule {rules[0]}" if len(rules) == 1 else f"rules {', '.join(map(str, rules))}"
-        verdicts.append(Verdict(index=i, text=f"{labels[i]}: signal ({named})", signal=True))
+        key = "text.signal_rule" if len(rules) == 1 else "text.signal_rules"
+        named = ", ".join(map(str, rules))
+        verdicts.append(
+            Verdict(
+                index=i, text=wording.say(key, locale, period=labels[i], rules=named), signal=True
+            )
+        )
     return Reading(labels, values, partial, limits, references, verdicts)
 
 
@@ -228,21 +252,25 @@ def problems(chart: MovementChart, table: Table, path: str, limits: Limits) -> I
         )
 
 
-def fitted_axis(reading: Reading, unit: str, label: str) -> Scale:
+def fitted_axis(
+    reading: Reading, unit: str, label: str, style: formatting.Style | None = None
+) -> Scale:
     """A value axis that holds every drawn value and every reference line."""
     done, running = off_scale.split(reading.partial, reading.values)
     references = [r.value for r in reading.references]
     lo, hi = scales.fit_periods([*done, *references], running, include_zero=False, unit=unit)
-    return Scale(lo=lo, hi=hi, unit=unit, label=label)
+    return Scale(lo=lo, hi=hi, unit=unit, label=label, style=style)
 
 
 def encode(chart: MovementChart, table: Table, env: Env) -> ChartPlan:
     reading = assess(chart, table, env)
     unit = table.units.get(chart.measure, "")
     values = reading.values
-    series = Series(name=chart.measure, unit=unit, values=values, segments=runs(values))
+    name = table.label(chart.measure)
+    series = Series(name=chart.measure, label=name, unit=unit, values=values, segments=runs(values))
     gaps = [Gap(index=i, series=[chart.measure]) for i, v in enumerate(values) if v is None]
-    scale = fitted_axis(reading, unit, formatting.titled(chart.measure, unit))
+    label = formatting.titled(name, unit)
+    scale = fitted_axis(reading, unit, label, table.style(chart.measure))
     plan = ChartPlan(
         **heading(chart, env.locale, table.source),
         form="control",

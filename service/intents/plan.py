@@ -26,6 +26,7 @@ from typing import Any, Literal
 import numpy as np
 from pydantic import BaseModel, ConfigDict
 
+from service import formatting
 from service.definition.model import ChartBase
 
 Form = Literal[
@@ -46,10 +47,27 @@ class Scale(Frozen):
     unit: str
     label: str
     log: bool = False
+    style: formatting.Style | None = None
+    """How values on this axis are written (else as the unit implies)."""
 
     @property
     def includes_zero(self) -> bool:
         return self.lo <= 0.0 <= self.hi
+
+    @property
+    def writes(self) -> formatting.Style:
+        """The style of the axis's values."""
+        return self.style or formatting.style_for(self.unit)
+
+    def shown(
+        self, value: float | None, locale: str, *, short: bool = False, digits: int | None = None
+    ) -> str:
+        """A value on this axis as the pack writes it (``digits``: decimals, unless the axis's
+        own format fixes them)."""
+        style = self.writes
+        if digits is not None and style.decimals is None:
+            style = style.model_copy(update={"decimals": digits})
+        return formatting.show(value, style, locale, short=short)
 
 
 class Category(Frozen):
@@ -69,6 +87,7 @@ class Series(Frozen):
     """One measure over time; ``values`` aligns with ``ChartPlan.periods`` (None: no data)."""
 
     name: str
+    """The column drawn (an identifier: checks match it against the definition)."""
     unit: str
     values: list[float | None]
     segments: list[tuple[int, int]]
@@ -82,6 +101,13 @@ class Series(Frozen):
     slot: int | None = None
     """The palette colour of this series' measure, the same on every chart of the pack
     (``intents.colours``); None: by position."""
+    label: str | None = None
+    """What readers see for the series (the column's label); else its name in words."""
+
+    @property
+    def title(self) -> str:
+        """The series as readers see it."""
+        return self.label or formatting.humanise(self.name)
 
     def positions(self) -> list[int]:
         """The period index of each value."""

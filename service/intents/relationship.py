@@ -2,7 +2,7 @@
 
 Both axes are position encodings fitted to the data; an axis that leaves out zero says so (the
 vertical one with ``compare.scale_note``, which the check ``nonzero-scale-noted`` reads; the
-horizontal one with the same sentence, prefixed "Horizontal"). Rows without both values are not
+horizontal one with the same sentence about the horizontal scale). Rows without both values are not
 drawn, and the chart says how many. A least-squares line and its r² are drawn only when the
 definition asks (``fit``); computed with numpy in closed form.
 """
@@ -14,7 +14,7 @@ from collections.abc import Iterable
 import numpy as np
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import RelationshipChart
@@ -89,30 +89,32 @@ def r2_text(fit: Fit, locale: str) -> str:
     return f"r² = {formatting.number(fit.r2, locale, digits=2)}"
 
 
-def guide(chart: RelationshipChart, fit: Fit | None, locale: str) -> str:
+def guide(chart: RelationshipChart, table: Table, fit: Fit | None, locale: str) -> str:
     """The reading guide: what a dot is, which way is more, and (with a line) what r² means."""
-    what = chart.label or "row"
-    text = (
-        f"Each dot is one {what}: further right means more {chart.x}, higher means more {chart.y}."
-    )
+
+    def named(name: str) -> str:
+        return formatting.in_sentence(table.label(name), locale)
+
+    what = named(chart.label) if chart.label else wording.say("text.row", locale)
+    text = wording.say("text.scatter_guide", locale, what=what, x=named(chart.x), y=named(chart.y))
     if fit is None:
-        return text
-    share = formatting.number(round(fit.r2 * 100), locale)
-    return (
-        f"{text} The line is the least-squares fit ({r2_text(fit, locale)}: the line accounts "
-        f"for {share} % of the variation in {chart.y}); it shows association, not cause."
+        return wording.sentence(text)
+    share = formatting.percent(round(fit.r2 * 100), locale)
+    line = wording.say(
+        "text.fit_guide", locale, r2=r2_text(fit, locale), share=share, y=named(chart.y)
     )
+    return wording.sentence(text, line)
 
 
 def dropped_note(dropped: int, locale: str) -> str:
     if dropped == 1:
-        return "1 row without both values is not shown."
-    return f"{formatting.number(dropped, locale)} rows without both values are not shown."
+        return wording.say("text.dropped_one", locale)
+    return wording.say("text.dropped", locale, count=formatting.number(dropped, locale))
 
 
 def horizontal_note(axis: Scale, locale: str) -> str:
     """``compare.scale_note`` for the horizontal axis."""
-    return "Horizontal s" + scale_note(axis, locale)[1:]
+    return wording.say("text.horizontal_scale_note", locale, start=axis.shown(axis.lo, locale))
 
 
 def fit_for(chart: RelationshipChart, table: Table) -> Fit | None:
@@ -150,7 +152,7 @@ def encode(chart: RelationshipChart, table: Table, env: Env) -> ChartPlan:
         x_axis=x_axis,
         points=points,
         fit=fit,
-        guide=guide(chart, fit, env.locale),
+        guide=guide(chart, table, fit, env.locale),
         notes=notes,
     )
 
@@ -160,7 +162,8 @@ def _scale(values: list[float], name: str, table: Table) -> Scale:
     lo, hi = scales.fit(values, include_zero=False, unit=unit, pad=scales.EDGE_ROOM)
     if values and min(values) >= 0.0:
         lo = max(lo, 0.0)  # padding never pushes a measure that cannot be negative below zero
-    return Scale(lo=lo, hi=hi, unit=unit, label=formatting.titled(name, unit))
+    label = formatting.titled(table.label(name), unit)
+    return Scale(lo=lo, hi=hi, unit=unit, label=label, style=table.style(name))
 
 
 def _floats(values: pd.Series) -> list[float]:

@@ -19,7 +19,7 @@ from typing import Any
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data import periods
 from service.data.frames import Table
@@ -80,12 +80,20 @@ def base_label(chart: RelativeChangeChart, table: Table, locale: str) -> str | N
     return periods.label(full[index], table.frequency, locale)
 
 
-def units_text(chart: RelativeChangeChart, table: Table) -> str | None:
+def units_text(chart: RelativeChangeChart, table: Table, locale: str = "en-GB") -> str | None:
     """'cost in GBP, cases in cases' when the measures' units differ, else ``None``."""
     units = [table.units.get(m, "") for m in chart.measures]
     if len(set(units)) <= 1:
         return None
-    return ", ".join(f"{m} in {u}" for m, u in zip(chart.measures, units, strict=True))
+    return ", ".join(
+        wording.say(
+            "text.measure_in_unit",
+            locale,
+            name=formatting.in_sentence(table.label(m), locale),
+            unit=u,
+        )
+        for m, u in zip(chart.measures, units, strict=True)
+    )
 
 
 def problems(
@@ -175,7 +183,7 @@ def encode(chart: RelativeChangeChart, table: Table, env: Env) -> ChartPlan:
         "gaps": gaps,
         "partial": None
         if done is None
-        else PartialMark(index=len(full) - 1, text=done.text(), fraction=done.fraction),
+        else PartialMark(index=len(full) - 1, text=done.text(env.locale), fraction=done.fraction),
     }
     if chart.form == "panels":
         return _panels(chart, table, raw, fields)
@@ -188,7 +196,14 @@ Raw = dict[str, list[float | None]]
 
 def _series(name: str, unit: str, values: list[float | None], table: Table) -> Series:
     estimate = name in table.estimates
-    return Series(name=name, unit=unit, values=values, segments=runs(values), estimate=estimate)
+    return Series(
+        name=name,
+        label=table.label(name),
+        unit=unit,
+        values=values,
+        segments=runs(values),
+        estimate=estimate,
+    )
 
 
 def _indexed(
@@ -205,16 +220,22 @@ def _indexed(
         shown = [None if v is None else _indexed_value(v, at_base, percent=percent) for v in values]
         # Series.unit is how one value is written: an index has none, a change is in %.
         series.append(_series(measure, "%" if percent else "", shown, table))
-    unit = f"% change since {base}" if percent else f"index ({base} = 100)"
+    unit = wording.say("text.change_since" if percent else "text.index_unit", locale, base=base)
     done, running = off_scale.split(fields["partial"], *(s.values for s in series))
-    lo, hi = scales.fit_periods(done, running, include_zero=False, unit=unit)
-    scale = Scale(lo=lo, hi=hi, unit=unit, label=unit)
+    lo, hi = scales.fit_periods(done, running, include_zero=False)  # a change is not a share
+    style = formatting.style_for("%") if percent else formatting.style_for("")
+    scale = Scale(lo=lo, hi=hi, unit=unit, label=unit, style=style)
     level = 0.0 if percent else 100.0
-    label = f"{base} = 0%" if percent else f"{base} = 100"
-    differ = units_text(chart, table)
-    opening = f"Change since {base}, in %." if percent else f"Indexed: {base} = 100."
-    why = f"Units differ ({differ}), so only" if differ else "Only"
-    notes = [f"{opening} {why} the change is compared."]
+    level_text = formatting.percent(0, locale) if percent else formatting.number(100, locale)
+    label = wording.say("text.base_line", locale, base=base, value=level_text)
+    differ = units_text(chart, table, locale)
+    opening = wording.say(
+        "text.change_opening" if percent else "text.index_opening", locale, base=base
+    )
+    why = wording.say(
+        "text.units_differ_only" if differ else "text.only_change", locale, differ=differ
+    )
+    notes = [wording.sentence(opening, why)]
     if not scale.includes_zero:
         notes.append(scale_note(scale, locale))
     return off_scale.mark_off_scale(
@@ -224,7 +245,7 @@ def _indexed(
             value_axis=scale,
             series=series,
             references=[Reference(value=level, label=label, kind="centre")],
-            notes=notes + _estimates(chart, table),
+            notes=notes + _estimates(chart, table, locale),
         )
     )
 
@@ -242,29 +263,31 @@ def _panels(
         unit = table.units.get(measure, "")
         done, running = off_scale.split(fields["partial"], values)
         lo, hi = scales.fit_periods(done, running, include_zero=False, unit=unit)
-        axis = Scale(lo=lo, hi=hi, unit=unit, label=unit or measure)
+        name = table.label(measure)
+        axis = Scale(lo=lo, hi=hi, unit=unit, label=unit or name, style=table.style(measure))
         notes = [] if axis.includes_zero else [scale_note(axis, fields["locale"])]
-        title = formatting.titled(measure, unit)
+        title = formatting.titled(name, unit)
         series = [_series(measure, unit, values, table)]
         panels.append(Panel(title=title, value_axis=axis, series=series, notes=notes))
-    differ = units_text(chart, table)
-    lead = f"Units differ ({differ}): each" if differ else "Each"
-    note = f"{lead} panel has its own scale, so compare the shape of each line, not heights across panels."
+    locale = fields["locale"]
+    differ = units_text(chart, table, locale)
+    key = "text.panels_units_differ" if differ else "text.panels_note"
+    note = wording.say(key, locale, differ=differ)
     return off_scale.mark_off_scale(
         ChartPlan(
             **fields,
             form="panels",
             value_axis=panels[0].value_axis,  # required by the plan; each panel is drawn on its own
             panels=panels,
-            notes=[note, *_estimates(chart, table)],
+            notes=[note, *_estimates(chart, table, locale)],
         )
     )
 
 
-def _estimates(chart: RelativeChangeChart, table: Table) -> list[str]:
+def _estimates(chart: RelativeChangeChart, table: Table, locale: str) -> list[str]:
     """The note naming measures declared as estimates (drawn dashed), if there are any."""
-    estimated = sorted(m for m in chart.measures if m in table.estimates)
-    return [estimates_note(estimated)] if estimated else []
+    estimated = [table.label(m) for m in chart.measures if m in table.estimates]
+    return [estimates_note(estimated, locale)] if estimated else []
 
 
 ENCODER = register(Encoder("relative_change", problems, encode, frozenset({"lines", "panels"})))

@@ -34,7 +34,7 @@ from fractions import Fraction
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import ShareChart
@@ -93,20 +93,25 @@ def pie_problem(values: list[float], locale: str = "en-GB") -> str | None:
     every part that lies between them in size.
     """
     if len(values) > MAX_PIE_PARTS:
-        return f"{len(values)} parts, more than {MAX_PIE_PARTS}"
+        return wording.say("finding.pie_too_many", locale, count=len(values), most=MAX_PIE_PARTS)
     if not values:
-        return "no part has a value"
+        return wording.say("finding.pie_no_value", locale)
     if any(v <= 0 for v in values):
-        return "a part of zero or less has no wedge"
+        return wording.say("finding.pie_zero_part", locale)
     pair = closest_pair(values)
     if pair is not None:
         small, large = pair
         points, ratio = large - small, large / small
         if points < MIN_PIE_POINTS and ratio < MIN_PIE_RATIO:
-            return (
-                f"{_pct(small, locale)} and {_pct(large, locale)} differ by "
-                f"{formatting.number(points, locale, digits=1)} "
-                f"points and ×{ratio:.2f}, under {MIN_PIE_POINTS:g} points and ×{MIN_PIE_RATIO}"
+            return wording.say(
+                "finding.pie_too_close",
+                locale,
+                small=_pct(small, locale),
+                large=_pct(large, locale),
+                points=formatting.points(points, locale, digits=1),
+                ratio=formatting.number(ratio, locale, digits=2),
+                min_points=formatting.points(MIN_PIE_POINTS, locale),
+                min_ratio=formatting.number(MIN_PIE_RATIO, locale),
             )
     return None
 
@@ -129,7 +134,7 @@ def closest_pair(values: list[float]) -> tuple[float, float] | None:
 
 
 def _pct(share: float, locale: str) -> str:
-    return formatting.number(share, locale, digits=1) + " %"
+    return formatting.percent(share, locale, digits=1)
 
 
 def decimals(values: list[float]) -> int:
@@ -193,12 +198,14 @@ def problems(chart: ShareChart, table: Table, path: str, limits: Limits) -> Iter
         seen.add(expected)
 
 
-def bars_axis(categories: list[Category], unit: str, label: str) -> Scale:
+def bars_axis(
+    categories: list[Category], unit: str, label: str, style: formatting.Style | None = None
+) -> Scale:
     """A zero-based value axis holding every part."""
     lo, hi = scales.fit(
         [c.value for c in categories if c.value is not None], include_zero=True, unit=unit
     )
-    return Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label)
+    return Scale(lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=label, style=style)
 
 
 def sorted_parts(categories: list[Category]) -> list[Category]:
@@ -208,14 +215,15 @@ def sorted_parts(categories: list[Category]) -> list[Category]:
     return present + [c for c in categories if c.value is None]
 
 
-def guide_note(values: list[float | None], unit: str, locale: str) -> str | None:
+def guide_note(values: list[float | None], style: formatting.Style, locale: str) -> str | None:
     present = [v for v in values if v is not None]
     if all(p is None for p in percents(values)):
         return None
-    total = formatting.with_unit(
-        math.fsum(present), unit, locale, digits=formatting.decimals_for(present)
+    digits = formatting.decimals_for(present) if style.decimals is None else style.decimals
+    total = formatting.show(
+        math.fsum(present), style.model_copy(update={"decimals": digits}), locale
     )
-    return f"Percentages of the whole ({total}); they sum to 100."
+    return wording.say("text.share_note", locale, total=total)
 
 
 def encode(chart: ShareChart, table: Table, env: Env) -> ChartPlan:
@@ -227,12 +235,15 @@ def encode(chart: ShareChart, table: Table, env: Env) -> ChartPlan:
     ]
     categories = sorted_parts(categories)
     unit = table.units.get(chart.measure, "")
-    note = guide_note(values, unit, env.locale)
+    style = table.style(chart.measure)
+    note = guide_note(values, style, env.locale)
     pie = chart.allow_pie
     return ChartPlan(
         **heading(chart, env.locale, table.source),
         form="pie" if pie else "bars",
-        value_axis=bars_axis(categories, unit, formatting.titled(chart.measure, unit)),
+        value_axis=bars_axis(
+            categories, unit, formatting.titled(table.label(chart.measure), unit), style
+        ),
         baseline=None if pie else 0.0,
         categories=categories,
         palette=list(env.palette or []),

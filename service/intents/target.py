@@ -17,7 +17,7 @@ from typing import Any
 
 import pandas as pd
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data.frames import Table
 from service.definition.model import TargetChart
@@ -26,8 +26,13 @@ from service.intents import categories, scales
 from service.intents.plan import Category, ChartPlan, Reference, Scale, heading
 from service.intents.registry import Encoder, Env, register
 
-DEVIATION_NOTE = "Bars show actual minus target."
-ON_TARGET = "on target"
+
+def deviation_note(locale: str) -> str:
+    """The note of a deviation chart: what its bars are."""
+    return wording.say("text.deviation_note", locale)
+
+
+DEVIATION_NOTE = deviation_note("en-GB")
 
 
 def problems(chart: TargetChart, table: Table, path: str, limits: Limits) -> Iterable[Problem]:
@@ -101,22 +106,29 @@ def encode(chart: TargetChart, table: Table, env: Env) -> ChartPlan:
 
 def _bars(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> ChartPlan:
     unit = table.units.get(chart.actual, "")
+    style = table.style(chart.actual)
     categories = [Category(label=label, value=a, target=t) for label, a, t in rows]
     present = [v for _, a, t in rows for v in (a, t) if v is not None]
     lo, hi = scales.fit(present, include_zero=True, unit=unit)
     references: list[Reference] = []
     if chart.target_value is not None:
-        shown = formatting.with_unit(chart.target_value, unit, env.locale)
-        references.append(
-            Reference(value=chart.target_value, label=f"target {shown}", kind="target")
-        )
+        shown = formatting.show(chart.target_value, style, env.locale)
+        label = wording.say("text.target_line", env.locale, value=shown)
+        references.append(Reference(value=chart.target_value, label=label, kind="target"))
     without = [label for label, _, t in rows if t is None]
-    notes = [f"No target given for: {', '.join(without)}."] if without else []
+    notes = []
+    if without:
+        names = ", ".join(without)
+        notes.append(wording.sentence(wording.say("text.no_target", env.locale, names=names)))
     return ChartPlan(
         **heading(chart, env.locale, table.source),
         form="bars",
         value_axis=Scale(
-            lo=lo, hi=max(hi, lo + 1e-9), unit=unit, label=formatting.titled(chart.actual, unit)
+            lo=lo,
+            hi=max(hi, lo + 1e-9),
+            unit=unit,
+            label=formatting.titled(table.label(chart.actual), unit),
+            style=style,
         ),
         baseline=0.0,
         categories=categories,
@@ -126,14 +138,18 @@ def _bars(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> ChartP
 
 
 def _deviation(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> ChartPlan:
-    unit = table.units.get(chart.actual, "")
+    style = table.style(chart.actual)
+    if style.kind == "percent":  # a difference of two percentages is in percentage points
+        style = formatting.style_for("pp", decimals=style.decimals)
+    unit = style.unit
     categories = [Category(label=label, value=variance(a, t)) for label, a, t in rows]
     variances = [c.value for c in categories if c.value is not None]
     lo, hi = scales.fit(variances, include_zero=True, unit=unit)  # to the data, not symmetric
-    note = DEVIATION_NOTE
+    note = deviation_note(env.locale)
     if chart.target_value is not None:
-        shown = formatting.with_unit(chart.target_value, unit, env.locale)
-        note = f"{DEVIATION_NOTE} The target is {shown} for every category."
+        shown = table.style(chart.actual)
+        value = formatting.show(chart.target_value, shown, env.locale)
+        note = wording.sentence(note, wording.say("text.one_target", env.locale, value=value))
     return ChartPlan(
         **heading(chart, env.locale, table.source),
         form="deviation",
@@ -141,11 +157,17 @@ def _deviation(chart: TargetChart, table: Table, env: Env, rows: list[Row]) -> C
             lo=lo,
             hi=hi,
             unit=unit,
-            label=formatting.titled(f"{chart.actual} minus target", unit),
+            label=formatting.titled(
+                wording.say("text.minus_target", env.locale, name=table.label(chart.actual)),
+                wording.say("text.pp_unit", env.locale) if style.points else unit,
+            ),
+            style=style,
         ),
         baseline=0.0,
         categories=categories,
-        references=[Reference(value=0.0, label=ON_TARGET, kind="target")],
+        references=[
+            Reference(value=0.0, label=wording.say("text.on_target", env.locale), kind="target")
+        ],
         notes=[note],
     )
 

@@ -12,7 +12,7 @@ from collections.abc import Iterable
 
 import numpy as np
 
-from service import formatting
+from service import formatting, wording
 from service.config import Limits
 from service.data import periods
 from service.data.frames import Table
@@ -49,11 +49,26 @@ def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iter
             )
 
 
-def estimates_note(names: list[str]) -> str:
-    return "Estimates, not actuals (dashed or hollow): " + ", ".join(names) + "."
+def estimates_note(names: list[str], locale: str) -> str:
+    """The chart's note naming the series that are estimates (their labels, in reading order)."""
+    return wording.sentence(wording.say("text.estimates_note", locale, names=listed(names, locale)))
 
 
-def project(series: list[Series], partial: PartialMark, chart: TrendChart) -> list[Series]:
+def estimate_titles(series: list[Series], names: set[str]) -> list[str]:
+    """The titles of the series named in ``names``, once each, in drawing order."""
+    return list(dict.fromkeys(s.title for s in series if s.name in names))
+
+
+def listed(items: list[str], locale: str) -> str:
+    """Items as a reader lists them: "a", "a and b", "a, b and c"."""
+    if len(items) < 2:
+        return "".join(items)
+    return wording.say("text.and", locale, first=", ".join(items[:-1]), last=items[-1])
+
+
+def project(
+    series: list[Series], partial: PartialMark, chart: TrendChart, locale: str
+) -> list[Series]:
     """Run-rate estimates of the partial period: its value so far divided by the share elapsed.
 
     Each is a separate series (so it is never joined to the actuals), marked as an estimate."""
@@ -67,6 +82,7 @@ def project(series: list[Series], partial: PartialMark, chart: TrendChart) -> li
         out.append(
             Series(
                 name=f"{s.name} (estimate)",
+                label=wording.say("text.estimate_of", locale, name=s.title),
                 unit=s.unit,
                 values=values,
                 segments=[(partial.index, partial.index)],
@@ -76,7 +92,13 @@ def project(series: list[Series], partial: PartialMark, chart: TrendChart) -> li
     return out
 
 
-LOG_NOTE = "Logarithmic scale: equal distances show equal ratios, not equal differences."
+def log_note(locale: str) -> str:
+    """The note a logarithmic scale carries, in the report's language."""
+    return wording.say("text.log_note", locale)
+
+
+LOG_NOTE = log_note("en-GB")
+"""The note in English (the check ``log-scale-noted`` reads the note of the plan's locale)."""
 
 
 def runs(values: list[float | None]) -> list[tuple[int, int]]:
@@ -98,6 +120,7 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
         series.append(
             Series(
                 name=measure,
+                label=table.label(measure),
                 unit=unit,
                 values=values,
                 segments=timeseries.runs_of(drawn),
@@ -108,15 +131,15 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
     partial = None
     done = periods.completeness(full[-1], as_of)
     if done is not None:
-        partial = PartialMark(index=len(full) - 1, text=done.text(), fraction=done.fraction)
+        partial = PartialMark(index=len(full) - 1, text=done.text(locale), fraction=done.fraction)
     notes: list[str] = []
     if chart.projection is not None and partial is not None:
-        series.extend(project(series, partial, chart))
+        series.extend(project(series, partial, chart, locale))
     elif chart.projection is not None:
-        notes.append("No projection: the last period was complete at as_of.")
-    estimated = sorted(s.name for s in series if s.estimate)
+        notes.append(wording.say("text.no_projection", locale))
+    estimated = estimate_titles(series, {s.name for s in series if s.estimate})
     if estimated:
-        notes.append(estimates_note(estimated))
+        notes.append(estimates_note(estimated, locale))
     log = chart.scale == "log"
     measured = np.vstack([frame[m].to_numpy(dtype=float, na_value=np.nan) for m in chart.measures])
     running: list[float] = []
@@ -125,12 +148,16 @@ def encode(chart: TrendChart, table: Table, env: Env) -> ChartPlan:
         measured = measured[:, : partial.index]
     complete = timeseries.extremes(measured.ravel(), positive=log)
     lo, hi = scales.fit_periods(complete, running, include_zero=chart.from_zero, unit=unit, log=log)
-    label = unit if len(chart.measures) > 1 else formatting.titled(chart.measures[0], unit)
-    scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log)
+    first = chart.measures[0]
+    if len(chart.measures) > 1:
+        label = formatting.humanise(unit)  # the series are named by their end labels
+    else:
+        label = formatting.titled(table.label(first), unit)
+    scale = Scale(lo=lo, hi=hi, unit=unit, label=label, log=log, style=table.style(first))
     if not (scale.includes_zero or log):
         notes.append(scale_note(scale, locale))
     if log:
-        notes.append(LOG_NOTE)
+        notes.append(log_note(locale))
     plan = ChartPlan(
         **heading(chart, locale, table.source),
         form="lines",

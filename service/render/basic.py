@@ -12,9 +12,9 @@ from matplotlib.figure import Figure
 from matplotlib.ticker import FixedLocator, NullFormatter
 from matplotlib.transforms import offset_copy
 
-from service import formatting
+from service import formatting, wording
 from service.intents import colours
-from service.intents.plan import ChartPlan, Scale, Series
+from service.intents.plan import ChartPlan, Scale, Series, all_series
 from service.render import common, style
 from service.render.drawer import Drawer, drawer
 
@@ -46,7 +46,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
         pad = span * 0.008 * (1 if inside >= 0 else -1)
         text = common.value_label(plan, category.value)
         if category.percent is not None:
-            text = f"{category.percent} %  ({text})"
+            text = f"{formatting.percent(category.percent, plan.locale)} ({text})"
         ends = [category.value, category.hi, category.target]
         top = max(v for v in ends if v is not None)
         if inside >= 0:
@@ -190,7 +190,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             if plan.value_labels:
                 for x, y in zip(xs, ys, strict=True):
                     ax.annotate(
-                        formatting.number(y, plan.locale),
+                        formatting.number(y, plan.locale, digits=axis.writes.decimals),
                         xy=(x, y),
                         xytext=(0, 4),
                         textcoords="offset points",
@@ -227,8 +227,10 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         ]
         if complete and (len(series_list) > 1 or series.estimate):
             tagged = series.estimate and "estimate" not in series.name
-            name = f"{series.name} (estimate)" if tagged else series.name
-            ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
+            name = wording.say("text.estimate_of", plan.locale, name=series.title)
+            ends.append(
+                (name if tagged else series.title, complete[-1][0], float(complete[-1][1]), colour)
+            )
     return ends
 
 
@@ -265,7 +267,10 @@ def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None
     for gap in plan.gaps:
         ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0, zorder=0)
         everyone = len(gap.series) >= series_count
-        text = "no data" if everyone else "no data: " + ", ".join(gap.series)
+        titles = {s.name: s.title for s in all_series(plan)}
+        text = wording.say("text.no_data", plan.locale)
+        if not everyone:
+            text += ": " + ", ".join(titles.get(n, n) for n in gap.series)
         ax.text(
             gap.index,
             middle,
@@ -332,7 +337,9 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
         )
     elif present:
         ax.annotate(
-            f"{plan.periods[partial.index]} so far:\n{partial.text}",
+            wording.say(
+                "text.so_far", plan.locale, period=plan.periods[partial.index], done=partial.text
+            ),
             xy=(partial.index, min(present)),
             xytext=(-8, 0),
             textcoords="offset points",

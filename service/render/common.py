@@ -65,7 +65,7 @@ def value_formatter(plan: ChartPlan) -> FuncFormatter:
 def value_label(plan: ChartPlan, value: float | None) -> str:
     present = [c.value for c in plan.categories if c.value is not None]
     digits = formatting.decimals_for(present)
-    return formatting.with_unit(value, plan.value_axis.unit, plan.locale, digits=digits)
+    return plan.value_axis.shown(value, plan.locale, short=True, digits=digits)
 
 
 def no_data(ax: Axes, x: float, y: float, text: str | None = None) -> None:

@@ -40,10 +40,10 @@ def _rooms(ax: Axes, plan: ChartPlan) -> tuple[float, float]:
 
 
 def signed_label(plan: ChartPlan, value: float) -> str:
-    """The value with its unit and an explicit sign: "+1,200 GBP", "-300 GBP", "0 GBP"."""
+    """The value with its unit and an explicit sign: "+£1,200", "−300 journeys", "0 pp"."""
     present = [c.value for c in plan.categories if c.value is not None]
     digits = formatting.decimals_for(present)
-    text = formatting.with_unit(value, plan.value_axis.unit, plan.locale, digits=digits)
+    text = plan.value_axis.shown(value, plan.locale, short=True, digits=digits)
     return f"+{text}" if round(value, digits) > 0 else text
 
 

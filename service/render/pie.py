@@ -15,6 +15,7 @@ from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 from matplotlib.patches import Wedge
 
+from service import formatting
 from service.intents.plan import Category, ChartPlan
 from service.render import common, style
 from service.render.drawer import drawer
@@ -39,8 +40,10 @@ def wedge_angles(values: list[float]) -> list[tuple[float, float]]:
     return out
 
 
-def _label(category: Category) -> str:
-    return category.label if category.percent is None else f"{category.label} {category.percent} %"
+def _label(category: Category, locale: str) -> str:
+    if category.percent is None:
+        return category.label
+    return f"{category.label} {formatting.percent(category.percent, locale)}"
 
 
 def spread(wanted: list[float], top: float = LABEL_TOP) -> list[float]:
@@ -60,7 +63,9 @@ def spread(wanted: list[float], top: float = LABEL_TOP) -> list[float]:
     return placed
 
 
-def _labels(ax: Axes, wedges: list[Category], angles: list[tuple[float, float]]) -> None:
+def _labels(
+    ax: Axes, wedges: list[Category], angles: list[tuple[float, float]], locale: str
+) -> None:
     mids = [math.radians((a + b) / 2) for a, b in angles]
     for right in (True, False):
         side = [k for k, m in enumerate(mids) if (math.cos(m) >= 0) == right]
@@ -76,7 +81,7 @@ def _labels(ax: Axes, wedges: list[Category], angles: list[tuple[float, float]])
             ax.text(
                 x,
                 y,
-                _label(wedges[k]),
+                _label(wedges[k], locale),
                 ha="left" if right else "right",
                 va="center",
                 color=style.INK,
@@ -118,7 +123,7 @@ def draw_pie(figure: Figure, plan: ChartPlan) -> None:
                     linewidth=EDGE_WIDTH,
                 )
             )
-        _labels(ax, wedges, angles)
+        _labels(ax, wedges, angles, plan.locale)
     note = _missing_note(plan)
     if note:
         ax.text(

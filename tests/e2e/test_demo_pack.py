@@ -97,8 +97,8 @@ def test_chart_text_is_extractable_vector_text(demo_pdf: Path) -> None:
         "Differences between routes are beyond chance (one-way ANOVA",
         "r² =",
         "94.6%",
-        "scheduled",
-        "operated",
+        "Scheduled journeys",  # a series named by its label
+        "Operated journeys",
     ):
         assert expected in text, expected
 

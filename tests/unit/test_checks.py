@@ -107,8 +107,8 @@ def test_joining_across_a_gap_fails_and_is_corrected() -> None:
 @pytest.mark.parametrize(
     ("fill", "marked", "detail"),
     [
-        (0.0, True, "boardings has a value drawn at Aug 2026"),  # missing filled as zero
-        (None, False, "Aug 2026 is not marked 'no data' for boardings"),
+        (0.0, True, "Boardings has a value drawn at Aug 2026"),  # missing filled as zero
+        (None, False, "Aug 2026 is not marked 'no data' for Boardings"),
     ],
 )
 def test_filled_or_unmarked_gap_fails(fill: float | None, marked: bool, detail: str) -> None:

@@ -35,7 +35,7 @@ from matplotlib.patches import Rectangle
 from matplotlib.text import Text
 from pypdf import PdfReader
 
-from service import pipeline
+from service import formatting, pipeline, wording
 from service.checks import baseline, lie_factor, scale_note
 from service.checks import distribution as checks
 from service.checks.results import Status
@@ -86,9 +86,16 @@ def definition(
 # --- encoder: histogram ---------------------------------------------------------------------------
 
 
-def test_histogram_bins_are_numpys() -> None:
+def _nice(values: list[float], bins: int | str) -> np.ndarray:
+    """Round edges for about as many bins as numpy's rule (or the count) gives."""
+    count = len(np.histogram_bin_edges(values, bins=bins)) - 1
+    return np.asarray(formatting.nice_edges(min(values), max(values), count))
+
+
+def test_histogram_bins_are_at_round_edges() -> None:
     plan = plan_of(definition())
-    counts, edges = np.histogram(COMMUTES, bins="auto")
+    edges = _nice(COMMUTES, "auto")
+    counts, _ = np.histogram(COMMUTES, bins=edges)
     assert plan.form == "histogram"
     assert [b.count for b in plan.bins] == counts.tolist()
     assert [b.lo for b in plan.bins] == edges[:-1].tolist()
@@ -96,17 +103,17 @@ def test_histogram_bins_are_numpys() -> None:
     assert plan.baseline == 0.0
     assert (plan.value_axis.lo, plan.value_axis.unit) == (0.0, "observations")
     assert plan.value_axis.hi >= max(counts)
-    assert plan.value_axis.label == "number of commute values"
+    assert plan.value_axis.label == "Number of values"
     assert plan.x_axis is not None
     assert (plan.x_axis.lo, plan.x_axis.hi) == (edges[0], edges[-1])
-    assert (plan.x_axis.unit, plan.x_axis.label) == ("km", "commute (km)")
-    assert plan.guide == "Each bar counts the commute values between its edges; 22 values in all."
+    assert (plan.x_axis.unit, plan.x_axis.label) == ("km", "Commute (km)")
+    assert plan.guide == "Each bar counts the commute values between its edges. 22 values in all."
     assert plan.notes == []
 
 
 def test_histogram_with_the_bins_asked_for() -> None:
     plan = plan_of(definition(bins=6))
-    counts, _ = np.histogram(COMMUTES, bins=6)
+    counts, _ = np.histogram(COMMUTES, bins=_nice(COMMUTES, 6))
     assert [b.count for b in plan.bins] == counts.tolist()
 
 
@@ -114,11 +121,9 @@ def test_auto_bins_never_run_to_millions() -> None:
     """A tiny interquartile range with one far value makes numpy's "auto" width tiny; Sturges then."""
     values = np.array([i * 1e-6 for i in range(50)] + [1e6])
     edges = distribution.bin_edges(values, None)
-    assert len(edges) == len(np.histogram_bin_edges(values, bins="sturges"))
+    assert len(edges) <= len(np.histogram_bin_edges(values, bins="sturges")) + 1
     ordinary = np.array(COMMUTES)
-    assert distribution.bin_edges(ordinary, None).tolist() == (
-        np.histogram_bin_edges(ordinary, bins="auto").tolist()
-    )
+    assert distribution.bin_edges(ordinary, None).tolist() == _nice(COMMUTES, "auto").tolist()
 
 
 def test_missing_values_are_counted_not_zero() -> None:
@@ -127,7 +132,7 @@ def test_missing_values_are_counted_not_zero() -> None:
     assert plan.notes == ["2 rows have no commute value: left out, not counted as zero."]
     assert plan.guide is not None
     assert "22 values in all" in plan.guide
-    assert plan.bins[0].lo == min(COMMUTES)  # no zero was slipped in
+    assert plan.bins[0].lo <= min(COMMUTES) < plan.bins[0].hi  # a round edge, no value invented
 
 
 def test_histogram_passes_the_length_checks() -> None:
@@ -163,7 +168,7 @@ def test_box_quartiles_whiskers_and_outliers() -> None:
         assert box.outliers == sorted(v for v in values if not low_fence <= v <= high_fence)
     assert plan.boxes[0].outliers == [48.0]
     assert plan.boxes[1].outliers == []
-    assert plan.guide == distribution.box_guide("commute")
+    assert plan.guide == distribution.box_guide("Commute", "en-GB")
     assert plan.guide.startswith("The box holds the middle half of the commute values")
 
 
@@ -256,7 +261,7 @@ def test_generic_guide_for_a_chart_of_another_kind() -> None:
     """The correction still gives a guide when the definition cannot name the measure."""
     ctx = context_for(intake(make_definition()))  # a trend chart
     plan = plan_of(definition(form="box")).model_copy(update={"guide": None})
-    assert checks.guide_for(plan, ctx) == checks.GENERIC_GUIDES["box"]
+    assert checks.guide_for(plan, ctx) == wording.say(checks.GENERIC_GUIDES["box"], "en-GB")
 
 
 def test_histogram_bins_even_passes() -> None:
@@ -330,8 +335,8 @@ def test_histogram_bars_are_the_counts_from_zero_and_touch() -> None:
     zero_px = ax.transData.transform((0, 0))[1]
     assert all(p.get_window_extent().y0 == pytest.approx(zero_px) for p in bars)
     assert ax.get_ylim() == (0.0, plan.value_axis.hi)
-    assert ax.get_xlabel() == "commute (km)"
-    assert ax.get_ylabel() == "number of commute values"
+    assert ax.get_xlabel() == "Commute (km)"
+    assert ax.get_ylabel() == "Number of values"
     _guide_is_shown_apart_from_the_notes(figure, plan)
 
 
@@ -375,7 +380,7 @@ def test_box_positions_are_the_quartiles() -> None:
     assert isinstance(outliers[0], Line2D)
     labels = [t.get_text() for t in ax.get_yticklabels()]
     assert labels == ["Civic Centre (n = 12)", "Depot (n = 10)"]
-    assert ax.get_xlabel() == "commute (km)"
+    assert ax.get_xlabel() == "Commute (km)"
     _guide_is_shown_apart_from_the_notes(figure, plan)
 
 

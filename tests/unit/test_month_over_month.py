@@ -302,7 +302,7 @@ def test_two_signed_packs_compare_entry_by_entry(w: World, pair: tuple[PackRow, 
     assert moved == {
         "chart": "boardings-trend",
         "title": "Passenger boardings by month",
-        "label": "boardings",
+        "label": "Boardings",
         "unit": "boardings",
         "before": 57120.0,
         "after": 59976.0,
@@ -430,11 +430,11 @@ def test_key_figures_of_the_demo(built: Built) -> None:
     # (15,480) is not taken; the run-rate projection of November is 15,480 × 30 / 8 = 58,050.
     title = "Passenger boardings by month"
     assert figures["boardings-trend"] == [
-        Figure("boardings-trend", title, "boardings", 57120.0, "boardings", "Oct 2026"),
+        Figure("boardings-trend", title, "Boardings", 57120.0, "boardings", "Oct 2026"),
         Figure(
             "boardings-trend",
             title,
-            "boardings (estimate)",
+            "Boardings (estimate)",
             15480 * 30 / 8,
             "boardings",
             "Nov 2026",
@@ -486,7 +486,7 @@ def test_key_figures_of_the_demo(built: Built) -> None:
     cost = {r["month"]: r["operating_cost"] for r in datasets["cost_and_use"]["rows"]}
     (operating, _boardings) = figures["cost-vs-use"]
     assert operating.value == pytest.approx(cost["2026-10-01"] / cost["2025-12-01"] * 100)
-    assert (operating.unit, operating.period) == ("index (Dec 2025 = 100)", "Oct 2026")
+    assert (operating.unit, operating.period) == ("Index (Dec 2025 = 100)", "Oct 2026")
 
 
 def test_a_series_with_only_a_partial_period_gives_that_period_marked(limits: Limits) -> None:

@@ -122,6 +122,6 @@ def test_lines_use_the_plot_height_and_get_labelled() -> None:
 
 def test_about_rounds_to_two_significant_figures() -> None:
     assert precision.about(0.01374, "%", "en-GB") == "0.014%"
-    assert precision.about(1234.0, "GBP", "en-GB") == "1,200 GBP"
+    assert precision.about(1234.0, "GBP", "en-GB") == "£1,200"
     assert precision.about(0.1, "", "en-GB") == "0.1"
     assert precision.about(4.704, "journeys", "en-GB") == "4.7 journeys"

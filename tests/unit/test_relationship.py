@@ -104,8 +104,8 @@ def test_points_axes_and_dropped_rows() -> None:
     assert plan.form == "scatter"
     assert [(p.label, p.x, p.y) for p in plan.points] == TRIPS
     assert plan.x_axis is not None
-    assert (plan.x_axis.unit, plan.x_axis.label) == ("km", "distance (km)")
-    assert (plan.value_axis.unit, plan.value_axis.label) == ("min", "time (min)")
+    assert (plan.x_axis.unit, plan.x_axis.label) == ("km", "Distance (km)")
+    assert (plan.value_axis.unit, plan.value_axis.label) == ("min", "Time (min)")
     assert plan.x_axis.lo <= min(XS)
     assert plan.x_axis.hi >= max(XS)
     assert plan.value_axis.lo <= min(YS)
@@ -132,7 +132,7 @@ def test_least_squares_line_agrees_with_scipy() -> None:
     share = round(reference.rvalue**2 * 100)
     assert plan.guide == (
         "Each dot is one row: further right means more distance, higher means more time. "
-        f"The line is the least-squares fit (r² = {r2}: the line accounts for {share} % of the "
+        f"The line is the least-squares fit (r² = {r2}: the line accounts for {share}% of the "
         "variation in time); it shows association, not cause."
     )
 
@@ -295,7 +295,7 @@ def test_scatter_draws_each_point_and_the_line() -> None:
     names = [t.get_text() for t in ax.texts if isinstance(t, Annotation)]
     assert names == [p.label for p in plan.points]
     assert all(not t.get_parse_math() for t in ax.texts)
-    assert (ax.get_xlabel(), ax.get_ylabel()) == ("distance (km)", "time (min)")
+    assert (ax.get_xlabel(), ax.get_ylabel()) == ("Distance (km)", "Time (min)")
     assert plan.x_axis is not None
     assert ax.get_xlim() == (plan.x_axis.lo, plan.x_axis.hi)
     assert ax.get_ylim() == (plan.value_axis.lo, plan.value_axis.hi)

@@ -86,7 +86,7 @@ def test_index_arithmetic_base_100() -> None:
     # 250 / 200 × 100 = 125 and 44 / 40 × 100 = 110 (arithmetic of an index, base = 100)
     assert values(plan) == {"cost": [100.0, 125.0], "cases": [100.0, 110.0]}
     assert [s.segments for s in plan.series] == [[(0, 1)], [(0, 1)]]
-    assert plan.value_axis.unit == "index (Jan 2026 = 100)"
+    assert plan.value_axis.unit == "Index (Jan 2026 = 100)"
     assert plan.value_axis.lo <= 100.0
     assert plan.value_axis.hi >= 125.0
     assert plan.references == [Reference(value=100.0, label="Jan 2026 = 100", kind="centre")]
@@ -171,7 +171,7 @@ def test_panels_each_have_their_own_axis_fitted_to_their_measure() -> None:
     assert plan.form == "panels"
     assert plan.series == []
     cost, cases = plan.panels
-    assert (cost.title, cases.title) == ("cost (GBP)", "cases")
+    assert (cost.title, cases.title) == ("Cost (GBP)", "Cases")
     assert [s.values for s in cost.series] == [[200.0, 250.0]]
     assert [s.values for s in cases.series] == [[40.0, 44.0]]
     assert (cost.value_axis.unit, cases.value_axis.unit) == ("GBP", "cases")
@@ -216,7 +216,7 @@ def test_a_measure_declared_as_estimates_is_drawn_and_listed_as_such(form: str) 
     plan = only_chart(checked).plan
     drawn = plan.series or [s for p in plan.panels for s in p.series]
     assert [s.estimate for s in drawn] == [False, True]
-    assert "Estimates, not actuals (dashed or hollow): cases." in plan.notes
+    assert "Estimates, not actuals (dashed): Cases." in plan.notes
 
 
 # --- drawing ---------------------------------------------------------------------------------------
@@ -251,7 +251,7 @@ def test_index_draws_one_axes_on_the_index_scale() -> None:
     plan, figure = drawn(rising())
     (ax,) = figure.axes
     assert ax.get_ylim() == pytest.approx((plan.value_axis.lo, plan.value_axis.hi))
-    assert ax.get_ylabel() == "index (Jan 2026 = 100)"
+    assert ax.get_ylabel() == "Index (Jan 2026 = 100)"
 
 
 @pytest.mark.parametrize("form", ["index", "panels"])

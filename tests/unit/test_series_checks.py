@@ -84,7 +84,7 @@ def test_five_series_are_split_into_panels_on_one_shared_scale() -> None:
     plan = only_chart(checked).plan
     assert plan.form == "panels"
     assert plan.series == []
-    assert [p.title for p in plan.panels] == AREAS
+    assert [p.title for p in plan.panels] == [a.capitalize() for a in AREAS]  # the columns in words
     assert [[s.name for s in p.series] for p in plan.panels] == [[a] for a in AREAS]
     assert {p.value_axis for p in plan.panels} == {before.value_axis}  # one shared scale
     assert series.SHARED_NOTE in plan.notes
@@ -94,7 +94,7 @@ def test_five_series_with_a_focus_highlight_it() -> None:
     checked = run_checks(trend(5, focus="east"))
     found = result_of(checked, "series-count")
     assert found.status is Status.corrected
-    assert found.corrected_to == "highlighted east, 4 others in grey"
+    assert found.corrected_to == "highlighted East, 4 others in grey"
     plan = only_chart(checked).plan
     assert plan.form == "lines"
     assert [s.name for s in plan.series if not s.muted] == ["east"]

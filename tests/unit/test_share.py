@@ -118,7 +118,7 @@ def test_default_form_is_sorted_zero_based_bars_with_shares() -> None:
     assert plan.value_axis.unit == "GBP"
     assert [c.label for c in plan.categories] == ["Schools", "Roads", "Art", "Parks"]
     assert [c.percent for c in plan.categories] == [50, 30, 20, 0]  # the zero part is kept
-    assert plan.notes == ["Percentages of the whole (1,000 GBP); they sum to 100."]
+    assert plan.notes == ["Percentages of the whole (£1,000); they sum to 100."]
 
 
 def test_equal_parts_keep_input_order() -> None:
@@ -204,7 +204,7 @@ def test_pie_wedges_are_proportional_clockwise_from_twelve() -> None:
         assert after.theta2 == pytest.approx(before.theta1)  # clockwise, no gap
     assert all(w.get_edgecolor() == (1.0, 1.0, 1.0, 1.0) for w in wedges)
     texts = [t.get_text() for t in ax.findobj(Text)]
-    assert {"Schools 50 %", "Roads 30 %", "Art 20 %"} <= set(texts)
+    assert {"Schools 50%", "Roads 30%", "Art 20%"} <= set(texts)
     assert ax.get_legend() is None
     assert ax.get_aspect() == 1.0
 
@@ -229,8 +229,8 @@ def test_share_bars_print_percent_and_value() -> None:
     ax = _drawn(plan)
     assert len([p for p in ax.patches if isinstance(p, Rectangle) and p.get_width() > 0]) == 2
     texts = [t.get_text() for t in ax.findobj(Text)]
-    assert "60 %  (600 GBP)" in texts
-    assert "40 %  (400 GBP)" in texts
+    assert "60% (£600)" in texts
+    assert "40% (£400)" in texts
 
 
 @pytest.mark.parametrize("allow_pie", [False, True])

@@ -77,7 +77,7 @@ def test_rounded_parts_within_tolerance_pass() -> None:
     found = result_of(run_checks(share_definition(THIRDS, whole=100)), "parts-sum-to-whole")
     assert found.status is Status.passed
     assert found.measured == pytest.approx(-0.1)
-    assert found.measured_text == "99.9 GBP against 100.0 GBP"
+    assert found.measured_text == "£99.9 against £100.0"
 
 
 def test_no_whole_stated_passes() -> None:
@@ -90,7 +90,7 @@ def test_parts_missing_the_whole_fail_and_flag_the_chart() -> None:
     checked = run_checks(share_definition({"A": 33.3, "B": 33.3, "C": 33.0}, whole=100))
     found = result_of(checked, "parts-sum-to-whole")
     assert found.status is Status.failed
-    assert "0.4 GBP apart" in found.explanation
+    assert "£0.40 apart" in found.explanation
     assert only_chart(checked).plan.flags[0].startswith("parts-sum-to-whole: ")
 
 
@@ -115,7 +115,7 @@ def test_a_negative_part_fails() -> None:
         1,
         "1 negative",
     )
-    assert "B (-2 GBP)" in found.explanation
+    assert "B (\u2212£2)" in found.explanation
     plan = only_chart(checked).plan
     assert all(c.percent is None for c in plan.categories)  # no shares of a broken whole
     assert result_of(checked, "shares-sum-to-100").status is Status.passed
@@ -164,7 +164,7 @@ def test_dropping_an_expected_part_from_a_plan_fails_the_measure() -> None:
 def test_shares_sum_to_100_passes() -> None:
     checked = run_checks(share_definition({"A": 13.626332, "B": 47.989636, "C": 9.596008}))
     found = result_of(checked, "shares-sum-to-100")
-    assert (found.status, found.measured, found.measured_text) == (Status.passed, 100, "sum 100 %")
+    assert (found.status, found.measured, found.measured_text) == (Status.passed, 100, "sum 100%")
 
 
 def test_naively_rounded_labels_fail_and_are_recomputed() -> None:
@@ -174,7 +174,7 @@ def test_naively_rounded_labels_fail_and_are_recomputed() -> None:
     naive = [c.model_copy(update={"percent": round(c.value or 0.0)}) for c in plan.categories]
     bad = plan.model_copy(update={"categories": naive})
     finding = checks.PERCENT.measure(bad, context_for(intake(definition)))
-    assert (finding.ok, finding.measured, finding.shown) == (False, 101, "sum 101 %")
+    assert (finding.ok, finding.measured, finding.shown) == (False, 101, "sum 101%")
     result = guarded(definition, bad)
     assert status_of(result, "shares-sum-to-100") is Status.corrected
     # Source: largest-remainder (Hamilton) method, worked in tests/unit/test_share.py.
@@ -193,7 +193,7 @@ def test_readable_pie_stays_a_pie() -> None:
     checked = run_checks(share_definition({"A": 50.0, "B": 30.0, "C": 20.0}, allow_pie=True))
     found = result_of(checked, "pie-readable")
     assert (found.status, found.measured) == (Status.passed, 3)
-    assert found.measured_text == "3 parts, closest 10.0 points apart (×1.50)"
+    assert found.measured_text == "3 parts, closest 10.0 pp apart (×1.50)"
     assert only_chart(checked).plan.form == "pie"
 
 
@@ -215,8 +215,8 @@ def test_parts_a_point_apart_are_drawn_as_bars() -> None:
     checked = run_checks(share_definition({"A": 30.0, "B": 31.0, "C": 39.0}, allow_pie=True))
     found = result_of(checked, "pie-readable")
     assert found.status is Status.corrected
-    assert found.measured_text == "3 parts, closest 1.0 points apart (×1.03)"
-    assert "30.0 % and 31.0 % differ by 1.0 points and ×1.03" in found.explanation
+    assert found.measured_text == "3 parts, closest 1.0 pp apart (×1.03)"
+    assert "30.0% and 31.0% differ by 1.0 percentage points and ×1.03" in found.explanation
     plan = only_chart(checked).plan
     assert plan.form == "bars"
     assert [c.label for c in plan.categories] == ["C", "B", "A"]

@@ -82,7 +82,7 @@ def test_bars_carry_actuals_and_per_category_targets_from_zero() -> None:
     axis = plan.value_axis
     assert axis.lo == 0.0
     assert axis.hi >= 12000.0
-    assert (axis.unit, axis.label) == ("GBP", "spend (GBP)")
+    assert (axis.unit, axis.label) == ("GBP", "Spend (GBP)")
     assert plan.references == []  # targets differ per depot: marks, not one line
     assert plan.notes == ["No target given for: West."]
 
@@ -90,7 +90,7 @@ def test_bars_carry_actuals_and_per_category_targets_from_zero() -> None:
 def test_bars_with_one_target_value_carry_a_target_reference() -> None:
     definition = target_definition(target=None, target_value=11000.0)
     plan = plan_of(definition)
-    assert plan.references == [Reference(value=11000.0, label="target 11,000 GBP", kind="target")]
+    assert plan.references == [Reference(value=11000.0, label="target £11,000", kind="target")]
     assert {c.target for c in plan.categories} == {11000.0}
     assert plan.value_axis.lo == 0.0
     assert plan.value_axis.hi >= 12000.0
@@ -129,7 +129,7 @@ def test_deviation_from_one_target_value_says_what_the_target_is() -> None:
     plan = plan_of(target_definition(form="deviation", target=None, target_value=10000.0))
     assert [c.value for c in plan.categories] == [2000.0, -300.0, None, -2000.0]
     assert plan.notes == [
-        "Bars show actual minus target. The target is 10,000 GBP for every category."
+        "Bars show actual minus target. The target is £10,000 for every category."
     ]
 
 
@@ -205,17 +205,17 @@ def test_deviation_drawer_draws_variances_from_a_labelled_zero_line() -> None:
     assert len(zero) == 1
     texts = [t.get_text() for t in ax.texts]
     assert "on target" in texts
-    assert "+1,200 GBP" in texts
-    assert "-300 GBP" in texts
+    assert "+£1,200" in texts
+    assert "\u2212£300" in texts
     assert texts.count("  no data") == 2
     assert [t.get_text() for t in ax.get_yticklabels()] == ["North", "South", "East", "West"]
 
 
 def test_signed_labels() -> None:
     plan = plan_of(target_definition(form="deviation"))
-    assert deviation.signed_label(plan, 1200.0) == "+1,200 GBP"
-    assert deviation.signed_label(plan, -300.0) == "-300 GBP"
-    assert deviation.signed_label(plan, 0.0) == "0 GBP"
+    assert deviation.signed_label(plan, 1200.0) == "+£1,200"
+    assert deviation.signed_label(plan, -300.0) == "\u2212£300"
+    assert deviation.signed_label(plan, 0.0) == "£0"
 
 
 @pytest.mark.parametrize("form", ["bars", "deviation"])

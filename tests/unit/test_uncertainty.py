@@ -169,7 +169,7 @@ def test_close_estates_are_not_distinguishable() -> None:
 
 
 def test_the_level_sets_alpha() -> None:
-    # p ≈ 0.073: not distinguishable at the 95 % level, distinguishable at 90 %
+    # p ≈ 0.073: not distinguishable at the 95% level, distinguishable at 90 %
     groups = {
         "Ashgrove": (6.5, 1.9, 60),
         "Brookside": (7.3, 1.9, 60),
@@ -243,7 +243,7 @@ def test_bounds_only_use_the_non_overlap_rule() -> None:
     assert "overlapping intervals do not prove the values equal" in found.explanation
     plan = only_chart(checked).plan
     assert (
-        "Intervals (95 %) do not overlap for 1 of 3 pairs of routes (1–2); overlap does not "
+        "Intervals (95%) do not overlap for 1 of 3 pairs of routes (1–2); overlap does not "
         "prove equality." in plan.notes
     )
 
@@ -252,7 +252,7 @@ def test_overlapping_bounds_are_not_distinguishable() -> None:
     bounds = {"1": (91.0, 85.0, 97.0), "2": (84.0, 78.0, 90.0)}
     found = result_of(run_checks(bounds_definition(bounds)), "uncertainty")
     assert (found.measured, found.measured_text) == (0, "0 of 1 pair apart")
-    assert found.explanation.startswith("Every pair of routes has overlapping 95 % intervals")
+    assert found.explanation.startswith("Every pair of routes has overlapping 95% intervals")
 
 
 def test_chart_without_interval_passes() -> None:
