@@ -31,11 +31,7 @@ State = Literal["actual", "partial", "missing"]
 
 def label_of(column: Column) -> str:
     """What readers see for a column: its ``label``, else its name made readable."""
-    label = getattr(column, "label", None)
-    if isinstance(label, str) and label:
-        return label
-    words = column.name.replace("_", " ").strip()
-    return words[:1].upper() + words[1:]
+    return column.display_name
 
 
 @dataclass(frozen=True)
