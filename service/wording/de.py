@@ -660,6 +660,10 @@ WORDS: dict[str, str] = {
     "finding.correction.colour-contrast": (
         "Das Diagramm wurde mit der Hauspalette statt der eigenen gezeichnet."
     ),
+    "finding.correction.partial-period-scale": (
+        "Die Skala wurde an die abgeschlossenen Zeiträume angepasst; Werte des laufenden "
+        "Zeitraums außerhalb davon sind als Marke am Rand mit Wert und Vollständigkeit gezeichnet."
+    ),
     "finding.correction.source-line": (
         "Die Quellenzeile nennt stattdessen den Datensatz und den Verantwortlichen des Berichts."
     ),

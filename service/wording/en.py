@@ -588,6 +588,10 @@ WORDS: dict[str, str] = {
     "finding.correction.colour-contrast": (
         "The chart was drawn with the house palette instead of the custom one."
     ),
+    "finding.correction.partial-period-scale": (
+        "The scale was fitted to the complete periods; the partial period's values "
+        "outside it are drawn as an off-scale mark with their values and completeness."
+    ),
     "finding.correction.source-line": "The source line names the dataset and the report's owner instead.",
     "finding.measured.none": "none",
     "finding.measured.given": "given",

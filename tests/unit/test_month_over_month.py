@@ -297,7 +297,7 @@ def test_two_signed_packs_compare_entry_by_entry(w: World, pair: tuple[PackRow, 
     change = OCTOBER_AFTER - OCTOBER_BEFORE
     assert change == 2856
     moved, indexed = out["figures_moved"]
-    assert (indexed["chart"], indexed["label"]) == ("cost-vs-use", "boardings")
+    assert (indexed["chart"], indexed["label"]) == ("cost-vs-use", "Boardings")  # its label
     assert indexed["change_pct"] == pytest.approx(5.0, rel=1e-9)
     assert moved == {
         "chart": "boardings-trend",
