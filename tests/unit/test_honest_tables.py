@@ -139,7 +139,8 @@ def test_sort_orders_rows_with_periods_without_data_last() -> None:
     table = block(
         sales(columns=["month", "orders"], sort={"column": "orders", "order": "descending"})
     )
-    assert [r[1] for r in table.rows] == ["1,410", "1,350", "1,200", "390", "\u221240", "no data"]  # minus sign U+2212
+    # negative numbers with the minus sign U+2212
+    assert [r[1] for r in table.rows] == ["1,410", "1,350", "1,200", "390", "\u221240", "no data"]
     ascending = block(sales(columns=["month", "region"], sort={"column": "region"}))
     assert [r[1] for r in ascending.rows][:3] == ["East", "North", "North"]
 
