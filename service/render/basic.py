@@ -97,7 +97,7 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
     rows = list(range(len(plan.categories)))[::-1]
     axis = plan.value_axis
     for y, category in zip(rows, plan.categories, strict=True):
-        ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0)
+        ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0, gid="grid")
         if category.value is None:
             common.no_data(
                 ax, axis.lo, y, "expected, no data" if category.expected_missing else None
@@ -238,7 +238,14 @@ def draw_references(ax: Axes, plan: ChartPlan) -> None:
 def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None:
     middle = (axis.lo * axis.hi) ** 0.5 if axis.log else (axis.lo + axis.hi) / 2
     for gap in plan.gaps:
-        ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0, zorder=0)
+        ax.axvspan(
+            gap.index - 0.45,
+            gap.index + 0.45,
+            color=style.GAP_FILL,
+            linewidth=0,
+            zorder=0,
+            gid="gap",
+        )
         everyone = len(gap.series) >= series_count
         text = "no data" if everyone else "no data: " + ", ".join(gap.series)
         ax.text(

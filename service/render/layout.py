@@ -1,4 +1,5 @@
-"""Measure a drawn chart's text after layout: overlapping tick labels, text cut off at the edge.
+"""Measure a drawn chart's text after layout: overlapping tick labels, text cut off at the edge,
+text drawn over a data mark (``render.marks``).
 
 Runs on the real figure (text extents need a renderer), and mends what it can by thinning the
 time axis's tick labels or shrinking category labels; what it found and did is reported, and the
@@ -16,6 +17,7 @@ from matplotlib.figure import Figure
 from matplotlib.text import Text
 from matplotlib.transforms import Bbox
 
+from service.render import marks
 from service.render.measured import LayoutReport
 
 #: Text may reach this close to the figure's edge (pixels at the figure's dpi) before it is cut.
@@ -123,6 +125,8 @@ def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
     report.overlaps_before, report.clipped_before = report.overlaps, report.clipped = measure(
         figure, laid_out=True, collapsed=collapsed
     )
+    renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+    report.collisions_before = len(marks.text_over_data(figure, renderer))
     for _ in range(attempts):
         if report.clean:
             break
@@ -137,4 +141,6 @@ def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
         if not acted:
             break
         report.overlaps, report.clipped = measure(figure, laid_out=True, collapsed=collapsed)
+    report.over_data = marks.text_over_data(figure, figure.canvas.get_renderer())  # type: ignore[attr-defined]
+    report.collisions = len(report.over_data)
     return report

@@ -1,0 +1,98 @@
+"""No text over data, measured: every text on a drawn chart against every data mark on it."""
+
+from __future__ import annotations
+
+from datetime import date
+from functools import cache
+from pathlib import Path
+
+import pytest
+from matplotlib.figure import Figure
+
+from service import pipeline
+from service.checks import engine
+from service.checks.results import Status
+from service.config import Limits
+from service.intents.plan import ChartPlan
+from service.render import charts, layout, marks
+
+DEMO = Path(__file__).parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
+
+
+@cache
+def demo_plans() -> dict[str, ChartPlan]:
+    checked = pipeline.check(pipeline.intake(DEMO.read_bytes(), Limits()))
+    return {c.plan.chart_id: c.plan for c in checked.charts}
+
+
+def _over_data_as_first_drawn(plan: ChartPlan) -> list[str]:
+    """Texts over data with every label where its drawer first put it (before placement)."""
+    figure = charts.figure_for(plan)
+    layout.lay_out(figure)
+    return marks.text_over_data(figure, figure.canvas.get_renderer())  # type: ignore[attr-defined]
+
+
+def _line_through(figure: Figure) -> None:
+    ax = figure.axes[0]
+    ax.plot([0.0, 1.0], [0.0, 1.0], transform=ax.transAxes, color="k")
+
+
+@pytest.mark.parametrize(
+    ("chart", "text"),
+    [
+        ("boardings-trend", "boardings"),  # the end label under the estimate's marker
+        ("cost-vs-use", "Dec 2025 = 100"),  # the index base's label struck by a line
+        ("complaints-movement", "centre line 43 complaints"),  # limit labels crossed
+        ("complaints-movement", "upper natural process limit 58 complaints"),
+        ("length-vs-punctuality", "9 College circular"),  # the fit line through a point label
+    ],
+)
+def test_the_demo_as_first_drawn_has_text_over_data(chart: str, text: str) -> None:
+    assert text in _over_data_as_first_drawn(demo_plans()[chart])
+
+
+def test_a_line_crossing_a_text_between_its_points_is_found() -> None:
+    """The text lies inside the line's bounding box but off it, then on it: segments are tested."""
+    figure = Figure(figsize=(4, 3))
+    ax = figure.add_subplot()
+    ax.set_xlim(0, 10)
+    ax.set_ylim(0, 10)
+    ax.plot([0, 10], [0, 10], color="k")
+    off = ax.text(7, 2, "off the line")
+    layout.lay_out(figure)
+    renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+    assert marks.text_over_data(figure, renderer) == []
+    off.set_position((4, 5))
+    assert marks.text_over_data(figure, renderer) == ["off the line"]
+
+
+def test_markers_bars_and_reference_lines_are_data_but_grid_and_gap_bands_are_not() -> None:
+    figure = Figure(figsize=(4, 3))
+    ax = figure.add_subplot()
+    ax.set_xlim(0, 10)
+    ax.set_ylim(0, 10)
+    ax.plot([2], [8], marker="o", linestyle="none")
+    ax.bar([8], [3], width=1.5)
+    ax.axhline(5, color="k")
+    ax.axvspan(4, 5, gid="gap")
+    ax.grid(True)
+    ax.text(2, 8, "on the marker", ha="center", va="center")
+    ax.text(8, 1, "in the bar", ha="center")
+    ax.text(1, 5, "on the reference", va="center")
+    ax.text(4.5, 2, "in the gap band", ha="center")
+    layout.lay_out(figure)
+    found = marks.text_over_data(figure, figure.canvas.get_renderer())  # type: ignore[attr-defined]
+    assert sorted(found) == ["in the bar", "on the marker", "on the reference"]
+
+
+def test_label_layout_names_the_texts_over_data() -> None:
+    plan = demo_plans()["cost-vs-use"]
+    figure = charts.figure_for(plan)
+    _line_through(figure)
+    report = layout.mend(figure)
+    assert report.collisions >= 1
+    assert not report.clean
+    result = engine.finish_chart(plan, report, [], date(2026, 11, 9))
+    assert result.status is Status.failed
+    assert f"{report.collisions} texts over data" in result.measured_text
+    assert "Over the data:" in result.explanation
