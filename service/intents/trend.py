@@ -49,7 +49,7 @@ def problems(chart: TrendChart, table: Table, path: str, limits: Limits) -> Iter
 
 
 def estimates_note(names: list[str]) -> str:
-    return "Estimates, not actuals (dashed or hollow): " + ", ".join(names) + "."
+    return "Estimates, not actuals (dashed, or a hollow diamond): " + ", ".join(names) + "."
 
 
 def project(series: list[Series], partial: PartialMark, chart: TrendChart) -> list[Series]:

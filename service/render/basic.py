@@ -2,17 +2,17 @@
 
 from __future__ import annotations
 
-import math
 from collections.abc import Callable
 from typing import Any
 
 from matplotlib.axes import Axes
 from matplotlib.figure import Figure
+from matplotlib.lines import Line2D
 from matplotlib.ticker import FixedLocator, NullFormatter
 
 from service import formatting
 from service.intents.plan import ChartPlan, Scale, Series
-from service.render import common, style
+from service.render import common, place, style
 from service.render.drawer import Drawer, drawer
 
 
@@ -31,6 +31,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
                 linewidth=1.6,
                 solid_capstyle="butt",
                 zorder=4,
+                gid="target",
             )
         if category.value is None:
             common.no_data(ax, base, y, "expected, no data" if category.expected_missing else None)
@@ -65,18 +66,19 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
             linewidth=0,
         )
     for ref in plan.references:
-        ax.axvline(ref.value, color=style.INK, linewidth=0.9, linestyle=(0, (4, 2)), zorder=4)
-        ax.annotate(
+        line = ax.axvline(
+            ref.value, color=style.INK, linewidth=0.9, linestyle=(0, (4, 2)), zorder=4
+        )
+        place.label(
+            ax,
             ref.label,
-            xy=(ref.value, 1.0),
+            (ref.value, 1.0),
+            place.atop(2.0, 2.0, "bottom"),
             xycoords=("data", "axes fraction"),
-            xytext=(2, 2),
-            textcoords="offset points",
+            inside=False,
+            key=line,
             fontsize=7,
             color=style.INK,
-            ha="left",
-            va="bottom",
-            parse_math=False,
         )
     common.category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi + span * 0.08)
@@ -112,15 +114,13 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
             color=common.colour(plan, 0),
             linestyle="none",
         )
-        ax.text(
-            category.value,
-            y + 0.28,
+        place.label(
+            ax,
             common.value_label(plan, category.value),
-            va="bottom",
-            ha="center",
+            (category.value, y),
+            place.over(5.0),
             color=style.INK,
             fontsize=7,
-            parse_math=False,
         )
     common.category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi)
@@ -133,7 +133,7 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     time_axis(ax, plan, room=bool(ends))
     value_axis(ax, plan, plan.value_axis)
     label_partial(ax, plan, plan.series)
-    _direct_labels(ax, ends, plan.value_axis)
+    end_labels(ax, ends)
 
 
 Ends = list[tuple[str, int, float, str]]
@@ -158,6 +158,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         }
         if series.estimate:
             style_kw["linestyle"] = (0, (3, 2))
+            style_kw["gid"] = "estimate"
         for first, end in series.segments:
             running = partial is not None and xs_all[end] == partial.index and not series.estimate
             last = end - 1 if running else end
@@ -175,21 +176,20 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
                     markeredgewidth=1.2,
                     linestyle="none",
                     color=colour,
+                    gid="projection" if base in names and base != series.name else "estimate",
                 )
             else:
                 marker = "o" if first == last else ""
                 ax.plot(xs, ys, marker=marker, markersize=3.5, **style_kw)
             if plan.value_labels:
                 for x, y in zip(xs, ys, strict=True):
-                    ax.annotate(
+                    place.label(
+                        ax,
                         formatting.number(y, plan.locale),
-                        xy=(x, y),
-                        xytext=(0, 4),
-                        textcoords="offset points",
-                        ha="center",
+                        (x, y),
+                        place.over(4.0),
                         fontsize=6.5,
                         color=style.INK,
-                        parse_math=False,
                     )
         if partial is not None and partial.index in xs_all and not series.estimate:
             value = series.values[xs_all.index(partial.index)]
@@ -204,6 +204,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
                     markeredgewidth=1.4,
                     linestyle="none",
                     zorder=3,
+                    gid="partial_actual",
                 )
         complete = [
             (x, v)
@@ -218,20 +219,20 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
 
 
 def draw_references(ax: Axes, plan: ChartPlan) -> None:
-    """Horizontal reference lines (a base of 100, a target), labelled at the left."""
+    """Horizontal reference lines (a base of 100, a target), labelled at the left where free."""
     for ref in plan.references:
-        ax.axhline(ref.value, color=style.MUTED, linewidth=0.8, linestyle=(0, (4, 2)), zorder=1)
-        ax.annotate(
+        line = ax.axhline(
+            ref.value, color=style.MUTED, linewidth=0.8, linestyle=(0, (4, 2)), zorder=1
+        )
+        place.label(
+            ax,
             ref.label,
-            xy=(0.0, ref.value),
+            (0.0, ref.value),
+            place.along(ref.value, start="left"),
             xycoords=("axes fraction", "data"),
-            xytext=(3, 2),
-            textcoords="offset points",
+            key=line,
             fontsize=7,
             color=style.MUTED,
-            ha="left",
-            va="bottom",
-            parse_math=False,
         )
 
 
@@ -244,21 +245,19 @@ def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None
             color=style.GAP_FILL,
             linewidth=0,
             zorder=0,
-            gid="gap",
+            gid="no_data",
         )
         everyone = len(gap.series) >= series_count
         text = "no data" if everyone else "no data: " + ", ".join(gap.series)
-        ax.text(
-            gap.index,
-            middle,
+        place.label(
+            ax,
             text,
+            (gap.index, middle),
+            place.up_and_down(),
             rotation=90,
-            va="center",
-            ha="center",
             fontsize=7,
             color=style.MUTED,
             fontstyle="italic",
-            parse_math=False,
         )
 
 
@@ -295,46 +294,28 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
         if partial.index in xs and series.values[xs.index(partial.index)] is not None:
             present.append(float(series.values[xs.index(partial.index)] or 0.0))
     if present:
-        ax.annotate(
+        place.label(
+            ax,
             f"{plan.periods[partial.index]} so far:\n{partial.text}",
-            xy=(partial.index, min(present)),
-            xytext=(-8, 0),
-            textcoords="offset points",
-            ha="right",
-            va="center",
+            (partial.index, min(present)),
+            [place.Spot(-8, 0, "right", "center"), *place.around(8.0)],
             fontsize=7,
             color=style.MUTED,
             fontstyle="italic",
-            parse_math=False,
         )
 
 
-def _direct_labels(ax: Axes, ends: Ends, axis: Scale) -> None:
-    """Name each line at its last complete point, nudged apart so no two labels overlap."""
-    if not ends:
-        return
-    lo, hi = (math.log10(axis.lo), math.log10(axis.hi)) if axis.log else (axis.lo, axis.hi)
-    height_pt = ax.get_figure().get_size_inches()[1] * 72 * 0.7  # type: ignore[union-attr]
-    per_unit = height_pt / (hi - lo)
-    order = sorted(range(len(ends)), key=lambda k: ends[k][2])
-    placed: list[float] = []
-    for k in order:
-        value = math.log10(ends[k][2]) if axis.log else ends[k][2]
-        want = (value - lo) * per_unit
-        y = max(want, placed[-1] + 9.0) if placed else want
-        placed.append(y)
-        name, x, value, colour = ends[k]
-        ax.annotate(
+def end_labels(ax: Axes, ends: Ends) -> None:
+    """Name each line at its last complete point, beside it where that covers nothing else."""
+    for name, x, value, colour in ends:
+        place.label(
+            ax,
             name,
-            xy=(x, value),
-            xytext=(6, y - want),
-            textcoords="offset points",
-            va="center",
-            ha="left",
+            (x, value),
+            place.beside(),
+            key=Line2D([], [], color=colour, linewidth=1.6),
             color=colour,
             fontsize=7.5,
-            parse_math=False,
-            annotation_clip=False,
         )
 
 

@@ -3,7 +3,7 @@
 A data mark is anything a drawer puts on the axes to show data: line paths (tested segment by
 segment, not by their bounding box), the markers at a line's points, bars, boxes and other patches,
 scatter dots, interval marks, and reference lines (``axhline``/``axvline``, target ticks). Grid
-lines, spines, the axes' background, the band that marks a period without data (``gid`` ``gap``)
+lines, spines, the axes' background, the band that marks a period without data (``gid`` ``no_data``)
 and the leader line from a label to its mark (``gid`` ``leader``) are not data and are left out.
 
 ``text_over_data`` measures a figure after layout; ``render.place`` uses the same marks to choose
@@ -27,7 +27,7 @@ from matplotlib.text import Text
 from matplotlib.transforms import Bbox
 
 #: Artists with these ids are drawn on the axes but show no data.
-NOT_DATA = frozenset({"gap", "leader", "grid"})
+NOT_DATA = frozenset({"no_data", "leader", "grid"})
 #: A text's box is shrunk by this many pixels on each side before it is tested: a mark that only
 #: touches the edge of the line box (the room above and below the letters) is not under the text.
 TEXT_INSET_PX = 1.5
@@ -52,12 +52,12 @@ class Mark:
             if inside is None or inside.width <= 0 or inside.height <= 0:
                 return False
             box = inside
-        if any(_overlap(box, b) for b in self.boxes):
+        if any(overlap(box, b) for b in self.boxes):
             return True
         return any(bool(p.intersects_bbox(box, filled=self.filled)) for p in self.paths)
 
 
-def _overlap(a: Bbox, b: Bbox) -> bool:
+def overlap(a: Bbox, b: Bbox) -> bool:
     return bool(a.x0 < b.x1 and b.x0 < a.x1 and a.y0 < b.y1 and b.y0 < a.y1)
 
 

@@ -4,6 +4,12 @@ WORDS: dict[str, str] = {
     # -- cover and contents ------------------------------------------------------------------
     # -- page headings, footers and page furniture ----------------------------------------------
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
+    "key.partial_actual": "Actual so far, period not complete",
+    "key.estimate": "Estimate, not an actual",
+    "key.projection": "Projection for the whole period",
+    "key.target": "Target",
+    "key.signal": "Signal: more than routine variation",
+    "key.no_data": "No data",
     # -- tables ------------------------------------------------------------------------------------
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
     # -- appendix ----------------------------------------------------------------------------------

@@ -7,6 +7,7 @@ from functools import cache
 from pathlib import Path
 
 import pytest
+from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 
 from service import pipeline
@@ -14,7 +15,7 @@ from service.checks import engine
 from service.checks.results import Status
 from service.config import Limits
 from service.intents.plan import ChartPlan
-from service.render import charts, layout, marks
+from service.render import charts, key, layout, marks, place
 
 DEMO = Path(__file__).parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
 
@@ -32,9 +33,9 @@ def _over_data_as_first_drawn(plan: ChartPlan) -> list[str]:
     return marks.text_over_data(figure, figure.canvas.get_renderer())  # type: ignore[attr-defined]
 
 
-def _line_through(figure: Figure) -> None:
-    ax = figure.axes[0]
-    ax.plot([0.0, 1.0], [0.0, 1.0], transform=ax.transAxes, color="k")
+def _text_on_the_lines(figure: Figure) -> None:
+    """A text no placement moves, where both lines start (index 100 in the first period)."""
+    figure.axes[0].text(0, 100, "planted", ha="center", va="center")
 
 
 @pytest.mark.parametrize(
@@ -74,7 +75,7 @@ def test_markers_bars_and_reference_lines_are_data_but_grid_and_gap_bands_are_no
     ax.plot([2], [8], marker="o", linestyle="none")
     ax.bar([8], [3], width=1.5)
     ax.axhline(5, color="k")
-    ax.axvspan(4, 5, gid="gap")
+    ax.axvspan(4, 5, gid="no_data")
     ax.grid(True)
     ax.text(2, 8, "on the marker", ha="center", va="center")
     ax.text(8, 1, "in the bar", ha="center")
@@ -88,11 +89,72 @@ def test_markers_bars_and_reference_lines_are_data_but_grid_and_gap_bands_are_no
 def test_label_layout_names_the_texts_over_data() -> None:
     plan = demo_plans()["cost-vs-use"]
     figure = charts.figure_for(plan)
-    _line_through(figure)
+    _text_on_the_lines(figure)
     report = layout.mend(figure)
-    assert report.collisions >= 1
+    assert report.over_data == ["planted"]
     assert not report.clean
     result = engine.finish_chart(plan, report, [], date(2026, 11, 9))
     assert result.status is Status.failed
     assert f"{report.collisions} texts over data" in result.measured_text
     assert "Over the data:" in result.explanation
+
+
+@pytest.mark.parametrize("chart", list(demo_plans()))
+def test_every_demo_chart_is_drawn_with_no_text_over_data(chart: str) -> None:
+    plan = demo_plans()[chart]
+    report = layout.mend(charts.figure_for(plan), locale=plan.locale)
+    assert report.over_data == []
+    assert report.clean
+
+
+def _crossed_square() -> tuple[Figure, Axes]:
+    figure = Figure(figsize=(4, 3))
+    ax = figure.add_subplot()
+    ax.set_xlim(0, 10)
+    ax.set_ylim(0, 10)
+    ax.plot([0, 10], [5, 5], color="k")
+    return figure, ax
+
+
+def test_a_label_over_a_line_moves_to_its_first_free_spot() -> None:
+    figure, ax = _crossed_square()
+    spots = [place.Spot(0, 0, "center", "center"), *place.over(6.0)]
+    text = place.label(ax, "a label", (5, 5), spots)
+    layout.lay_out(figure)
+    renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+    assert marks.text_over_data(figure, renderer) == ["a label"]
+    assert place.place(figure, renderer) == []
+    assert marks.text_over_data(figure, renderer) == []
+    assert (text.get_position(), text.get_verticalalignment()) == ((0, 6.0), "bottom")
+
+
+def test_labels_are_placed_apart_from_each_other() -> None:
+    figure, ax = _crossed_square()
+    first = place.label(ax, "first", (5, 7), place.around(4.0))
+    second = place.label(ax, "second", (5, 7), place.around(4.0))
+    layout.lay_out(figure)
+    renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+    place.place(figure, renderer)
+    a, b = (marks.text_box(t, renderer) for t in (first, second))
+    assert a is not None
+    assert b is not None
+    assert not marks.overlap(a, b)
+
+
+def test_a_label_with_no_free_spot_goes_into_the_key() -> None:
+    figure, ax = _crossed_square()
+    line = ax.lines[0]
+    text = place.label(ax, "stuck", (5, 5), [place.Spot(0, 0, "center", "center")], key=line)
+    report = layout.mend(figure)
+    assert not text.get_visible()
+    assert key.entries(figure) == ["stuck"]
+    assert report.actions == ["moved the label 'stuck' into the key"]
+    assert report.collisions == 0
+
+
+def test_a_label_with_no_free_spot_and_no_key_stays_and_is_counted() -> None:
+    figure, ax = _crossed_square()
+    place.label(ax, "stuck", (5, 5), [place.Spot(0, 0, "center", "center")])
+    report = layout.mend(figure)
+    assert report.over_data == ["stuck"]
+    assert key.entries(figure) == []
