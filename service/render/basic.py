@@ -3,11 +3,11 @@
 from __future__ import annotations
 
 from collections.abc import Callable
-from typing import Any
+from typing import Any, NamedTuple
 
+from matplotlib.artist import Artist
 from matplotlib.axes import Axes
 from matplotlib.figure import Figure
-from matplotlib.lines import Line2D
 from matplotlib.ticker import FixedLocator, NullFormatter
 
 from service import formatting
@@ -136,7 +136,18 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     end_labels(ax, ends)
 
 
-Ends = list[tuple[str, int, float, str]]
+class End(NamedTuple):
+    """Where a line ends, for its direct label: its name, last complete point, colour and the
+    drawn mark (shown in the key if the label finds no room)."""
+
+    name: str
+    x: int
+    value: float
+    colour: str
+    mark: Artist
+
+
+Ends = list[End]
 
 
 def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scale) -> Ends:
@@ -159,6 +170,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         if series.estimate:
             style_kw["linestyle"] = (0, (3, 2))
             style_kw["gid"] = "estimate"
+        mark: Artist | None = None
         for first, end in series.segments:
             running = partial is not None and xs_all[end] == partial.index and not series.estimate
             last = end - 1 if running else end
@@ -167,7 +179,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             xs = xs_all[first : last + 1]
             ys = [float(v or 0.0) for v in series.values[first : last + 1]]  # no gaps inside
             if first == last and series.estimate:  # a lone estimate: a hollow diamond
-                ax.plot(
+                (mark,) = ax.plot(
                     xs,
                     ys,
                     marker="D",
@@ -180,7 +192,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
                 )
             else:
                 marker = "o" if first == last else ""
-                ax.plot(xs, ys, marker=marker, markersize=3.5, **style_kw)
+                (mark,) = ax.plot(xs, ys, marker=marker, markersize=3.5, **style_kw)
             if plan.value_labels:
                 for x, y in zip(xs, ys, strict=True):
                     place.label(
@@ -211,10 +223,10 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             for x, v in zip(xs_all, series.values, strict=True)
             if v is not None and (partial is None or x != partial.index or series.estimate)
         ]
-        if complete and (len(series_list) > 1 or series.estimate):
+        if complete and mark is not None and (len(series_list) > 1 or series.estimate):
             tagged = series.estimate and "estimate" not in series.name
             name = f"{series.name} (estimate)" if tagged else series.name
-            ends.append((name, complete[-1][0], float(complete[-1][1]), colour))
+            ends.append(End(name, complete[-1][0], float(complete[-1][1]), colour, mark))
     return ends
 
 
@@ -307,14 +319,15 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
 
 def end_labels(ax: Axes, ends: Ends) -> None:
     """Name each line at its last complete point, beside it where that covers nothing else."""
-    for name, x, value, colour in ends:
+    for end in ends:
         place.label(
             ax,
-            name,
-            (x, value),
+            end.name,
+            (end.x, end.value),
             place.beside(),
-            key=Line2D([], [], color=colour, linewidth=1.6),
-            color=colour,
+            inside=False,
+            key=end.mark,
+            color=end.colour,
             fontsize=7.5,
         )
 

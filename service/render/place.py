@@ -30,6 +30,10 @@ from service.render import marks
 
 #: How far (pixels) a label that must stay inside its axes may reach past the axes' edge.
 EDGE_PX = 1.0
+#: A placed label keeps this far (pixels) from data and other texts: the measure counts a text
+#: as over data only when a mark enters its letters' box (``marks.TEXT_INSET_PX``), but a label
+#: set down on a line still reads as struck through.
+CLEARANCE_PX = 1.5
 
 
 HAlign = Literal["left", "center", "right"]
@@ -87,11 +91,18 @@ def around(gap: float = 4.0, reach: int = 3) -> list[Spot]:
 
 
 def beside(gap: float = 6.0, step: float = 4.5, reach: int = 6) -> list[Spot]:
-    """Spots to the right of a line's end: level with it, then nudged up and down in turn."""
+    """Spots for a line's end label: to the right of the end, level with it, then nudged up and
+    down in turn; then above and below the end, and above and below to its left."""
     spots = [Spot(gap, 0, "left", "center")]
     for k in range(1, reach + 1):
         spots += [Spot(gap, step * k, "left", "center"), Spot(gap, -step * k, "left", "center")]
-    return spots
+    return [
+        *spots,
+        Spot(0, gap, "center", "bottom"),
+        Spot(0, -gap, "center", "top"),
+        Spot(-gap, gap, "right", "bottom"),
+        Spot(-gap, -gap, "right", "top"),
+    ]
 
 
 def over(gap: float = 4.0) -> list[Spot]:
@@ -194,9 +205,7 @@ def _cost(
         whole.x1, whole.y1
     ):
         return 1000  # outside its room: worse than covering anything
-    box = marks.text_box(label.text, renderer)
-    if box is None:
-        return 1000
+    box = whole.padded(CLEARANCE_PX)
     hits = sum(1 for m in data if m.hits(box))
     crowd = sum(1 for o in others if marks.overlap(box, o))
     return hits * 10 + crowd

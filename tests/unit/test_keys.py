@@ -16,37 +16,11 @@ from factories import (
     run_checks,
 )
 
-from service.intents.plan import ChartPlan, all_series
 from service.render import charts, key, layout
 from service.wording import say
+from tests.quality.kinds import kinds_in_plan
 
 MONTHS = ["2026-06-01", "2026-07-01", "2026-08-01", "2026-09-01", "2026-10-01", "2026-11-01"]
-
-
-def _kinds_in_plan(plan: ChartPlan) -> set[str]:
-    """What the plan asks to be drawn, read from the plan (not from the figure)."""
-    kinds: set[str] = set()
-    series = all_series(plan)
-    names = {s.name for s in series}
-    if plan.partial is not None and plan.form in {"lines", "panels", "control"}:
-        at = plan.partial.index
-        if any(not s.estimate and s.at(at) is not None for s in series):
-            kinds.add("partial_actual")
-    for s in series:
-        if s.estimate:
-            projected = s.name.removesuffix(" (estimate)") in names - {s.name}
-            kinds.add("projection" if projected else "estimate")
-    if plan.form == "bars" and any(
-        c.target is not None and c.value is not None for c in plan.categories
-    ):
-        kinds.add("target")
-    if plan.form == "control" and any(
-        v.signal and plan.series and plan.series[0].at(v.index) is not None for v in plan.verdicts
-    ):
-        kinds.add("signal")
-    if plan.gaps:
-        kinds.add("no_data")
-    return kinds
 
 
 def _trend(values: list[float | None], column: Json | None = None, **chart: Any) -> Json:
@@ -102,7 +76,7 @@ def test_the_key_lists_exactly_the_mark_kinds_drawn(name: str) -> None:
     plan = only_chart(run_checks(GENERATED[name])).plan
     figure = charts.figure_for(plan)
     layout.mend(figure, locale=plan.locale)
-    expected = _kinds_in_plan(plan)
+    expected = kinds_in_plan(plan)
     assert set(key.drawn_kinds(figure)) == expected
     assert key.entries(figure) == [say(f"key.{k}", plan.locale) for k in key.KINDS if k in expected]
 
