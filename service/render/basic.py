@@ -90,9 +90,16 @@ def _interval(ax: Axes, lo: float | None, hi: float | None, y: float) -> None:
     """A value's uncertainty interval, drawn as a thin line with end ticks."""
     if lo is None or hi is None:
         return
-    ax.plot([lo, hi], [y, y], color=style.INK, linewidth=0.9, zorder=5)
+    ax.plot([lo, hi], [y, y], color=style.INK, linewidth=0.9, zorder=5, gid="interval")
     for end in (lo, hi):
-        ax.plot([end, end], [y - 0.14, y + 0.14], color=style.INK, linewidth=0.9, zorder=5)
+        ax.plot(
+            [end, end],
+            [y - 0.14, y + 0.14],
+            color=style.INK,
+            linewidth=0.9,
+            zorder=5,
+            gid="interval",
+        )
 
 
 def draw_dots(ax: Axes, plan: ChartPlan) -> None:

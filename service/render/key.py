@@ -16,6 +16,7 @@ from collections.abc import Sequence
 from matplotlib.artist import Artist
 from matplotlib.figure import Figure
 from matplotlib.legend import Legend
+from matplotlib.legend_handler import HandlerLine2D
 from matplotlib.lines import Line2D
 
 from service.render import style
@@ -23,7 +24,7 @@ from service.render.place import Keyed
 from service.wording import say
 
 #: The kinds of mark a key explains, in the order it lists them (each is an artist's ``gid``).
-KINDS = ("partial_actual", "estimate", "projection", "target", "signal", "no_data")
+KINDS = ("partial_actual", "estimate", "projection", "target", "signal", "no_data", "interval")
 #: Entries on one row of the key.
 PER_ROW = 3
 
@@ -44,7 +45,16 @@ def _handle(kind: str, artist: Artist) -> Artist:
         return Line2D(
             [], [], marker="|", markersize=9, markeredgewidth=1.6, color=style.INK, linestyle="none"
         )
+    if kind == "interval":  # a thin line between two end ticks (see ``_HANDLERS``)
+        return _INTERVAL
     return artist
+
+
+_INTERVAL = Line2D(
+    [], [], marker="|", markersize=6, markeredgewidth=0.9, linewidth=0.9, color=style.INK
+)
+#: The interval's key mark has its ticks at both ends; every other mark shows one marker.
+_HANDLERS = {_INTERVAL: HandlerLine2D(numpoints=2)}
 
 
 def draw(figure: Figure, locale: str, keyed: Sequence[Keyed] = ()) -> Legend | None:
@@ -66,6 +76,7 @@ def draw(figure: Figure, locale: str, keyed: Sequence[Keyed] = ()) -> Legend | N
         handlelength=2.2,
         columnspacing=1.6,
         borderaxespad=0.2,
+        handler_map=_HANDLERS,
     )
 
 

@@ -10,6 +10,7 @@ WORDS: dict[str, str] = {
     "key.target": "Ziel",
     "key.signal": "Signal: mehr als gewöhnliche Streuung",
     "key.no_data": "Keine Daten",
+    "key.interval": "Unsicherheitsbereich des Werts",
     # -- tables ------------------------------------------------------------------------------------
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
     # -- appendix ----------------------------------------------------------------------------------

@@ -10,6 +10,7 @@ WORDS: dict[str, str] = {
     "key.target": "Target",
     "key.signal": "Signal: more than routine variation",
     "key.no_data": "No data",
+    "key.interval": "Uncertainty interval of the value",
     # -- tables ------------------------------------------------------------------------------------
     # -- text alternatives, reading guides, verdicts and notes -----------------------------------------
     # -- appendix ----------------------------------------------------------------------------------

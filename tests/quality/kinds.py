@@ -28,4 +28,8 @@ def kinds_in_plan(plan: ChartPlan) -> set[str]:
         kinds.add("signal")
     if plan.gaps and plan.form in {"lines", "panels", "control"}:
         kinds.add("no_data")
+    if plan.form in {"bars", "dots"} and any(
+        c.value is not None and c.lo is not None and c.hi is not None for c in plan.categories
+    ):
+        kinds.add("interval")
     return kinds
