@@ -160,4 +160,5 @@ def mend(figure: Figure, *, attempts: int = 3, locale: str = "en-GB") -> LayoutR
         report.overlaps, report.clipped = measure(figure, laid_out=True, collapsed=collapsed)
     report.over_data = marks.text_over_data(figure, renderer)
     report.collisions = len(report.over_data)
+    report.key_kinds = list(key.drawn_kinds(figure)) if figure.legends else []
     return report

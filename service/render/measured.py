@@ -26,6 +26,8 @@ class LayoutReport:
     """Texts over data where the drawer first put its labels, before placement."""
     collisions: int = 0
     over_data: list[str] = field(default_factory=list)
+    key_kinds: list[str] = field(default_factory=list)
+    """The kinds of mark the chart draws, as its key lists them (``render.key.KINDS``)."""
 
     @property
     def clean(self) -> bool:

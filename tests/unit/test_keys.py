@@ -75,9 +75,10 @@ GENERATED = {
 def test_the_key_lists_exactly_the_mark_kinds_drawn(name: str) -> None:
     plan = only_chart(run_checks(GENERATED[name])).plan
     figure = charts.figure_for(plan)
-    layout.mend(figure, locale=plan.locale)
+    report = layout.mend(figure, locale=plan.locale)
     expected = kinds_in_plan(plan)
     assert set(key.drawn_kinds(figure)) == expected
+    assert set(report.key_kinds) == expected
     assert key.entries(figure) == [say(f"key.{k}", plan.locale) for k in key.KINDS if k in expected]
 
 
