@@ -4,7 +4,7 @@ VENV   ?= .venv
 BIN    := $(VENV)/bin
 DEMO   := sample_requests/bus-cooperative-monthly.json
 
-.PHONY: demo test quick lint unit serve schema docs bench load soak clean
+.PHONY: demo test quick lint unit serve schema docs bench load soak clean pack-quality
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -36,6 +36,10 @@ test: lint unit
 # the tests not marked slow (no fuzzing, faults, browser, queue, benchmark or server-per-test runs)
 quick: $(VENV)/.installed-test
 	$(BIN)/python -m pytest -m "not slow"
+
+# figures of how publishable the demo's and the generated gallery's drafts are (tests/quality/)
+pack-quality: $(VENV)/.installed-test
+	$(BIN)/python -m tests.quality.pack_quality
 
 serve: $(VENV)/.installed
 	$(BIN)/plumbline serve

@@ -84,7 +84,12 @@ def check(taken: Intake) -> Checked:
         if env.palette and not plan.palette:
             plan = plan.model_copy(update={"palette": list(env.palette)})
         ctx = registry.Context(
-            chart=chart, table=table, as_of=as_of, locale=locale, owner=definition.report.owner
+            chart=chart,
+            table=table,
+            as_of=as_of,
+            locale=locale,
+            owner=definition.report.owner,
+            tables=taken.tables,
         )
         guarded = engine.guard(plan, ctx, definition.waivers)
         charts.append(CheckedChart(path=path, plan=guarded.plan, results=guarded.results))

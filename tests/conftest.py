@@ -30,6 +30,7 @@ SLOW = (
     "fuzz/",  # hundreds of generated requests and definitions
     "hostile/test_injection.py",  # every payload in every field, rendered, sealed and read back
     "ops/",  # a `plumbline serve` of its own per test
+    "quality/test_pack_quality.py::test_the_demo",  # the demo drafted and read back as pictures
     "archive/test_migrations.py::test_processes_starting_at_once_migrate_once",  # processes racing
     "unit/test_chart_cache.py",  # packs drawn twice, cold and from the cache
     "unit/test_large_series.py",  # packs of a million rows

@@ -203,6 +203,7 @@ def context_for(taken: pipeline.Intake, index: int = 0) -> Context:
         table=taken.tables[chart.dataset],
         as_of=local_wall_time(definition.report.as_of),
         locale=definition.report.locale,
+        tables=taken.tables,
     )
 
 

@@ -11,6 +11,7 @@ from service.checks import registry
 
 ORDER = (
     "share",  # parts of a whole: data integrity first, and expected parts put back
+    "same_measure",  # one measure, one value per period across the pack's datasets
     "series",  # form changes (too many series, the form relative_change chose) before measuring
     "baseline",
     "lie_factor",

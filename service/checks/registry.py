@@ -7,8 +7,8 @@ and the appendix read their wording from here, so there is one source of truth.
 from __future__ import annotations
 
 import difflib
-from collections.abc import Callable, Iterable
-from dataclasses import dataclass
+from collections.abc import Callable, Iterable, Mapping
+from dataclasses import dataclass, field
 from datetime import datetime
 from typing import Any, Literal
 
@@ -28,6 +28,8 @@ class Context:
     locale: str
     owner: str = ""
     """The report's owner, accountable for data whose source is not stated."""
+    tables: Mapping[str, Table] = field(default_factory=dict)
+    """Every dataset of the pack by name, for checks that compare one dataset with another."""
 
 
 @dataclass(frozen=True)

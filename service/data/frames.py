@@ -49,6 +49,8 @@ class Table:
     source: str | None = None
     estimates: frozenset[str] = frozenset()
     """Columns declared as estimates or forecasts rather than actuals."""
+    same_as: dict[str, str] = field(default_factory=dict)
+    """Columns declared the same measure as another dataset's column (``dataset.column``)."""
 
 
 def load_all(
@@ -126,6 +128,7 @@ def load(
         types={c.name: c.type for c in dataset.columns},
         source=dataset.source,
         estimates=frozenset(c.name for c in dataset.columns if c.estimate),
+        same_as={c.name: c.same_as for c in dataset.columns if c.same_as},
     )
     if dataset.time_column and dataset.frequency and not problems:
         table, found = _with_periods(table, dataset, as_of, locate)
@@ -389,4 +392,5 @@ def _with_periods(
         types=table.types,
         source=table.source,
         estimates=table.estimates,
+        same_as=table.same_as,
     ), problems

@@ -11,7 +11,7 @@ from datetime import datetime
 from enum import StrEnum
 from typing import Annotated, Any, ClassVar, Literal, get_args
 
-from pydantic import Field, model_validator
+from pydantic import Field, StringConstraints, model_validator
 
 from service.definition.base import (
     Day,
@@ -46,6 +46,16 @@ class Frequency(StrEnum):
     year = "year"
 
 
+SameAs = Annotated[str, StringConstraints(pattern=r"^[a-z0-9][a-z0-9_-]{0,63}\.\S", max_length=265)]
+"""A column of another dataset, ``dataset.column`` (a dataset name holds no dot)."""
+
+
+def same_as_parts(link: str) -> tuple[str, str]:
+    """The dataset and the column a ``same_as`` link names."""
+    dataset, _, column = link.partition(".")
+    return dataset, column
+
+
 class Column(Input):
     name: Name
     type: ColumnType
@@ -58,6 +68,12 @@ class Column(Input):
     )
     projectable: Flag = Field(
         False, description="A partial last period of this column may be projected (e.g. run rate)."
+    )
+    same_as: SameAs | None = Field(
+        None,
+        description="The same measure as a column of another dataset, written 'dataset.column': "
+        "the check 'one-measure-one-truth' holds the two to one value in every period. Columns of "
+        "one name in two time-indexed datasets of one frequency are compared without a link.",
     )
 
 

@@ -33,6 +33,7 @@ from service.definition.model import (
     Role,
     ShareChart,
     TrendChart,
+    same_as_parts,
 )
 from service.errors import InvalidDefinition, PayloadTooLarge, Problem
 
@@ -499,6 +500,7 @@ def references(definition: ReportDefinition) -> Iterable[Problem]:
     yield from _duplicates(definition)
     for d, dataset in enumerate(definition.datasets):
         yield from _dataset_problems(f"datasets[{d}]", dataset)
+    yield from _same_as_problems(definition)
     names = [d.name for d in definition.datasets]
     for path, chart in definition.charts():
         source = definition.dataset(chart.dataset)
@@ -568,6 +570,49 @@ def _dataset_problems(path: str, dataset: Dataset) -> Iterable[Problem]:
             "declare it as type 'date' or 'timestamp'",
             column.type.value,
         )
+
+
+def _same_as_problems(definition: ReportDefinition) -> Iterable[Problem]:
+    """A ``same_as`` link names a numeric column of another time-indexed dataset of the same
+    frequency (else no period of the two could be compared)."""
+    names = [d.name for d in definition.datasets]
+    for d, dataset in enumerate(definition.datasets):
+        for i, column in enumerate(dataset.columns):
+            if column.same_as is None:
+                continue
+            path = f"datasets[{d}].columns[{i}].same_as"
+            name, column_name = same_as_parts(column.same_as)
+            other = definition.dataset(name)
+            if other is None:
+                yield _unknown(path, "dataset", name, names)
+                continue
+            target = next((c for c in other.columns if c.name == column_name), None)
+            if target is None:
+                known = [c.name for c in other.columns]
+                yield _unknown(path, "column", column_name, known, other.name)
+                continue
+            if other is dataset:
+                yield Problem(
+                    "same_as_not_comparable",
+                    path,
+                    "'same_as' names a column of the same dataset",
+                    "link a column of another dataset that carries the same measure",
+                    column.same_as,
+                )
+            elif (
+                dataset.frequency is None
+                or dataset.frequency != other.frequency
+                or column.type not in NUMERIC
+                or target.type not in NUMERIC
+            ):
+                yield Problem(
+                    "same_as_not_comparable",
+                    path,
+                    f"'{dataset.name}.{column.name}' and '{column.same_as}' cannot be compared "
+                    "period by period",
+                    "link numeric columns of two time-indexed datasets of the same frequency",
+                    column.same_as,
+                )
 
 
 def _role_problems(

@@ -52,3 +52,10 @@ def test_the_gallery_holds_the_hard_cases() -> None:
     assert any(p.form == "control" and p.verdicts for p in plans), "a control chart"
     assert any(p.periods and len(p.periods) == 1 for p in plans), "a one-point series"
     assert any(p.value_axis.log for p in plans), "a logarithmic scale"
+
+
+def test_the_gallery_tells_one_story_where_datasets_share_a_measure() -> None:
+    truth = [r for r in checked().results if r.check == "one-measure-one-truth"]
+    compared = [r for r in truth if r.measured_text != "no other dataset"]
+    assert compared, "no two datasets of the gallery share a measure"
+    assert all(r.status.value == "passed" for r in truth)
