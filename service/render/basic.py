@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Callable
 from typing import Any, NamedTuple
 
@@ -267,7 +268,8 @@ def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None
             gid="no_data",
         )
         everyone = len(gap.series) >= series_count
-        text = "no data" if everyone else "no data: " + ", ".join(gap.series)
+        # Upright in the band: a line per few words keeps it short enough to fit between lines.
+        text = "no data" if everyone else "no data:\n" + textwrap.fill(", ".join(gap.series), 18)
         place.label(
             ax,
             text,

@@ -133,7 +133,7 @@ def atop(dx: float, dy: float, va: VAlign) -> list[Spot]:
     return [Spot(dx, dy, "left", va), Spot(-dx, dy, "right", va)]
 
 
-def up_and_down(step: float = 24.0, reach: int = 4) -> list[Spot]:
+def up_and_down(step: float = 8.0, reach: int = 12) -> list[Spot]:
     """Spots for an upright label centred on its anchor, then moved up and down in turn."""
     spots = [Spot(0, 0, "center", "center")]
     for k in range(1, reach + 1):
