@@ -327,8 +327,10 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
 
 
 def end_labels(ax: Axes, ends: Ends) -> None:
-    """Name each line at its last complete point, beside it where that covers nothing else."""
-    for end in ends:
+    """Name each line at its last complete point, beside it where that covers nothing else.
+
+    Placed from the lowest end up, each nudged upwards first, so labels keep their lines' order."""
+    for end in sorted(ends, key=lambda e: e.value):
         place.label(
             ax,
             end.name,
