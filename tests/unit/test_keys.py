@@ -1,98 +1,219 @@
-"""A chart's key lists exactly the kinds of mark it draws, in the report's words."""
+"""API keys against a real SQLite file: stored only as salted scrypt hashes, refused when unknown,
+revoked or expired, and limited to their report families."""
 
 from __future__ import annotations
 
+import hashlib
+import sqlite3
+from datetime import UTC, datetime, timedelta, timezone
+from pathlib import Path
 from typing import Any
 
 import pytest
-from factories import (
-    Json,
-    make_column,
-    make_dataset,
-    make_definition,
-    make_monthly,
-    make_trend_chart,
-    only_chart,
-    run_checks,
+from sqlalchemy.orm import sessionmaker
+
+from service.archive import audit
+from service.archive.db import KeyRow, connect
+from service.errors import NotFound, PlumblineError
+from service.workflow import keys
+from service.workflow.keys import (
+    Forbidden,
+    InvalidRequest,
+    Principal,
+    Role,
+    Unauthorized,
+    authenticate,
+    can_see,
+    create,
+    revoke,
 )
-
-from service.render import charts, key, layout
-from service.wording import say
-from tests.quality.kinds import kinds_in_plan
-
-MONTHS = ["2026-06-01", "2026-07-01", "2026-08-01", "2026-09-01", "2026-10-01", "2026-11-01"]
+from service.workflow.lifecycle import Conflict
 
 
-def _trend(values: list[float | None], column: Json | None = None, **chart: Any) -> Json:
-    dataset = make_monthly(MONTHS[: len(values)], values)
-    if column:
-        dataset["columns"][1].update(column)
-    return make_definition(datasets=[dataset], charts=[make_trend_chart(**chart)])
+@pytest.fixture
+def db(tmp_path: Path) -> Path:
+    return tmp_path / "a.db"
 
 
-def _targets() -> Json:
-    dataset = make_dataset(
-        name="budget",
-        columns=[
-            make_column("depot", "text"),
-            make_column("spend", "number", "GBP"),
-            make_column("plan", "number", "GBP"),
-        ],
-        rows=[
-            {"depot": "North", "spend": 12000.0, "plan": 10800.0},
-            {"depot": "South", "spend": 9700.0, "plan": 10000.0},
-        ],
-    )
-    for drop in ("time_column", "frequency"):
-        dataset.pop(drop)
-    chart = {
-        "id": "spend",
-        "intent": "target",
-        "title": "Spend against plan",
-        "dataset": "budget",
-        "category": "depot",
-        "actual": "spend",
-        "target": "plan",
+@pytest.fixture
+def sessions(db: Path) -> sessionmaker[Any]:
+    return connect(f"sqlite:///{db}")
+
+
+def _key(sessions: sessionmaker[Any], **kw: Any) -> tuple[str, str]:
+    args: dict[str, Any] = {
+        "name": "Ann Author",
+        "roles": {Role.author},
+        "families": {"hollin-vale"},
+        "expires": None,
     }
-    return make_definition(datasets=[dataset], charts=[chart])
+    return create(sessions, **(args | kw))
 
 
-GENERATED = {
-    "complete months": _trend([50.0, 52.0, 51.0, 55.0, 57.0]),
-    "partial month": _trend([50.0, 52.0, 51.0, 55.0, 57.0, 16.0]),
-    "partial month, projected": _trend(
-        [50.0, 52.0, 51.0, 55.0, 57.0, 16.0],
-        {"projectable": True},
-        projection={"method": "run_rate"},
-    ),
-    "estimates": _trend([50.0, 52.0, 51.0, 55.0, 57.0, 16.0], {"estimate": True}),
-    "a missing month": _trend([50.0, 52.0, None, 55.0, 57.0, 16.0]),
-    "targets": _targets(),
-}
+def test_create_returns_the_secret_once_and_authenticates(sessions: sessionmaker[Any]) -> None:
+    key_id, secret = _key(sessions, roles={Role.author, Role.reviewer})
+    assert secret.startswith(f"{key_id}.")
+    assert len(secret.partition(".")[2]) == 43  # 32 random bytes, URL-safe base64
+    assert authenticate(sessions, secret) == Principal(
+        key_id=key_id,
+        name="Ann Author",
+        roles=frozenset({Role.author, Role.reviewer}),
+        families=frozenset({"hollin-vale"}),
+    )
 
 
-@pytest.mark.parametrize("name", list(GENERATED))
-def test_the_key_lists_exactly_the_mark_kinds_drawn(name: str) -> None:
-    plan = only_chart(run_checks(GENERATED[name])).plan
-    figure = charts.figure_for(plan)
-    report = layout.mend(figure, locale=plan.locale)
-    expected = kinds_in_plan(plan)
-    assert set(key.drawn_kinds(figure)) == expected
-    assert set(report.key_kinds) == expected
-    assert key.entries(figure) == [say(f"key.{k}", plan.locale) for k in key.KINDS if k in expected]
+def test_create_prints_nothing(
+    sessions: sessionmaker[Any], capsys: pytest.CaptureFixture[str]
+) -> None:
+    _key(sessions)
+    assert capsys.readouterr() == ("", "")
 
 
-def test_the_key_speaks_the_report_language() -> None:
-    definition = GENERATED["partial month, projected"]
-    definition["report"]["locale"] = "de-DE"
-    plan = only_chart(run_checks(definition)).plan
-    figure = charts.figure_for(plan)
-    assert key.entries(figure) == [
-        "Istwert bisher, Zeitraum nicht abgeschlossen",
-        "Hochrechnung für den ganzen Zeitraum",
-    ]
+def test_only_a_salted_scrypt_hash_is_stored(sessions: sessionmaker[Any], db: Path) -> None:
+    first_id, first = _key(sessions)
+    _, second = _key(sessions, name="Rui Reviewer")
+    with sqlite3.connect(db) as raw:
+        rows = raw.execute("SELECT * FROM keys").fetchall()
+        trail = raw.execute("SELECT * FROM audit").fetchall()
+    text = repr(rows) + repr(trail)
+    for secret in (first, second):
+        assert secret not in text
+        assert secret.partition(".")[2] not in text
+    files = [p for p in db.parent.iterdir() if p.name.startswith("a.db")]  # a.db, -wal, -shm
+    for path in files:
+        blob = path.read_bytes()
+        assert first.encode() not in blob
+        assert second.encode() not in blob
+    with sessions() as session:
+        row = session.get(KeyRow, first_id)
+        other = next(r for r in session.query(KeyRow) if r.id != first_id)
+    assert row is not None
+    assert row.kdf == "scrypt-n16384-r8-p1"
+    expected = hashlib.scrypt(
+        first.encode(), salt=bytes.fromhex(row.salt), n=2**14, r=8, p=1, dklen=32
+    )
+    assert row.secret_hash == expected.hex()
+    assert row.salt != other.salt  # a salt per key
 
 
-def test_a_chart_that_draws_only_plain_marks_has_no_key() -> None:
-    plan = only_chart(run_checks(GENERATED["complete months"])).plan
-    assert key.entries(charts.figure_for(plan)) == []
+@pytest.mark.parametrize("tamper", ["wrong", "unknown", "empty", "no-dot"])
+def test_an_unknown_or_wrong_secret_is_refused(sessions: sessionmaker[Any], tamper: str) -> None:
+    key_id, secret = _key(sessions)
+    given = {
+        "wrong": secret[:-2] + ("AA" if not secret.endswith("AA") else "BB"),
+        "unknown": "key_0000000000000000." + secret.partition(".")[2],
+        "empty": "",
+        "no-dot": key_id,
+    }[tamper]
+    with pytest.raises(Unauthorized, match="not valid") as caught:
+        authenticate(sessions, given)
+    assert caught.value.status == 401
+
+
+def test_a_revoked_key_is_refused(sessions: sessionmaker[Any]) -> None:
+    key_id, secret = _key(sessions)
+    assert revoke(sessions, key_id=key_id) is True
+    with pytest.raises(Unauthorized, match="revoked"):
+        authenticate(sessions, secret)
+    assert revoke(sessions, key_id=key_id) is False  # already revoked: nothing changes
+    with pytest.raises(NotFound):
+        revoke(sessions, key_id="key_missing")
+
+
+def test_only_an_admin_revokes_or_creates(sessions: sessionmaker[Any]) -> None:
+    _, admin_secret = _key(sessions, name="Ada Admin", roles={Role.admin}, families={"*"})
+    _, author_secret = _key(sessions)
+    admin = authenticate(sessions, admin_secret)
+    author = authenticate(sessions, author_secret)
+    with pytest.raises(Forbidden, match="admin") as caught:
+        _key(sessions, by=author)
+    assert caught.value.status == 403
+    key_id, secret = _key(sessions, name="Rui Reviewer", by=admin)
+    with pytest.raises(Forbidden):
+        revoke(sessions, key_id=key_id, by=author)
+    assert revoke(sessions, key_id=key_id, by=admin)
+    with pytest.raises(Unauthorized):
+        authenticate(sessions, secret)
+    actions = [(e.action, e.key_id) for e in audit.everything(sessions)]
+    assert ("key.created", admin.key_id) in actions
+    assert ("key.revoked", admin.key_id) in actions
+    assert ("key.created", None) in actions  # from the command line
+
+
+def test_an_expired_key_is_refused(sessions: sessionmaker[Any]) -> None:
+    issued = datetime.now(UTC)
+    plus_two = timezone(timedelta(hours=2))
+    expires = (issued + timedelta(hours=1)).astimezone(plus_two)  # any zone: stored as UTC
+    key_id, secret = _key(sessions, expires=expires)
+    assert authenticate(sessions, secret, at=issued).key_id == key_id
+    assert authenticate(sessions, secret, at=expires - timedelta(seconds=1)).key_id == key_id
+    with pytest.raises(Unauthorized, match="expired"):
+        authenticate(sessions, secret, at=expires)
+    with pytest.raises(Unauthorized, match="expired"):
+        authenticate(sessions, secret, at=issued + timedelta(days=1))
+
+
+def test_a_key_cannot_be_made_already_expired_unless_allowed(sessions: sessionmaker[Any]) -> None:
+    with pytest.raises(InvalidRequest, match="has passed"):
+        _key(sessions, expires=datetime.now(UTC) - timedelta(seconds=1))
+
+
+def test_an_already_expired_key_is_refused_on_the_real_clock(sessions: sessionmaker[Any]) -> None:
+    past = datetime.now(UTC) - timedelta(seconds=1)
+    _, secret = _key(sessions, expires=past, allow_expired=True)
+    with pytest.raises(Unauthorized, match="expired"):
+        authenticate(sessions, secret)
+
+
+@pytest.mark.parametrize(
+    ("change", "message"),
+    [
+        ({"name": "  "}, "name"),
+        ({"roles": set()}, "roles"),
+        ({"roles": {"author"}}, "roles"),
+        ({"families": set()}, "families"),
+        ({"families": {"Hollin Vale"}}, "families"),
+        ({"expires": datetime(2030, 1, 1)}, "time zone"),  # naive: the case under test
+    ],
+)
+def test_create_refuses_bad_input(
+    sessions: sessionmaker[Any], change: dict[str, Any], message: str
+) -> None:
+    with pytest.raises(InvalidRequest, match=message) as caught:
+        _key(sessions, **change)
+    assert caught.value.status == 422
+
+
+def _principal(*families: str) -> Principal:
+    return Principal("key_x", "X", frozenset({Role.reviewer}), frozenset(families))
+
+
+@pytest.mark.parametrize(
+    ("families", "report_id", "visible"),
+    [
+        (("hollin-vale",), "hollin-vale", True),
+        (("hollin-vale",), "hollin-vale-ops-monthly", True),
+        (("hollin-vale",), "hollin-vale_board", True),
+        (("hollin-vale",), "hollin-valley-ops", False),  # a prefix only on a word boundary
+        (("hollin-vale",), "hollin", False),
+        (("hollin-vale",), "marsh-end-ops-monthly", False),  # another family's report
+        (("marsh-end", "hollin-vale"), "marsh-end-ops", True),
+        (("*",), "anything-at-all", True),
+        ((), "hollin-vale", False),
+    ],
+)
+def test_can_see_only_granted_families(
+    families: tuple[str, ...], report_id: str, visible: bool
+) -> None:
+    assert can_see(_principal(*families), report_id) is visible
+
+
+def test_error_classes_are_product_errors() -> None:
+    for error, status, code in [
+        (keys.Unauthorized, 401, "unauthorized"),
+        (keys.Forbidden, 403, "forbidden"),
+        (Conflict, 409, "conflict"),
+        (keys.InvalidRequest, 422, "invalid_request"),
+    ]:
+        assert issubclass(error, PlumblineError)
+        assert (error.status, error.code) == (status, code)
