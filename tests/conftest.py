@@ -35,6 +35,7 @@ SLOW = (
     "unit/test_chart_cache.py",  # packs drawn twice, cold and from the cache
     "unit/test_large_series.py",  # packs of a million rows
     "unit/test_render_parallel.py",  # pools of spawned drawing processes
+    "quality/test_marks.py",  # every chart of the generated gallery drawn and measured
 )
 """Where the ``slow`` tests are: folders, files or tests under ``tests/`` (the archive's PostgreSQL
 cases are marked where their parameter is made, in ``tests/archive/conftest.py``)."""

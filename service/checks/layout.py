@@ -1,4 +1,5 @@
-"""Labels are readable: no overlapping tick labels, no text cut off at the chart's edge.
+"""Labels are readable: no overlapping tick labels, no text cut off at the chart's edge, no text
+drawn over a data mark (a line, marker, bar, interval or reference line).
 
 Text extents exist only after layout, so this check is measured when the chart is drawn: the
 renderer measures and hands back a plain report (``render.measured.LayoutReport``), and the
@@ -32,6 +33,12 @@ class DrawnLabels(Protocol):
     @property
     def clipped(self) -> int: ...
     @property
+    def collisions_before(self) -> int: ...
+    @property
+    def collisions(self) -> int: ...
+    @property
+    def over_data(self) -> Sequence[str]: ...
+    @property
     def actions(self) -> Sequence[str]: ...
     @property
     def clean(self) -> bool: ...
@@ -44,12 +51,13 @@ def _at_render(plan: ChartPlan, ctx: Context) -> Finding:
 SPEC = register(
     CheckSpec(
         id="label-layout",
-        title="Labels do not overlap or get cut off",
+        title="Labels do not overlap, get cut off or cover the data",
         intents=frozenset(INTENTS),
         forms=LENGTH_FORMS | POSITION_FORMS,
-        measures="pairs of overlapping tick labels and text cut off at the chart's edge, measured "
-        "on the drawn chart after layout",
-        threshold="0 overlaps, 0 cut off",
+        measures="pairs of overlapping tick labels, text cut off at the chart's edge, and texts "
+        "drawn over a data mark (line paths segment by segment, markers, bars, intervals, "
+        "reference lines), measured on the drawn chart after layout",
+        threshold="0 overlaps, 0 cut off, 0 texts over data",
         source="common practice (no source)",
         waivable=True,
         correction=None,
@@ -64,12 +72,17 @@ def result(
 ) -> CheckResult:
     """The ``label-layout`` result, given the engine's waiver lookup for this chart: the current
     waiver, or None and the date an expired one ran out."""
-    before = f"{report.overlaps_before} overlaps, {report.clipped_before} cut off"
-    after = f"{report.overlaps} overlaps, {report.clipped} cut off"
+    before = (
+        f"{report.overlaps_before} overlaps, {report.clipped_before} cut off, "
+        f"{report.collisions} texts over data"
+    )
+    after = (
+        f"{report.overlaps} overlaps, {report.clipped} cut off, {report.collisions} texts over data"
+    )
     base = {
         "check": SPEC.id,
         "chart": plan.chart_id,
-        "measured": report.overlaps_before + report.clipped_before,
+        "measured": report.overlaps_before + report.clipped_before + report.collisions,
         "measured_text": before,
         "threshold": SPEC.threshold,
         "source": SPEC.source,
@@ -85,6 +98,8 @@ def result(
             explanation=f"Labels collided ({before}); Plumbline {done}.",
         )
     text = f"After mending, labels still collide or are cut off ({after})."
+    if report.over_data:
+        text += " Over the data: " + ", ".join(f"'{t}'" for t in report.over_data) + "."
     if expired is not None:
         text += f" A waiver expired on {expired.isoformat()} and no longer applies."
     if waiver is not None:

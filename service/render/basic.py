@@ -2,11 +2,11 @@
 
 from __future__ import annotations
 
-import math
 import textwrap
 from collections.abc import Callable
-from typing import Any, cast
+from typing import Any, NamedTuple, cast
 
+from matplotlib.artist import Artist
 from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 from matplotlib.ticker import FixedLocator, NullFormatter
@@ -15,7 +15,7 @@ from matplotlib.transforms import offset_copy
 from service import formatting, wording
 from service.intents import colours
 from service.intents.plan import ChartPlan, Scale, Series, all_series
-from service.render import common, style
+from service.render import common, place, style
 from service.render.drawer import Drawer, drawer
 
 
@@ -35,6 +35,7 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
                 linewidth=1.6,
                 solid_capstyle="butt",
                 zorder=4,
+                gid="target",
             )
         if category.value is None:
             common.no_data(ax, base, y, "expected, no data" if category.expected_missing else None)
@@ -71,18 +72,19 @@ def draw_bars(ax: Axes, plan: ChartPlan) -> None:
             linewidth=0,
         )
     for ref in plan.references:
-        ax.axvline(ref.value, color=style.INK, linewidth=0.9, linestyle=(0, (4, 2)), zorder=4)
-        ax.annotate(
+        line = ax.axvline(
+            ref.value, color=style.INK, linewidth=0.9, linestyle=(0, (4, 2)), zorder=4
+        )
+        place.label(
+            ax,
             ref.label,
-            xy=(ref.value, 1.0),
+            (ref.value, 1.0),
+            place.atop(2.0, 2.0, "bottom"),
             xycoords=("data", "axes fraction"),
-            xytext=(2, 2),
-            textcoords="offset points",
+            inside=False,
+            key=line,
             fontsize=7,
             color=style.INK,
-            ha="left",
-            va="bottom",
-            parse_math=False,
         )
     common.category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, max(axis.hi + span * 0.08, common.room_for(ax, axis.lo, axis.hi, labels)))
@@ -94,16 +96,23 @@ def _interval(ax: Axes, lo: float | None, hi: float | None, y: float) -> None:
     """A value's uncertainty interval, drawn as a thin line with end ticks."""
     if lo is None or hi is None:
         return
-    ax.plot([lo, hi], [y, y], color=style.INK, linewidth=0.9, zorder=5)
+    ax.plot([lo, hi], [y, y], color=style.INK, linewidth=0.9, zorder=5, gid="interval")
     for end in (lo, hi):
-        ax.plot([end, end], [y - 0.14, y + 0.14], color=style.INK, linewidth=0.9, zorder=5)
+        ax.plot(
+            [end, end],
+            [y - 0.14, y + 0.14],
+            color=style.INK,
+            linewidth=0.9,
+            zorder=5,
+            gid="interval",
+        )
 
 
 def draw_dots(ax: Axes, plan: ChartPlan) -> None:
     rows = list(range(len(plan.categories)))[::-1]
     axis = plan.value_axis
     for y, category in zip(rows, plan.categories, strict=True):
-        ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0)
+        ax.axhline(y, color=style.GRID, linewidth=0.6, zorder=0, gid="grid")
         if category.value is None:
             common.no_data(
                 ax, axis.lo, y, "expected, no data" if category.expected_missing else None
@@ -118,15 +127,13 @@ def draw_dots(ax: Axes, plan: ChartPlan) -> None:
             color=common.colour(plan, 0),
             linestyle="none",
         )
-        ax.text(
-            category.value,
-            y + 0.28,
+        place.label(
+            ax,
             common.value_label(plan, category.value),
-            va="bottom",
-            ha="center",
+            (category.value, y),
+            place.over(5.0),
             color=style.INK,
             fontsize=7,
-            parse_math=False,
         )
     common.category_axis(ax, plan, rows)
     ax.set_xlim(axis.lo, axis.hi)
@@ -139,10 +146,21 @@ def draw_lines(ax: Axes, plan: ChartPlan) -> None:
     time_axis(ax, plan, room=bool(ends))
     value_axis(ax, plan, plan.value_axis)
     label_partial(ax, plan, plan.series)
-    _direct_labels(ax, ends, plan.value_axis)
+    end_labels(ax, ends)
 
 
-Ends = list[tuple[str, int, float, str]]
+class End(NamedTuple):
+    """Where a line ends, for its direct label: its name, last complete point, colour and the
+    drawn mark (shown in the key if the label finds no room)."""
+
+    name: str
+    x: int
+    value: float
+    colour: str
+    mark: Artist
+
+
+Ends = list[End]
 
 
 def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scale) -> Ends:
@@ -164,6 +182,8 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
         }
         if series.estimate:
             style_kw["linestyle"] = (0, (3, 2))
+            style_kw["gid"] = "estimate"
+        mark: Artist | None = None
         for first, end in series.segments:
             running = partial is not None and xs_all[end] == partial.index and not series.estimate
             last = end - 1 if running else end
@@ -173,7 +193,7 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
             ys = [float(v or 0.0) for v in series.values[first : last + 1]]  # no gaps inside
             if first == last and series.estimate:  # a lone estimate: a hollow diamond
                 y, arrow = _on_scale(ys[0], axis)
-                ax.plot(
+                (mark,) = ax.plot(
                     xs,
                     [y],
                     marker=arrow or "D",
@@ -183,21 +203,20 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
                     markeredgewidth=1.2,
                     linestyle="none",
                     color=colour,
+                    gid="projection" if base in names and base != series.name else "estimate",
                 )
             else:
                 marker = "o" if first == last else ""
-                ax.plot(xs, ys, marker=marker, markersize=3.5, **style_kw)
+                (mark,) = ax.plot(xs, ys, marker=marker, markersize=3.5, **style_kw)
             if plan.value_labels:
                 for x, y in zip(xs, ys, strict=True):
-                    ax.annotate(
+                    place.label(
+                        ax,
                         formatting.number(y, plan.locale, digits=axis.writes.decimals),
-                        xy=(x, y),
-                        xytext=(0, 4),
-                        textcoords="offset points",
-                        ha="center",
+                        (x, y),
+                        place.over(4.0),
                         fontsize=6.5,
                         color=style.INK,
-                        parse_math=False,
                     )
         if partial is not None and partial.index in xs_all and not series.estimate:
             value = series.values[xs_all.index(partial.index)]
@@ -219,17 +238,24 @@ def draw_series(ax: Axes, plan: ChartPlan, series_list: list[Series], axis: Scal
                     markeredgewidth=1.4,
                     linestyle="none",
                     zorder=3,
+                    gid="partial_actual",
                 )
         complete = [
             (x, v)
             for x, v in zip(xs_all, series.values, strict=True)
             if v is not None and (partial is None or x != partial.index or series.estimate)
         ]
-        if complete and (len(series_list) > 1 or series.estimate):
+        if complete and mark is not None and (len(series_list) > 1 or series.estimate):
             tagged = series.estimate and "estimate" not in series.name
             name = wording.say("text.estimate_of", plan.locale, name=series.title)
             ends.append(
-                (name if tagged else series.title, complete[-1][0], float(complete[-1][1]), colour)
+                End(
+                    name if tagged else series.title,
+                    complete[-1][0],
+                    float(complete[-1][1]),
+                    colour,
+                    mark,
+                )
             )
     return ends
 
@@ -245,43 +271,49 @@ def _on_scale(value: float, axis: Scale) -> tuple[float, str | None]:
 
 
 def draw_references(ax: Axes, plan: ChartPlan) -> None:
-    """Horizontal reference lines (a base of 100, a target), labelled at the left."""
+    """Horizontal reference lines (a base of 100, a target), labelled at the left where free."""
     for ref in plan.references:
-        ax.axhline(ref.value, color=style.MUTED, linewidth=0.8, linestyle=(0, (4, 2)), zorder=1)
-        ax.annotate(
+        line = ax.axhline(
+            ref.value, color=style.MUTED, linewidth=0.8, linestyle=(0, (4, 2)), zorder=1
+        )
+        place.label(
+            ax,
             ref.label,
-            xy=(0.0, ref.value),
+            (0.0, ref.value),
+            place.along(ref.value, start="left"),
             xycoords=("axes fraction", "data"),
-            xytext=(3, 2),
-            textcoords="offset points",
+            key=line,
             fontsize=7,
             color=style.MUTED,
-            ha="left",
-            va="bottom",
-            parse_math=False,
         )
 
 
 def draw_gaps(ax: Axes, plan: ChartPlan, axis: Scale, series_count: int) -> None:
     middle = (axis.lo * axis.hi) ** 0.5 if axis.log else (axis.lo + axis.hi) / 2
     for gap in plan.gaps:
-        ax.axvspan(gap.index - 0.45, gap.index + 0.45, color=style.GAP_FILL, linewidth=0, zorder=0)
+        ax.axvspan(
+            gap.index - 0.45,
+            gap.index + 0.45,
+            color=style.GAP_FILL,
+            linewidth=0,
+            zorder=0,
+            gid="no_data",
+        )
         everyone = len(gap.series) >= series_count
         titles = {s.name: s.title for s in all_series(plan)}
         text = wording.say("text.no_data", plan.locale)
         if not everyone:
-            text += ": " + ", ".join(titles.get(n, n) for n in gap.series)
-        ax.text(
-            gap.index,
-            middle,
+            # Upright in the band: a line per few words keeps it short enough to fit between lines.
+            text += ":\n" + textwrap.fill(", ".join(titles.get(n, n) for n in gap.series), 18)
+        place.label(
+            ax,
             text,
+            (gap.index, middle),
+            place.up_and_down(),
             rotation=90,
-            va="center",
-            ha="center",
             fontsize=7,
             color=style.MUTED,
             fontstyle="italic",
-            parse_math=False,
         )
 
 
@@ -336,48 +368,33 @@ def label_partial(ax: Axes, plan: ChartPlan, series_list: list[Series]) -> None:
             parse_math=False,
         )
     elif present:
-        ax.annotate(
+        place.label(
+            ax,
             wording.say(
                 "text.so_far", plan.locale, period=plan.periods[partial.index], done=partial.text
             ),
-            xy=(partial.index, min(present)),
-            xytext=(-8, 0),
-            textcoords="offset points",
-            ha="right",
-            va="center",
+            (partial.index, min(present)),
+            [place.Spot(-8, 0, "right", "center"), *place.around(8.0)],
             fontsize=7,
             color=style.MUTED,
             fontstyle="italic",
-            parse_math=False,
         )
 
 
-def _direct_labels(ax: Axes, ends: Ends, axis: Scale) -> None:
-    """Name each line at its last complete point, nudged apart so no two labels overlap."""
-    if not ends:
-        return
-    lo, hi = (math.log10(axis.lo), math.log10(axis.hi)) if axis.log else (axis.lo, axis.hi)
-    height_pt = ax.get_figure().get_size_inches()[1] * 72 * 0.7  # type: ignore[union-attr]
-    per_unit = height_pt / (hi - lo)
-    order = sorted(range(len(ends)), key=lambda k: ends[k][2])
-    placed: list[float] = []
-    for k in order:
-        value = math.log10(ends[k][2]) if axis.log else ends[k][2]
-        want = (value - lo) * per_unit
-        y = max(want, placed[-1] + 9.0) if placed else want
-        placed.append(y)
-        name, x, value, colour = ends[k]
-        ax.annotate(
-            name,
-            xy=(x, value),
-            xytext=(6, y - want),
-            textcoords="offset points",
-            va="center",
-            ha="left",
-            color=colour,
+def end_labels(ax: Axes, ends: Ends) -> None:
+    """Name each line at its last complete point, beside it where that covers nothing else.
+
+    Placed from the lowest end up, each nudged upwards first, so labels keep their lines' order."""
+    for end in sorted(ends, key=lambda e: e.value):
+        place.label(
+            ax,
+            end.name,
+            (end.x, end.value),
+            place.beside(),
+            inside=False,
+            key=end.mark,
+            color=end.colour,
             fontsize=7.5,
-            parse_math=False,
-            annotation_clip=False,
         )
 
 

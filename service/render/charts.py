@@ -17,7 +17,7 @@ from matplotlib.text import Text
 from service.errors import RenderFailed
 from service.intents.geometry import NOTE_WIDTH, size_in
 from service.intents.plan import ChartPlan
-from service.render import layout, style
+from service.render import key, layout, style
 from service.render.measured import LayoutReport
 from service.render.registry import DRAWERS
 
@@ -108,6 +108,7 @@ def figure_for(plan: ChartPlan) -> Figure:
                 ha="left",
                 parse_math=False,
             )
+        key.draw(figure, plan.locale)
     except (ValueError, RuntimeError, OverflowError, KeyError) as exc:
         raise RenderFailed.logged(f"chart '{plan.chart_id}' could not be drawn", exc) from exc
     for text in figure.findobj(Text):
@@ -131,7 +132,7 @@ def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
         with PdfPages(buffer, metadata=metadata) as pages:
             for plan in plans:
                 figure = figure_for(plan)
-                reports.append(layout.mend(figure))
+                reports.append(layout.mend(figure, locale=plan.locale))
                 # mend() laid the figure out: keep that layout. With no engine at all (not even
                 # "none", a placeholder engine), savefig draws once instead of twice.
                 figure.set_layout_engine(None)
@@ -144,8 +145,10 @@ def draw_pages(plans: list[ChartPlan]) -> tuple[bytes, list[LayoutReport]]:
 
 
 def draw(plan: ChartPlan) -> bytes:
-    """The chart as a one-page vector PDF."""
+    """The chart as a one-page vector PDF, laid out and labelled as in a pack."""
     figure = figure_for(plan)
+    layout.mend(figure, locale=plan.locale)
+    figure.set_layout_engine(None)  # keep the layout its labels were placed in
     buffer = io.BytesIO()
     try:
         figure.savefig(

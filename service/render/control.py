@@ -1,7 +1,8 @@
 """The control form: a measure over time against its centre line and natural process limits.
 
 Draws what the plan says: the series (gaps and a partial last period as the lines form does), the
-centre line solid and the limits dashed, each labelled at the right; every point a verdict marks as a
+centre line solid and the limits dashed, each labelled at the right where the series leaves
+room (``render.place``); every point a verdict marks as a
 signal in the flag colour; and the first verdict (the latest change) as text under the time axis,
 below its point.
 """
@@ -14,19 +15,18 @@ from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 
 from service.intents.plan import ChartPlan, Reference
-from service.render import style
+from service.render import place, style
 from service.render.basic import draw_gaps, draw_series, label_partial, time_axis, value_axis
 from service.render.drawer import drawer
 
 DASHED = (0, (4, 3))
-LABEL_PT = 8.0
 VERDICT_WIDTH = 90
 
 
-def _reference(ax: Axes, reference: Reference, offset: float) -> None:
-    """A reference line across the axes, labelled at its right end (``offset`` points from it)."""
+def _reference(ax: Axes, reference: Reference) -> None:
+    """A reference line across the axes, labelled at its right end where that is free."""
     centre = reference.kind == "centre"
-    ax.axhline(
+    line = ax.axhline(
         reference.value,
         color=style.INK if centre else style.MUTED,
         linewidth=0.8,
@@ -34,35 +34,16 @@ def _reference(ax: Axes, reference: Reference, offset: float) -> None:
         zorder=1,
         gid=f"reference-{reference.kind}",
     )
-    ax.annotate(
+    place.label(
+        ax,
         reference.label,
-        xy=(1.0, reference.value),
+        (1.0, reference.value),
+        place.along(reference.value),
         xycoords=("axes fraction", "data"),
-        xytext=(0, offset),
-        textcoords="offset points",
-        ha="right",
-        va="bottom" if offset >= 0 else "top",
+        key=line,
         fontsize=6.5,
         color=style.MUTED,
-        parse_math=False,
     )
-
-
-def _offsets(ax: Axes, plan: ChartPlan) -> list[float]:
-    """Where each label sits: below its line under the centre line, else above it, nudged upwards
-    so that no two labels above the lines overlap."""
-    axis = plan.value_axis
-    centre = next((r.value for r in plan.references if r.kind == "centre"), None)
-    height_pt = ax.get_figure().get_size_inches()[1] * 72 * 0.7  # type: ignore[union-attr]
-    per_unit = height_pt / (axis.hi - axis.lo)
-    offsets = [-2.0] * len(plan.references)
-    above = [k for k, r in enumerate(plan.references) if centre is None or r.value >= centre]
-    top: float | None = None
-    for k in sorted(above, key=lambda k: plan.references[k].value):
-        want = (plan.references[k].value - axis.lo) * per_unit
-        placed = want if top is None else max(want, top + LABEL_PT)
-        offsets[k], top = 2.0 + placed - want, placed
-    return offsets
 
 
 def _signals(ax: Axes, plan: ChartPlan) -> None:
@@ -112,8 +93,8 @@ def _verdict(ax: Axes, plan: ChartPlan) -> None:
 @drawer("control")
 def draw_control(figure: Figure, plan: ChartPlan) -> None:
     ax = figure.add_subplot()
-    for reference, offset in zip(plan.references, _offsets(ax, plan), strict=True):
-        _reference(ax, reference, offset)
+    for reference in plan.references:
+        _reference(ax, reference)
     draw_series(ax, plan, plan.series, plan.value_axis)
     draw_gaps(ax, plan, plan.value_axis, len(plan.series))
     time_axis(ax, plan, room=False)

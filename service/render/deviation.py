@@ -13,7 +13,7 @@ from matplotlib.figure import Figure
 
 from service import formatting
 from service.intents.plan import ChartPlan
-from service.render import common, style
+from service.render import common, place, style
 from service.render.drawer import drawer
 
 #: Room beside the axis range for the value labels of the longest bars, as a share of the span
@@ -81,18 +81,16 @@ def draw_deviation(ax: Axes, plan: ChartPlan) -> None:
     top = count + 0.1
     ax.set_ylim(-0.6, top)  # a little room above the first row for the reference's label
     for reference in plan.references:
-        ax.axvline(reference.value, color=style.INK, linewidth=0.9, zorder=3)
-        ax.annotate(
+        line = ax.axvline(reference.value, color=style.INK, linewidth=0.9, zorder=3)
+        place.label(
+            ax,
             reference.label,
-            xy=(reference.value, top),
-            xytext=(3, -2),
-            textcoords="offset points",
-            ha="left",
-            va="top",
+            (reference.value, top),
+            place.atop(3.0, -2.0, "top"),
+            key=line,
             color=style.MUTED,
             fontsize=7,
             fontstyle="italic",
-            parse_math=False,
         )
     left, right = _rooms(ax, plan)
     ax.set_xlim(axis.lo - left, axis.hi + right)

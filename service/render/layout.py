@@ -1,4 +1,5 @@
-"""Measure a drawn chart's text after layout: overlapping tick labels, text cut off at the edge.
+"""Measure a drawn chart's text after layout: overlapping tick labels, text cut off at the edge,
+text drawn over a data mark (``render.marks``).
 
 Runs on the real figure (text extents need a renderer), and mends what it can by thinning the
 time axis's tick labels or shrinking category labels; what it found and did is reported, and the
@@ -16,6 +17,7 @@ from matplotlib.figure import Figure
 from matplotlib.text import Text
 from matplotlib.transforms import Bbox
 
+from service.render import key, marks, place
 from service.render.measured import LayoutReport
 
 #: Text may reach this close to the figure's edge (pixels at the figure's dpi) before it is cut.
@@ -112,19 +114,38 @@ def _shrink(ax: Axes) -> bool:
     return changed
 
 
-def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
-    """Lay out once, measure, and try to mend overlaps and cut-off text; report before and after.
+def mend(figure: Figure, *, attempts: int = 3, locale: str = "en-GB") -> LayoutReport:
+    """Lay out once, place the direct labels, measure, and try to mend overlaps and cut-off text;
+    report before and after.
+
+    Texts over data are counted first where the drawers put their labels, then each label is moved
+    to a free spot (``render.place``); labels with none go into the key (in ``locale``'s words),
+    which takes room, so the figure is laid out and its labels placed once more.
 
     A mend hides or shrinks labels where the layout put them and measures them again without
     laying out again: the layout keeps the room it made for the labels as they were, so what is
     measured is what the page shows (and each mend costs no further draw of the figure)."""
     collapsed = not lay_out(figure)
     report = LayoutReport()
+    renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+    report.collisions_before = len(marks.text_over_data(figure, renderer))
+    keyed = place.place(figure, renderer)
+    if keyed:
+        key.draw(figure, locale, keyed)
+        collapsed = not lay_out(figure)
+        renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+        more = place.place(figure, renderer)
+        if more:
+            key.draw(figure, locale, [*keyed, *more])
+            collapsed = not lay_out(figure)
+            renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+        keyed += more
+        report.actions += [f"moved the label '{k.text}' into the key" for k in keyed]
     report.overlaps_before, report.clipped_before = report.overlaps, report.clipped = measure(
         figure, laid_out=True, collapsed=collapsed
     )
     for _ in range(attempts):
-        if report.clean:
+        if report.overlaps == 0 and report.clipped == 0:
             break
         acted = False
         for ax in figure.axes:
@@ -137,4 +158,7 @@ def mend(figure: Figure, *, attempts: int = 3) -> LayoutReport:
         if not acted:
             break
         report.overlaps, report.clipped = measure(figure, laid_out=True, collapsed=collapsed)
+    report.over_data = marks.text_over_data(figure, renderer)
+    report.collisions = len(report.over_data)
+    report.key_kinds = list(key.drawn_kinds(figure)) if figure.legends else []
     return report

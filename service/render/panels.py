@@ -17,7 +17,15 @@ from matplotlib.figure import Figure
 
 from service.intents.plan import ChartPlan, Panel
 from service.render import style
-from service.render.basic import Ends, draw_gaps, draw_series, label_partial, time_axis, value_axis
+from service.render.basic import (
+    Ends,
+    draw_gaps,
+    draw_series,
+    end_labels,
+    label_partial,
+    time_axis,
+    value_axis,
+)
 from service.render.drawer import drawer
 
 
@@ -44,23 +52,6 @@ def _heading(ax: Axes, panel: Panel) -> None:
     )
 
 
-def _end_labels(ax: Axes, ends: Ends) -> None:
-    """Name a line at its last complete point (one series per panel needs this only for estimates)."""
-    for name, x, value, colour in ends:
-        ax.annotate(
-            name,
-            xy=(x, value),
-            xytext=(6, 0),
-            textcoords="offset points",
-            va="center",
-            ha="left",
-            color=colour,
-            fontsize=7.5,
-            parse_math=False,
-            annotation_clip=False,
-        )
-
-
 @drawer("panels")
 def draw_panels(figure: Figure, plan: ChartPlan) -> None:
     count = len(plan.panels)
@@ -83,5 +74,5 @@ def draw_panels(figure: Figure, plan: ChartPlan) -> None:
     for ax in axes[:-1]:
         ax.tick_params(axis="x", labelbottom=False)
     for ax, ends in zip(axes, drawn, strict=True):
-        _end_labels(ax, ends)
+        end_labels(ax, ends)
     figure.align_ylabels(axes)

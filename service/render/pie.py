@@ -77,7 +77,7 @@ def _labels(
                 clear = math.sqrt(max(0.0, 1.0 - y * y)) + 0.1
                 x = max(abs(x), clear) * (1.0 if right else -1.0)
                 edge = (1.02 * math.cos(mids[k]), 1.02 * math.sin(mids[k]))
-                ax.plot([edge[0], x], [edge[1], y], color=style.MUTED, linewidth=0.5)
+                ax.plot([edge[0], x], [edge[1], y], color=style.MUTED, linewidth=0.5, gid="leader")
             ax.text(
                 x,
                 y,

@@ -9,7 +9,7 @@ from __future__ import annotations
 from matplotlib.figure import Figure
 
 from service.intents.plan import ChartPlan
-from service.render import common, style
+from service.render import common, place, style
 from service.render.distribution import show_guide
 from service.render.drawer import drawer
 
@@ -31,14 +31,13 @@ def draw_scatter(figure: Figure, plan: ChartPlan) -> None:
     for point in plan.points:
         if point.label is None:
             continue
-        ax.annotate(
+        place.label(
+            ax,
             point.label,
-            xy=(point.x, point.y),
-            xytext=(4, 3),
-            textcoords="offset points",
+            (point.x, point.y),
+            [place.Spot(4, 3, "left", "bottom"), *place.around(4.0)],
             fontsize=7,
             color=style.INK,
-            parse_math=False,
         )
     if plan.fit is not None and xs:
         lo, hi = min(xs), max(xs)

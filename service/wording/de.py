@@ -4,6 +4,13 @@ WORDS: dict[str, str] = {
     # -- cover and contents ------------------------------------------------------------------
     # -- page headings, footers and page furniture ----------------------------------------------
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
+    "key.partial_actual": "Istwert bisher, Zeitraum nicht abgeschlossen",
+    "key.estimate": "Schätzung, kein Istwert",
+    "key.projection": "Hochrechnung für den ganzen Zeitraum",
+    "key.target": "Ziel",
+    "key.signal": "Signal: mehr als gewöhnliche Streuung",
+    "key.no_data": "Keine Daten",
+    "key.interval": "Unsicherheitsbereich des Werts",
     # -- tables ------------------------------------------------------------------------------------
     "table.no_data": "keine Daten",
     "table.partial": "unvollständig: {done}",
@@ -101,7 +108,7 @@ WORDS: dict[str, str] = {
     "text.days_of_one": "{elapsed} von {total} Tag",
     "text.days_of": "{elapsed} von {total} Tagen",
     "text.estimate_of": "{name} (Schätzung)",
-    "text.estimates_note": "Schätzungen, keine Istwerte (gestrichelt): {names}.",
+    "text.estimates_note": "Schätzungen, keine Istwerte (gestrichelt oder als hohle Raute): {names}.",
     "text.no_projection": "Keine Hochrechnung: Der letzte Zeitraum war zum Datenstand abgeschlossen.",
     "text.log_note": (
         "Logarithmische Skala: Gleiche Abstände zeigen gleiche Verhältnisse, nicht gleiche Differenzen."

@@ -4,6 +4,13 @@ WORDS: dict[str, str] = {
     # -- cover and contents ------------------------------------------------------------------
     # -- page headings, footers and page furniture ----------------------------------------------
     # -- chart keys (legends) and mark kinds -----------------------------------------------------
+    "key.partial_actual": "Actual so far, period not complete",
+    "key.estimate": "Estimate, not an actual",
+    "key.projection": "Projection for the whole period",
+    "key.target": "Target",
+    "key.signal": "Signal: more than routine variation",
+    "key.no_data": "No data",
+    "key.interval": "Uncertainty interval of the value",
     # -- tables ------------------------------------------------------------------------------------
     "table.no_data": "no data",
     "table.partial": "partial: {done}",
@@ -92,7 +99,7 @@ WORDS: dict[str, str] = {
     "text.days_of_one": "{elapsed} of {total} day",
     "text.days_of": "{elapsed} of {total} days",
     "text.estimate_of": "{name} (estimate)",
-    "text.estimates_note": "Estimates, not actuals (dashed): {names}.",
+    "text.estimates_note": "Estimates, not actuals (dashed, or a hollow diamond): {names}.",
     "text.no_projection": "No projection: the last period was complete at the time of the data.",
     "text.log_note": "Logarithmic scale: equal distances show equal ratios, not equal differences.",
     "text.scale_note": "Scale starts at {start}, not zero: compare positions, not lengths.",

@@ -47,8 +47,10 @@ def test_colliding_time_labels_are_thinned_and_recorded() -> None:
     assert report.actions == ["showed every other label on the horizontal axis"]
     result = engine.finish_chart(plan, report, [], TODAY)
     assert result.status is Status.corrected
-    assert result.measured_text == f"{report.overlaps_before} overlaps, 0 cut off"
-    assert result.corrected_to == "0 overlaps, 0 cut off"
+    assert (
+        result.measured_text == f"{report.overlaps_before} overlaps, 0 cut off, 0 texts over data"
+    )
+    assert result.corrected_to == "0 overlaps, 0 cut off, 0 texts over data"
 
 
 def test_text_cut_off_at_the_edge_fails_and_can_be_waived() -> None:

@@ -216,7 +216,7 @@ def test_a_measure_declared_as_estimates_is_drawn_and_listed_as_such(form: str) 
     plan = only_chart(checked).plan
     drawn = plan.series or [s for p in plan.panels for s in p.series]
     assert [s.estimate for s in drawn] == [False, True]
-    assert "Estimates, not actuals (dashed): Cases." in plan.notes
+    assert "Estimates, not actuals (dashed, or a hollow diamond): Cases." in plan.notes
 
 
 # --- drawing ---------------------------------------------------------------------------------------
