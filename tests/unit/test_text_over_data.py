@@ -41,7 +41,7 @@ def _text_on_the_lines(figure: Figure) -> None:
 @pytest.mark.parametrize(
     ("chart", "text"),
     [
-        ("boardings-trend", "boardings"),  # the end label under the estimate's marker
+        ("boardings-trend", "Boardings"),  # the end label under the estimate's marker
         ("cost-vs-use", "Dec 2025 = 100"),  # the index base's label struck by a line
         ("complaints-movement", "centre line 43 complaints"),  # limit labels crossed
         ("complaints-movement", "upper natural process limit 58 complaints"),
