@@ -81,6 +81,7 @@ def content_for(
         sources=[(check, registry.CHECKS[check].source) for check in used],
         fingerprint=checked.fingerprint,
         report_id=report.id,
+        locale=report.locale,
     )
 
 

@@ -15,6 +15,7 @@ from xml.sax.saxutils import escape
 
 from reportlab import rl_config
 from reportlab.lib.units import inch
+from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas
 from reportlab.platypus import (
     BaseDocTemplate,
@@ -32,6 +33,7 @@ from reportlab.platypus import (
 
 from service import __version__
 from service.assemble import fonts, layout
+from service.wording import say
 
 rl_config.invariant = 1  # fixed dates and ids: the same input gives the same bytes
 rl_config.trustedSchemes = []  # no markup may fetch a URL (user text is escaped anyway)
@@ -96,6 +98,7 @@ class PackContent:
     sources: list[tuple[str, str]]
     fingerprint: str
     report_id: str
+    locale: str = "en-GB"
 
 
 @dataclass(frozen=True)
@@ -129,6 +132,37 @@ def _text(value: str) -> str:
     return escape(value).replace("\n", "<br/>")
 
 
+FOOTER_SIZE = 7.5
+FOOTER_LEADING = 9.5
+FOOTER_Y = layout.MARGIN * 0.6
+FOOTER_GAP = 12.0
+"""The least room between the footer's text and the page number, in points."""
+
+
+def _fit(text: str, font: str, width: float) -> str:
+    """``text``, cut at a word and ended with "…" when it is wider than ``width`` points."""
+    if stringWidth(text, font, FOOTER_SIZE) <= width:
+        return text
+    words = text.split(" ")
+    while len(words) > 1:
+        words.pop()
+        cut = " ".join(words).rstrip(" ·,;") + " …"
+        if stringWidth(cut, font, FOOTER_SIZE) <= width:
+            return cut
+    return "…"
+
+
+def footer_lines(title: str, status: str, number: str, font: str) -> list[str]:
+    """The footer's text, measured against the page number beside it: one line when the title and
+    the status fit beside the number, else the title beside the number and the status on a line of
+    its own below, using the frame's whole width (the status is never cut while it fits there)."""
+    beside = layout.FRAME_WIDTH - stringWidth(number, font, FOOTER_SIZE) - FOOTER_GAP
+    both = f"{title} · {status}"
+    if stringWidth(both, font, FOOTER_SIZE) <= beside:
+        return [both]
+    return [_fit(title, font, beside), _fit(status, font, layout.FRAME_WIDTH)]
+
+
 def _numbered(content: PackContent) -> type[canvas.Canvas]:
     regular = fonts.register()
 
@@ -152,13 +186,14 @@ def _numbered(content: PackContent) -> type[canvas.Canvas]:
 
         def _footer(self, total: int) -> None:
             self.saveState()
-            self.setFont(regular, 7.5)
+            self.setFont(regular, FOOTER_SIZE)
             self.setFillColor(layout.MUTED)
-            y = layout.MARGIN * 0.55
-            self.drawString(layout.MARGIN, y, f"{content.title} · {content.status_line}"[:110])
-            self.drawRightString(
-                layout.PAGE[0] - layout.MARGIN, y, f"Page {self._pageNumber} of {total}"
-            )
+            number = say("page.number", content.locale, page=self._pageNumber, pages=total)
+            right = layout.PAGE[0] - layout.MARGIN
+            self.drawRightString(right, FOOTER_Y, number)
+            lines = footer_lines(content.title, content.status_line, number, regular)
+            for i, line in enumerate(lines):
+                self.drawString(layout.MARGIN, FOOTER_Y - i * FOOTER_LEADING, line)
             self.restoreState()
 
     return NumberedCanvas
