@@ -85,7 +85,13 @@ def _fit(plan: ChartPlan, ctx: Context) -> Finding:
     assert isinstance(chart, RelationshipChart)
     if not chart.fit:
         if plan.fit is None:
-            return Finding(True, None, "No line is drawn, and none was asked for.", "no line")
+            return Finding(
+                True,
+                None,
+                "No line is drawn, and none was asked for.",
+                "no line",
+                applicable=False,
+            )
         return Finding(
             False,
             round(plan.fit.r2, 4),

@@ -105,7 +105,9 @@ def note_for(plan: ChartPlan, ctx: Context) -> str | None:
 def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     precision = ctx.chart.precision
     if precision is None:
-        return Finding(True, None, "No precision is asked of this chart.", "not asked")
+        return Finding(
+            True, None, "No precision is asked of this chart.", "not asked", applicable=False
+        )
     values = shown_values(plan)
     if not values:
         return Finding(True, None, "The chart shows no values to read.", "no values")

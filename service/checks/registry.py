@@ -37,6 +37,9 @@ class Finding:
     detail: str
     shown: str | None = None
     """The measured value as a reader should see it ("8 of 30 days", "85%"); else ``measured``."""
+    applicable: bool = True
+    """False when the chart's form cannot break the rule at all (the result is *not applicable*,
+    not a pass)."""
 
 
 Measure = Callable[[ChartPlan, Context], Finding]

@@ -153,6 +153,7 @@ def _axes(plan: ChartPlan, ctx: Context) -> Finding:
         f"{shown.capitalize()}: this form cannot draw a second y-axis, so two y-axes are "
         "impossible.",
         shown,
+        applicable=False,
     )
 
 

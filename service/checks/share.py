@@ -134,7 +134,7 @@ def _expected_measure(plan: ChartPlan, ctx: Context) -> Finding:
         shown = f"{len(absent)} of {len(expected)} not shown"
         return Finding(False, len(absent), detail + ", ".join(absent[:6]) + ".", shown)
     if not expected:
-        return Finding(True, 0, "No expected parts are listed.", "none listed")
+        return Finding(True, 0, "No expected parts are listed.", "none listed", applicable=False)
     flagged = [c.label for c in plan.categories if c.expected_missing]
     without = f" ({', '.join(flagged[:6])} shown as 'expected, no data')" if flagged else ""
     return Finding(True, 0, f"All {len(expected)} expected parts are shown{without}.", "all shown")
@@ -222,7 +222,9 @@ def _pie_measure(plan: ChartPlan, ctx: Context) -> Finding:
     )
     shown = f"{len(values)} parts{closest}"
     if plan.form != "pie":
-        return Finding(True, len(values), f"Drawn as bars: {shown}.", f"bars; {shown}")
+        return Finding(
+            True, len(values), f"Drawn as bars: {shown}.", f"bars; {shown}", applicable=False
+        )
     problem = share.pie_problem(values, ctx.locale)
     if problem is None:
         return Finding(

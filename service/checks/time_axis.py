@@ -113,7 +113,7 @@ def _length_on_log(plan: ChartPlan) -> bool:
 def _log_noted(plan: ChartPlan, ctx: Context) -> Finding:
     logs = _log_axes(plan)
     if not logs:
-        return Finding(True, "linear", "The value axis is linear.", "linear")
+        return Finding(True, "linear", "The value axis is linear.", "linear", applicable=False)
     if _length_on_log(plan):
         return Finding(
             False,
