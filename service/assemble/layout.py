@@ -51,7 +51,33 @@ def styles() -> dict[str, ParagraphStyle]:
         "title": ParagraphStyle(
             "title", parent=base, fontName=fonts.BOLD, fontSize=24, leading=29, spaceAfter=10
         ),
-        "cover_meta": ParagraphStyle("cover_meta", parent=base, fontSize=11, leading=16),
+        "cover_meta": ParagraphStyle("cover_meta", parent=base, fontSize=10.5, leading=14),
+        "cover_label": ParagraphStyle(
+            "cover_label", parent=base, fontSize=10.5, leading=14, textColor=MUTED
+        ),
+        "cover_status": ParagraphStyle(
+            "cover_status",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=10.5,
+            leading=14,
+            textColor=DRAFT,
+        ),
+        "toc_major": ParagraphStyle(
+            "toc_major", parent=base, fontName=fonts.BOLD, fontSize=9, leading=12, spaceAfter=0
+        ),
+        "toc_minor": ParagraphStyle(
+            "toc_minor", parent=base, fontSize=8, leading=10.5, leftIndent=12, spaceAfter=0
+        ),
+        "grid_head": ParagraphStyle(
+            "grid_head",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=8.5,
+            leading=11,
+            spaceBefore=4,
+            spaceAfter=3,
+        ),
         "status": ParagraphStyle(
             "status",
             parent=base,

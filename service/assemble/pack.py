@@ -9,11 +9,12 @@ from __future__ import annotations
 
 import io
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any
 from xml.sax.saxutils import escape
 
 from reportlab import rl_config
+from reportlab.lib.styles import ParagraphStyle
 from reportlab.lib.units import inch
 from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas
@@ -28,22 +29,19 @@ from reportlab.platypus import (
     PageTemplate,
     Paragraph,
     Spacer,
+    Table,
     TableStyle,
 )
 
 from service import __version__
 from service.assemble import fonts, layout
+from service.assemble.appendix import Appendix, ChartChecks
+from service.assemble.figures import Headline
 from service.wording import say
 
 rl_config.invariant = 1  # fixed dates and ids: the same input gives the same bytes
 rl_config.trustedSchemes = []  # no markup may fetch a URL (user text is escaped anyway)
 rl_config.trustedHosts = []
-
-CAUTION = (
-    "These checks support, but do not replace, the report owner's judgement, the reporting "
-    "standards that apply to this pack, and professional review. A check that passed shows "
-    "that one rule was met, not that the figures are right."
-)
 
 
 @dataclass(frozen=True)
@@ -75,16 +73,6 @@ class SectionBlock:
 
 
 @dataclass(frozen=True)
-class AppendixRow:
-    chart: str
-    check: str
-    status: str
-    measured: str
-    threshold: str
-    explanation: str
-
-
-@dataclass(frozen=True)
 class PackContent:
     title: str
     period: str
@@ -94,11 +82,11 @@ class PackContent:
     status_line: str
     summary_line: str
     sections: list[SectionBlock]
-    appendix: list[AppendixRow]
-    sources: list[tuple[str, str]]
+    appendix: Appendix
     fingerprint: str
     report_id: str
     locale: str = "en-GB"
+    figures: list[Headline] = field(default_factory=list)
 
 
 @dataclass(frozen=True)
@@ -199,14 +187,62 @@ def _numbered(content: PackContent) -> type[canvas.Canvas]:
     return NumberedCanvas
 
 
+@dataclass(frozen=True)
+class Pages:
+    """Where things landed in the previous pass (1-based page numbers): each chart by id, and each
+    marked heading by its key (``section:<n>``, ``appendix``, ``appendix:<part>``)."""
+
+    charts: dict[str, int] = field(default_factory=dict)
+    marks: dict[str, int] = field(default_factory=dict)
+
+    def chart(self, chart_id: str) -> str:
+        return str(self.charts.get(chart_id, "–"))
+
+    def mark(self, key: str) -> str:
+        return str(self.marks.get(key, "–"))
+
+
+class Heading(Paragraph):  # type: ignore[misc]
+    """A heading that records the page it is drawn on under ``key``."""
+
+    def __init__(self, text: str, style: Any, key: str, marks: dict[str, int]) -> None:
+        super().__init__(text, style)
+        self._key, self._marks = key, marks
+
+    def draw(self) -> None:
+        self._marks[self._key] = self.canv.getPageNumber()
+        super().draw()
+
+
+PASSES = 4
+"""Layout passes at most: the first learns the pages the contents and the appendix refer to; a
+further pass runs only while a page number printed on the page moved something."""
+
+
 def build(content: PackContent) -> tuple[bytes, list[Slot]]:
-    """Lay the pack out; return its PDF bytes and where each chart slot landed."""
+    """Lay the pack out; return its PDF bytes and where each chart slot landed.
+
+    The cover's contents and the appendix name pages, which are known only once the pack is laid
+    out, so it is laid out again with the pages of the pass before until they stop changing (the
+    cover and the appendix keep their height whatever the numbers, so this takes two passes)."""
+    pages = Pages()
+    for _ in range(PASSES):
+        pdf, found, marks = _build_once(content, pages)
+        landed = Pages({slot.chart_id: slot.page + 1 for slot in found}, marks)
+        if landed == pages:
+            break
+        pages = landed
+    return pdf, found
+
+
+def _build_once(content: PackContent, pages: Pages) -> tuple[bytes, list[Slot], dict[str, int]]:
     s = layout.styles()
     found: list[Slot] = []
-    story: list[Flowable] = [*_cover(content, s), PageBreak()]
-    for section in content.sections:
-        story.extend(_section(section, s, found))
-    story.extend([PageBreak(), *_appendix(content, s)])
+    marks: dict[str, int] = {}
+    story: list[Flowable] = [*_cover(content, s, pages), PageBreak()]
+    for number, section in enumerate(content.sections):
+        story.extend(_section(number, section, s, found, marks, locale=content.locale))
+    story.extend([PageBreak(), *_appendix(content, s, pages, marks)])
     buffer = io.BytesIO()
     doc = BaseDocTemplate(
         buffer,
@@ -235,54 +271,209 @@ def build(content: PackContent) -> tuple[bytes, list[Slot]]:
     )
     doc.addPageTemplates([PageTemplate(id="page", frames=[frame])])
     doc.build(story, canvasmaker=_numbered(content))
-    return buffer.getvalue(), found
+    return buffer.getvalue(), found, marks
 
 
-def _cover(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
-    yield Spacer(1, 1.2 * inch)
+def _cover(content: PackContent, s: dict[str, Any], pages: Pages) -> Iterable[Flowable]:
+    locale = content.locale
+    yield Spacer(1, 0.15 * inch)
     yield Paragraph(_text(content.title), s["title"])
     meta = [
-        f"Reporting period: {_text(content.period)}",
-        f"Data as of: {_text(content.as_of)}",
-        f"Owner: {_text(content.owner)}",
+        (say("cover.period", locale), content.period),
+        (say("cover.as_of", locale), content.as_of),
+        (say("cover.owner", locale), content.owner),
     ]
     if content.audience:
-        meta.append(f"Audience: {_text(content.audience)}")
-    meta.append(f"Report id: {_text(content.report_id)}")
-    yield Paragraph("<br/>".join(meta), s["cover_meta"])
-    yield Paragraph(_text(content.status_line), s["status"])
-    yield Paragraph(
-        f"Integrity: {_text(content.summary_line)}. The appendix lists every check of every chart.",
-        s["body"],
+        meta.append((say("cover.audience", locale), content.audience))
+    meta.append((say("cover.report_id", locale), content.report_id))
+    meta.append((say("cover.review", locale), content.status_line))
+    yield _pairs(meta, s, status_row=len(meta) - 1)
+    yield Spacer(1, 10)
+    yield Paragraph(_text(say("cover.integrity", locale, counts=content.summary_line)), s["body"])
+    if content.figures:
+        yield Paragraph(_text(say("cover.figures", locale)), s["h2"])
+        yield _figures(content.figures, s, pages, locale)
+    yield Paragraph(_text(say("cover.contents", locale)), s["h2"])
+    yield _contents(content, s, pages)
+    yield Paragraph(_text(say("page.caution", locale)), s["caution"])
+
+
+def _pairs(rows: list[tuple[str, str]], s: dict[str, Any], status_row: int) -> Table:
+    cells = [
+        [Paragraph(_text(k), s["cover_label"]), Paragraph(_text(v), s["cover_meta"])]
+        for k, v in rows
+    ]
+    cells[status_row][1] = Paragraph(_text(rows[status_row][1]), s["cover_status"])
+    table = Table(cells, colWidths=[layout.FRAME_WIDTH * 0.24, layout.FRAME_WIDTH * 0.76])
+    table.hAlign = "LEFT"
+    table.setStyle(TableStyle(_PLAIN))
+    return table
+
+
+_PLAIN: list[tuple[Any, ...]] = [
+    ("VALIGN", (0, 0), (-1, -1), "TOP"),
+    ("LEFTPADDING", (0, 0), (-1, -1), 0),
+    ("RIGHTPADDING", (0, 0), (-1, -1), 6),
+    ("TOPPADDING", (0, 0), (-1, -1), 1),
+    ("BOTTOMPADDING", (0, 0), (-1, -1), 1),
+]
+
+
+def _figures(figures: list[Headline], s: dict[str, Any], pages: Pages, locale: str) -> Table:
+    head = [
+        say("appendix.chart", locale),
+        say("cover.figure", locale),
+        say("cover.latest", locale),
+        say("cover.change", locale),
+        say("cover.checks", locale),
+    ]
+    rows = [[Paragraph(_text(h), s["cell_head"]) for h in head]]
+    right = _right(s["cell"])
+    for f in figures:
+        status = ParagraphStyle(
+            f"status_{f.status}",
+            parent=s["cell"],
+            textColor=layout.STATUS_COLOURS.get(f.status, layout.INK),
+        )
+        rows.append(
+            [
+                Paragraph(_text(_on_page(f.chart, f.chart_id, pages, locale)), s["cell"]),
+                Paragraph(_text(f.figure), s["cell"]),
+                Paragraph(f"<b>{_text(f.value)}</b>", right),
+                Paragraph(_text(f.change), s["cell"]),
+                Paragraph(_text(f.checks), status),
+            ]
+        )
+    w = layout.FRAME_WIDTH
+    table = Table(rows, colWidths=[w * 0.27, w * 0.2, w * 0.14, w * 0.22, w * 0.17], repeatRows=1)
+    table.hAlign = "LEFT"
+    table.setStyle(TableStyle([*_RULED]))
+    return table
+
+
+def _on_page(title: str, chart_id: str, pages: Pages, locale: str) -> str:
+    return say("page.chart_on_page", locale, title=title, page=pages.chart(chart_id))
+
+
+_RULED: list[tuple[Any, ...]] = [
+    ("VALIGN", (0, 0), (-1, -1), "TOP"),
+    ("LINEBELOW", (0, 0), (-1, 0), 0.8, layout.INK),
+    ("LINEBELOW", (0, 1), (-1, -1), 0.3, layout.RULE),
+    ("TOPPADDING", (0, 0), (-1, -1), 2.5),
+    ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),
+    ("LEFTPADDING", (0, 0), (-1, -1), 3),
+    ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+]
+
+
+def _contents(content: PackContent, s: dict[str, Any], pages: Pages) -> Table:
+    """Each section and its charts, then the appendix's parts, with their pages."""
+    locale = content.locale
+    entries: list[tuple[str, str, bool]] = []
+    for number, section in enumerate(content.sections):
+        entries.append((section.heading, pages.mark(f"section:{number}"), True))
+        for block in section.blocks:
+            if isinstance(block, ChartBlock):
+                entries.append((block.title, pages.chart(block.chart_id), False))
+    entries.append((say("appendix.title", locale), pages.mark("appendix"), True))
+    for part in _APPENDIX_PARTS:
+        entries.append(
+            (say(f"appendix.{part}_title", locale), pages.mark(f"appendix:{part}"), False)
+        )
+    rows = [
+        [
+            Paragraph(_text(title), s["toc_major"] if major else s["toc_minor"]),
+            Paragraph(_text(page), _right(s["toc_major"] if major else s["toc_minor"])),
+        ]
+        for title, page, major in entries
+    ]
+    w = layout.FRAME_WIDTH
+    table = Table(rows, colWidths=[w - 40, 40])
+    table.hAlign = "LEFT"
+    table.setStyle(
+        TableStyle(
+            [
+                *_PLAIN,
+                ("TOPPADDING", (0, 0), (-1, -1), 0.5),
+                ("BOTTOMPADDING", (0, 0), (-1, -1), 0.5),
+                ("LINEBELOW", (0, 0), (-1, -1), 0.25, layout.RULE),
+            ]
+        )
     )
-    yield Paragraph(_text(CAUTION), s["caution"])
+    return table
 
 
-def _section(section: SectionBlock, s: dict[str, Any], found: list[Slot]) -> Iterable[Flowable]:
-    yield CondPageBreak(2.5 * inch)
-    yield Paragraph(_text(section.heading), s["h1"])
+_APPENDIX_PARTS = ("summary", "grid", "rules")
+
+
+def _section(
+    number: int,
+    section: SectionBlock,
+    s: dict[str, Any],
+    found: list[Slot],
+    marks: dict[str, int],
+    *,
+    locale: str,
+) -> Iterable[Flowable]:
+    """A section: its heading and narrative kept with its first chart (or a table's first rows),
+    so a heading is never left at a page foot with what it introduces overleaf."""
+    intro: list[Flowable] = [Heading(_text(section.heading), s["h1"], f"section:{number}", marks)]
     for paragraph in (section.narrative or "").split("\n\n"):
         if paragraph.strip():
-            yield Paragraph(_text(paragraph.strip()), s["body"])
-    for block in section.blocks:
+            intro.append(Paragraph(_text(paragraph.strip()), s["body"]))
+    blocks = list(section.blocks)
+    first = blocks[0] if blocks else None
+    if isinstance(first, ChartBlock):
+        yield KeepTogether([*intro, *_chart(first, s, found, locale)])
+        blocks = blocks[1:]
+    else:
+        yield CondPageBreak(_height(intro) + TABLE_START)
+        yield from intro
+    for block in blocks:
         if isinstance(block, ChartBlock):
-            parts: list[Flowable] = [Paragraph(_text(block.title), s["h2"])]
-            if block.subtitle:
-                parts.append(Paragraph(_text(block.subtitle), s["subtitle"]))
-            parts.append(ChartSlot(block.chart_id, block.width_pt, block.height_pt, found))
-            if block.source:
-                parts.append(Paragraph(f"Source: {_text(block.source)}", s["muted"]))
-            if block.note:
-                parts.append(Paragraph(_text(block.note), s["muted"]))
-            if block.description:
-                parts.append(
-                    Paragraph(f"<i>Text alternative:</i> {_text(block.description)}", s["small"])
-                )
-            parts.append(Paragraph(_text(block.check_line), s["muted"]))
-            yield KeepTogether(parts)
+            yield KeepTogether(_chart(block, s, found, locale))
         else:
+            yield CondPageBreak(TABLE_START)
             yield from _table(block, s)
     yield Spacer(1, 10)
+
+
+TABLE_START = 90.0
+"""Room a table's title, header and first rows need at a page foot, in points; less, and the table
+starts on the next page."""
+
+
+def _height(flowables: list[Flowable]) -> float:
+    total = 0.0
+    for f in flowables:
+        total += (
+            f.wrap(layout.FRAME_WIDTH, layout.PAGE[1])[1] + f.getSpaceBefore() + f.getSpaceAfter()
+        )
+    return total
+
+
+def _chart(block: ChartBlock, s: dict[str, Any], found: list[Slot], locale: str) -> list[Flowable]:
+    """A chart's parts: its title and subtitle, kept with the chart itself (never split from it),
+    then its source, note, text alternative and check line. The caller keeps them together where
+    the page allows (one flat list: reportlab cannot keep a kept group within another)."""
+    head: list[Flowable] = [Paragraph(_text(block.title), s["h2"])]
+    if block.subtitle:
+        head.append(Paragraph(_text(block.subtitle), s["subtitle"]))
+    for paragraph in head:
+        paragraph.keepWithNext = 1
+    parts: list[Flowable] = [
+        *head,
+        ChartSlot(block.chart_id, block.width_pt, block.height_pt, found),
+    ]
+    if block.source:
+        parts.append(Paragraph(_text(say("page.source", locale, source=block.source)), s["muted"]))
+    if block.note:
+        parts.append(Paragraph(_text(block.note), s["muted"]))
+    if block.description:
+        label = _text(say("page.text_alternative", locale))
+        parts.append(Paragraph(f"<i>{label}</i> {_text(block.description)}", s["small"]))
+    parts.append(Paragraph(_text(block.check_line), s["muted"]))
+    return parts
 
 
 def _grid(
@@ -354,36 +545,134 @@ def _widths(block: TableBlock) -> list[float]:
     return [w * scale for w in natural]
 
 
-def _appendix(content: PackContent, s: dict[str, Any]) -> Iterable[Flowable]:
-    yield Paragraph("Integrity checks", s["h1"])
-    yield Paragraph(
-        f"{_text(content.summary_line)}. Every check of every chart is listed below with what it "
-        "measured and the threshold it applies. <b>corrected</b>: the definition asked for "
-        "something that breaks the rule, and the honest form was drawn instead. <b>waived</b>: "
-        "the breach was accepted, with the reason and by whom. <b>failed</b>: the rule is broken "
-        "and the pack cannot be signed off until it is fixed or waived.",
-        s["body"],
+def _appendix(
+    content: PackContent, s: dict[str, Any], pages: Pages, marks: dict[str, int]
+) -> Iterable[Flowable]:
+    locale = content.locale
+    appendix = content.appendix
+    yield Heading(_text(say("appendix.title", locale)), s["h1"], "appendix", marks)
+    yield Paragraph(_text(say("appendix.intro", locale, counts=content.summary_line)), s["body"])
+    yield Paragraph(_text(say("appendix.meanings", locale)), s["small"])
+    yield Paragraph(_text(say("page.caution", locale)), s["caution"])
+
+    title = Heading(
+        _text(say("appendix.summary_title", locale)), s["h2"], "appendix:summary", marks
     )
-    yield Paragraph(_text(CAUTION), s["caution"])
-    header = ["Chart", "Check", "Status", "Measured", "Threshold", "Explanation"]
-    rows = [
-        [r.chart, r.check, r.status, r.measured, r.threshold, r.explanation]
-        for r in content.appendix
+    if not appendix.attention:
+        yield KeepTogether(
+            [title, Paragraph(_text(say("appendix.summary_none", locale)), s["body"])]
+        )
+    else:
+        yield CondPageBreak(TABLE_START)
+        yield title
+        yield _attention(appendix, s, pages, locale)
+
+    grid: list[Flowable] = [
+        Heading(_text(say("appendix.grid_title", locale)), s["h2"], "appendix:grid", marks),
+        Paragraph(_text(say("appendix.grid_intro", locale)), s["small"]),
     ]
-    colours = {
-        i + 1: layout.STATUS_COLOURS.get(r.status, layout.INK)
-        for i, r in enumerate(content.appendix)
-    }
-    w = layout.FRAME_WIDTH
-    widths = [w * 0.16, w * 0.17, w * 0.09, w * 0.11, w * 0.14, w * 0.33]
-    yield _grid([header, *rows], widths, s, colours=colours)
-    yield Spacer(1, 12)
-    yield Paragraph("Sources of the rules", s["h2"])
-    for check, source in content.sources:
-        yield Paragraph(f"<b>{_text(check)}</b>: {_text(source)}", s["small"])
+    for chart in appendix.charts:  # the part's heading is kept with the first chart's grid
+        yield KeepTogether([*grid, *_passed(chart, s, pages, locale)])
+        grid = []
+
+    yield CondPageBreak(TABLE_START)
+    yield Heading(_text(say("appendix.rules_title", locale)), s["h2"], "appendix:rules", marks)
+    yield Paragraph(_text(say("appendix.rules_intro", locale)), s["small"])
+    yield _rules(appendix, s, locale)
     yield Spacer(1, 10)
     yield Paragraph(
-        f"Definition fingerprint (SHA-256 of the definition as received): "
-        f"{_text(content.fingerprint)}",
-        s["small"],
+        _text(say("appendix.fingerprint", locale, fingerprint=content.fingerprint)), s["small"]
     )
+
+
+def _id_width(ids: Iterable[str], font: str = fonts.REGULAR, size: float = 7.5) -> float:
+    """A column wide enough for the longest check id on one line (ids never break)."""
+    return max((stringWidth(i, font, size) for i in ids), default=40.0) + 8
+
+
+def _attention(appendix: Appendix, s: dict[str, Any], pages: Pages, locale: str) -> LongTable:
+    head = [
+        say("appendix.chart", locale),
+        say("appendix.check", locale),
+        say("appendix.status", locale),
+        say("appendix.measured", locale),
+        say("appendix.done", locale),
+        say("appendix.why", locale),
+    ]
+    rows = [
+        [
+            _on_page(a.chart_title, a.chart_id, pages, locale),
+            a.check,
+            a.status_text,
+            a.measured,
+            a.done,
+            a.why,
+        ]
+        for a in appendix.attention
+    ]
+    colours = {
+        i + 1: layout.STATUS_COLOURS.get(a.status, layout.INK)
+        for i, a in enumerate(appendix.attention)
+    }
+    w = layout.FRAME_WIDTH
+    check = _id_width(a.check for a in appendix.attention)
+    status = _id_width([r[2] for r in rows] + [head[2]])
+    rest = w - check - status
+    widths = [rest * 0.2, check, status, rest * 0.16, rest * 0.28, rest * 0.36]
+    return _grid([head, *rows], widths, s, colours=colours)
+
+
+GRID_COLUMNS = 3
+
+
+def _passed(chart: ChartChecks, s: dict[str, Any], pages: Pages, locale: str) -> list[Flowable]:
+    """One chart's passed checks, three to a row: the id, and under it what was measured."""
+    line = say(
+        "appendix.chart_line",
+        locale,
+        title=chart.title,
+        page=pages.chart(chart.chart_id),
+        counts=chart.counts,
+    )
+    parts: list[Flowable] = [Paragraph(_text(line), s["grid_head"])]
+    cells = [
+        Paragraph(f"<b>{_text(check)}</b><br/>{_text(measured)}", s["cell"])
+        for check, measured in chart.passed
+    ]
+    if cells:
+        while len(cells) % GRID_COLUMNS:
+            cells.append(Paragraph("", s["cell"]))
+        rows = [cells[i : i + GRID_COLUMNS] for i in range(0, len(cells), GRID_COLUMNS)]
+        width = layout.FRAME_WIDTH / GRID_COLUMNS
+        table = Table(rows, colWidths=[width] * GRID_COLUMNS)
+        table.hAlign = "LEFT"
+        table.setStyle(
+            TableStyle(
+                [
+                    *_RULED[0:1],
+                    ("INNERGRID", (0, 0), (-1, -1), 0.3, layout.RULE),
+                    ("BOX", (0, 0), (-1, -1), 0.3, layout.RULE),
+                    *_RULED[3:],
+                ]
+            )
+        )
+        parts.append(table)
+    if chart.not_applicable:
+        text = say("appendix.not_applicable_line", locale, checks=", ".join(chart.not_applicable))
+        parts.append(Paragraph(_text(text), s["muted"]))
+    parts.append(Spacer(1, 6))
+    return parts
+
+
+def _rules(appendix: Appendix, s: dict[str, Any], locale: str) -> LongTable:
+    head = [
+        say("appendix.check", locale),
+        say("appendix.rule", locale),
+        say("appendix.threshold", locale),
+        say("appendix.source", locale),
+    ]
+    rows = [[r.check, r.title, r.threshold, r.source] for r in appendix.rules]
+    w = layout.FRAME_WIDTH
+    check = _id_width(r.check for r in appendix.rules)
+    rest = w - check
+    return _grid([head, *rows], [check, rest * 0.26, rest * 0.34, rest * 0.4], s)

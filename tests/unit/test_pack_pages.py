@@ -7,7 +7,15 @@ import io
 from collections.abc import Iterator
 
 import pytest
-from factories import make_definition, make_monthly, make_trend_chart, run_checks
+from factories import (
+    make_category_dataset,
+    make_compare_chart,
+    make_definition,
+    make_monthly,
+    make_report,
+    make_trend_chart,
+    run_checks,
+)
 from pdfminer.high_level import extract_pages
 from pdfminer.layout import LTPage, LTTextContainer, LTTextLine
 
@@ -53,3 +61,157 @@ def test_the_sealed_footer_never_runs_into_the_page_number(sealed_pdf: bytes) ->
             assert line.x1 + 6 <= number[0].x0, (line.get_text(), number[0].get_text())
         text = " ".join(line.get_text().strip() for line in foot)
         assert "DEVELOPMENT key" in text  # the caveat is never cut off
+
+
+def _text(page: LTPage) -> str:
+    return "\n".join(line.get_text().rstrip("\n") for line in _lines(page))
+
+
+def _body(page: LTPage) -> list[LTTextLine]:
+    """The page's lines above the footer, top to bottom."""
+    body = [line for line in _lines(page) if line.y0 > layout.MARGIN]
+    return sorted(body, key=lambda line: -line.y1)
+
+
+def _pack_definition(locale: str = "en-GB") -> dict[str, object]:
+    """Three sections: a trend with a key figure, a long narrative whose heading could be stranded,
+    and bars asked to start at 85 (corrected to zero)."""
+    ridership = make_monthly(MONTHS, [float(50_000 + 700 * n) for n in range(10)])
+    routes = make_category_dataset({"A": 91.0, "B": 88.5, "C": 95.2})
+    narrative = "\n\n".join(["The months after the timetable change are steadier. " * 8] * 4)
+    sections = [
+        {
+            "heading": "Ridership",
+            "narrative": "Boardings rose all year.",
+            "charts": [make_trend_chart(key_figure="boardings")],
+        },
+        {
+            "heading": "Ridership again",
+            "narrative": narrative,
+            "charts": [make_trend_chart(id="second", title="Boardings once more")],
+        },
+        {
+            "heading": "Punctuality",
+            "charts": [make_compare_chart(baseline=85)],
+        },
+    ]
+    report = make_report(locale=locale)
+    return make_definition(datasets=[ridership, routes], report=report, sections=sections)
+
+
+@pytest.fixture(scope="module")
+def pack_pages() -> list[LTPage]:
+    return _pages(_render(_pack_definition()))
+
+
+def _page_of(pages: list[LTPage], text: str, start: int = 1) -> int:
+    """The 1-based number of the first page from ``start`` whose body has a line ``text``."""
+    for number, page in enumerate(pages[start - 1 :], start=start):
+        if any(line.get_text().strip() == text for line in _body(page)):
+            return number
+    raise AssertionError(f"{text!r} is on no page")
+
+
+def test_the_cover_writes_the_as_of_time_for_people(pack_pages: list[LTPage]) -> None:
+    cover = _text(pack_pages[0])
+    assert "9 November 2026, 07:30 UTC" in cover
+    assert "2026-11-09T07:30" not in cover
+
+
+def _rows(page: LTPage) -> list[str]:
+    """The page's text lines, joining boxes that share a baseline (a table row), top to bottom."""
+    rows: dict[int, list[LTTextLine]] = {}
+    for line in _lines(page):
+        rows.setdefault(round(line.y0), []).append(line)
+    return [
+        " ".join(line.get_text().strip() for line in sorted(rows[y], key=lambda line: line.x0))
+        for y in sorted(rows, reverse=True)
+    ]
+
+
+def test_the_cover_lists_the_contents_with_their_pages(pack_pages: list[LTPage]) -> None:
+    rows = _rows(pack_pages[0])
+    assert "Contents" in rows
+    for heading in ("Ridership", "Ridership again", "Punctuality", "Integrity checks"):
+        page = _page_of(pack_pages, heading, start=2)
+        assert f"{heading} {page}" in rows, (heading, page, rows)
+    chart = _page_of(pack_pages, "Departures on time by route", start=2)
+    assert f"Departures on time by route {chart}" in rows
+
+
+def test_the_cover_lists_each_charts_key_figure(pack_pages: list[LTPage]) -> None:
+    cover = _text(pack_pages[0])
+    assert "Headline figures" in cover
+    assert "56,300" in cover  # October's boardings, the latest value
+    assert "+700" in cover  # the change from September
+    assert "Oct 2026" in cover
+
+
+def test_a_heading_is_never_left_at_a_page_foot_without_what_follows(
+    pack_pages: list[LTPage],
+) -> None:
+    """The long narrative of "Ridership again" does not fit under the first chart: the heading,
+    the narrative and the chart move overleaf together."""
+    headings = {"Ridership", "Ridership again", "Punctuality", "Boardings once more"}
+    for number, page in enumerate(pack_pages[1:], start=2):
+        body = _body(page)
+        if body:
+            assert body[-1].get_text().strip() not in headings, number
+    assert _page_of(pack_pages, "Ridership again", 2) == _page_of(
+        pack_pages, "Boardings once more", 2
+    )
+
+
+def test_the_appendix_summary_lists_what_is_not_a_plain_pass_first(
+    pack_pages: list[LTPage],
+) -> None:
+    start = _page_of(pack_pages, "Integrity checks", start=2)
+    appendix = "\n".join(_text(p) for p in pack_pages[start - 1 :])
+    summary = appendix.index("Checks that need a reviewer's attention")
+    grid = appendix.index("Passed checks by chart")
+    rules = appendix.index("Rules")
+    assert summary < grid < rules
+    attention = appendix[summary:grid]
+    assert "bar-zero-baseline" in attention
+    assert "corrected" in attention
+    assert "Departures on" in attention  # the chart's title, not its id
+    assert "no-dual-axis" not in attention
+
+
+def test_checks_that_cannot_fail_are_not_counted_as_passes(pack_pages: list[LTPage]) -> None:
+    start = _page_of(pack_pages, "Integrity checks", start=2)
+    appendix = "\n".join(_text(p) for p in pack_pages[start - 1 :])
+    assert "not applicable" in appendix
+    _, checked = pipeline.render(run_checks(_pack_definition()))  # with the checks of the drawing
+    inapplicable = [r for r in checked.results if r.status.value == "not_applicable"]
+    assert inapplicable
+    passed = sum(r.status.value == "passed" for r in checked.results)
+    applicable = len(checked.results) - len(inapplicable)
+    cover = " ".join(_rows(pack_pages[0]))
+    assert f"{applicable} checks: {passed} passed" in cover
+    assert f"{len(inapplicable)} not applicable" in cover
+
+
+def test_ids_never_break_and_thresholds_are_written_once(pack_pages: list[LTPage]) -> None:
+    start = _page_of(pack_pages, "Integrity checks", start=2)
+    lines = [line.get_text().strip() for p in pack_pages[start - 1 :] for line in _lines(p)]
+    checked = run_checks(_pack_definition())
+    ids = {r.check for r in checked.results}
+    for check in ids:
+        fragments = [
+            line
+            for line in lines
+            if line and line != check and check.startswith(line) and "-" in line
+        ]
+        assert fragments == [], (check, fragments)
+    threshold = next(r.threshold for r in checked.results if r.check == "missing-periods")
+    text = "\n".join(lines)
+    assert text.count(threshold.split(" ")[0] + " " + threshold.split(" ")[1]) <= 2
+
+
+def test_german_pack_speaks_german() -> None:
+    pages = _pages(_render(_pack_definition(locale="de-DE")))
+    cover = _text(pages[0])
+    assert "9. November 2026, 07:30 UTC" in cover
+    assert "Inhalt" in cover
+    assert "Seite 1 von" in cover
