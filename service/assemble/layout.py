@@ -25,6 +25,7 @@ STATUS_COLOURS = {
     "corrected": colors.HexColor("#805a00"),
     "waived": colors.HexColor("#5a4a8a"),
     "failed": DRAFT,
+    "advice": colors.HexColor("#1f5f8b"),
 }
 
 
@@ -62,6 +63,14 @@ def styles() -> dict[str, ParagraphStyle]:
             fontSize=10.5,
             leading=14,
             textColor=DRAFT,
+        ),
+        "cover_signed": ParagraphStyle(
+            "cover_signed",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=10.5,
+            leading=14,
+            textColor=STATUS_COLOURS["passed"],
         ),
         "toc_major": ParagraphStyle(
             "toc_major", parent=base, fontName=fonts.BOLD, fontSize=9, leading=12, spaceAfter=0

@@ -303,11 +303,18 @@ def _pairs(rows: list[tuple[str, str]], s: dict[str, Any], status_row: int) -> T
         [Paragraph(_text(k), s["cover_label"]), Paragraph(_text(v), s["cover_meta"])]
         for k, v in rows
     ]
-    cells[status_row][1] = Paragraph(_text(rows[status_row][1]), s["cover_status"])
+    status = rows[status_row][1]
+    style = s["cover_status"] if _draft(status) else s["cover_signed"]
+    cells[status_row][1] = Paragraph(_text(status), style)
     table = Table(cells, colWidths=[layout.FRAME_WIDTH * 0.24, layout.FRAME_WIDTH * 0.76])
     table.hAlign = "LEFT"
     table.setStyle(TableStyle(_PLAIN))
     return table
+
+
+def _draft(status: str) -> bool:
+    """A draft's status line (red on the cover); a signed-off pack's is printed calmly."""
+    return "DRAFT" in status
 
 
 _PLAIN: list[tuple[Any, ...]] = [
@@ -585,9 +592,26 @@ def _appendix(
     )
 
 
-def _id_width(ids: Iterable[str], font: str = fonts.REGULAR, size: float = 7.5) -> float:
-    """A column wide enough for the longest check id on one line (ids never break)."""
-    return max((stringWidth(i, font, size) for i in ids), default=40.0) + 8
+def _fitted(rows: Sequence[Sequence[str]], shares: Sequence[float]) -> list[float]:
+    """Column widths for a grid: each column at least as wide as its longest word (so no word is
+    broken, ids included), the rest of the frame shared out in proportion to ``shares``."""
+    least = [
+        max(
+            (
+                stringWidth(word, fonts.BOLD if r == 0 else fonts.REGULAR, 7.5)
+                for r, row in enumerate(rows)
+                for word in row[c].split()
+            ),
+            default=0.0,
+        )
+        + 8
+        for c in range(len(shares))
+    ]
+    spare = layout.FRAME_WIDTH - sum(least)
+    if spare <= 0:  # too many long words to keep whole: shrink every column alike
+        return [w * layout.FRAME_WIDTH / sum(least) for w in least]
+    total = sum(shares)
+    return [w + spare * share / total for w, share in zip(least, shares, strict=True)]
 
 
 def _attention(appendix: Appendix, s: dict[str, Any], pages: Pages, locale: str) -> LongTable:
@@ -614,11 +638,7 @@ def _attention(appendix: Appendix, s: dict[str, Any], pages: Pages, locale: str)
         i + 1: layout.STATUS_COLOURS.get(a.status, layout.INK)
         for i, a in enumerate(appendix.attention)
     }
-    w = layout.FRAME_WIDTH
-    check = _id_width(a.check for a in appendix.attention)
-    status = _id_width([r[2] for r in rows] + [head[2]])
-    rest = w - check - status
-    widths = [rest * 0.2, check, status, rest * 0.16, rest * 0.28, rest * 0.36]
+    widths = _fitted([head, *rows], [0.14, 0, 0, 0.1, 0.3, 0.46])
     return _grid([head, *rows], widths, s, colours=colours)
 
 
@@ -672,7 +692,4 @@ def _rules(appendix: Appendix, s: dict[str, Any], locale: str) -> LongTable:
         say("appendix.source", locale),
     ]
     rows = [[r.check, r.title, r.threshold, r.source] for r in appendix.rules]
-    w = layout.FRAME_WIDTH
-    check = _id_width(r.check for r in appendix.rules)
-    rest = w - check
-    return _grid([head, *rows], [check, rest * 0.26, rest * 0.34, rest * 0.4], s)
+    return _grid([head, *rows], _fitted([head, *rows], [0, 0.26, 0.34, 0.4]), s)
