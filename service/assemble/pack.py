@@ -105,6 +105,11 @@ class ChartSlot(Flowable):  # type: ignore[misc]
     def __init__(self, chart_id: str, width: float, height: float, found: list[Slot]) -> None:
         super().__init__()
         self.chart_id, self.width, self.height, self._found = chart_id, width, height, found
+        self.natural = (width, height)
+
+    def scale(self, factor: float) -> None:
+        """Draw the chart at ``factor`` of its drawn size (its proportions kept)."""
+        self.width, self.height = self.natural[0] * factor, self.natural[1] * factor
 
     def wrap(self, avail_width: float, avail_height: float) -> tuple[float, float]:
         return self.width, self.height
@@ -113,6 +118,83 @@ class ChartSlot(Flowable):  # type: ignore[misc]
         x, y = self.canv.absolutePosition(0, 0)
         page = self.canv.getPageNumber() - 1
         self._found.append(Slot(self.chart_id, page, x, y, self.width, self.height))
+
+
+FIT_SCALE = 0.85
+"""A chart may be drawn down to this share of its size to fit the rest of a page."""
+FLOOR_SCALE = 0.7
+"""A chart block taller than a whole page draws its chart down to this share of its size."""
+FRAME_HEIGHT = layout.PAGE[1] - 2 * layout.MARGIN
+
+
+class ChartBox(Flowable):  # type: ignore[misc]
+    """A chart's block as one piece: the section's heading and narrative when the chart is the
+    section's first, the chart's title and subtitle, the chart, then its source, note, text
+    alternative and check line.
+
+    The block moves overleaf whole rather than split. To fill pages (two charts to a page where
+    they fit) it draws its chart smaller, down to :data:`FIT_SCALE`, when that makes it fit what is
+    left of a page. A block taller than a whole page draws its chart as large as the page allows
+    (down to :data:`FLOOR_SCALE`); if it is still too tall, the heading and narrative stay on the
+    page and the chart with its title starts the next, and the lines after the chart follow it.
+    A chart is never split from its title.
+    """
+
+    def __init__(
+        self, lead: list[Flowable], head: list[Flowable], slot: ChartSlot, tail: list[Flowable]
+    ) -> None:
+        super().__init__()
+        self._lead, self._head, self._slot, self._tail = lead, head, slot, tail
+        parts = self._parts()
+        self.spaceBefore = parts[0].getSpaceBefore()
+        self.spaceAfter = parts[-1].getSpaceAfter()
+
+    def _parts(self) -> list[Flowable]:
+        return [*self._lead, *self._head, self._slot, *self._tail]
+
+    def _text_height(self, width: float) -> float:
+        parts = self._parts()
+        total = 0.0
+        for i, part in enumerate(parts):
+            if part is not self._slot:
+                total += part.wrap(width, FRAME_HEIGHT)[1]
+            if i:
+                total += part.getSpaceBefore()
+            if i < len(parts) - 1:
+                total += part.getSpaceAfter()
+        return total
+
+    def wrap(self, avail_width: float, avail_height: float) -> tuple[float, float]:
+        text = self._text_height(avail_width)
+        chart = self._slot.natural[1]
+        room = avail_height - text
+        scale = 1.0
+        if text + chart > avail_height:
+            if room >= chart * FIT_SCALE:
+                scale = room / chart
+            elif avail_height >= FRAME_HEIGHT - 1:  # a whole page is too small at full size
+                scale = max(room / chart, FLOOR_SCALE)
+        self._slot.scale(scale)
+        self.width, self.height = avail_width, text + chart * scale
+        return self.width, self.height
+
+    def split(self, avail_width: float, avail_height: float) -> list[Flowable]:
+        if avail_height < FRAME_HEIGHT - 1:
+            return []  # not at the top of a page: the whole block moves overleaf
+        if self._lead:
+            return [*self._lead, ChartBox([], self._head, self._slot, self._tail)]
+        return [ChartBox([], self._head, self._slot, []), *self._tail]
+
+    def draw(self) -> None:
+        parts = self._parts()
+        y = self.height
+        for i, part in enumerate(parts):
+            height = part.wrap(self.width, FRAME_HEIGHT)[1]
+            if i:
+                y -= part.getSpaceBefore()
+            y -= height
+            part.drawOn(self.canv, 0, y)
+            y -= part.getSpaceAfter()
 
 
 def _text(value: str) -> str:
@@ -431,14 +513,14 @@ def _section(
     blocks = list(section.blocks)
     first = blocks[0] if blocks else None
     if isinstance(first, ChartBlock):
-        yield KeepTogether([*intro, *_chart(first, s, found, locale)])
+        yield _chart(first, s, found, locale, lead=intro)
         blocks = blocks[1:]
     else:
         yield CondPageBreak(_height(intro) + TABLE_START)
         yield from intro
     for block in blocks:
         if isinstance(block, ChartBlock):
-            yield KeepTogether(_chart(block, s, found, locale))
+            yield _chart(block, s, found, locale)
         else:
             yield CondPageBreak(TABLE_START)
             yield from _table(block, s)
@@ -459,28 +541,29 @@ def _height(flowables: list[Flowable]) -> float:
     return total
 
 
-def _chart(block: ChartBlock, s: dict[str, Any], found: list[Slot], locale: str) -> list[Flowable]:
-    """A chart's parts: its title and subtitle, kept with the chart itself (never split from it),
-    then its source, note, text alternative and check line. The caller keeps them together where
-    the page allows (one flat list: reportlab cannot keep a kept group within another)."""
+def _chart(
+    block: ChartBlock,
+    s: dict[str, Any],
+    found: list[Slot],
+    locale: str,
+    lead: list[Flowable] | None = None,
+) -> ChartBox:
+    """A chart's block (see :class:`ChartBox`), after ``lead`` (a section's heading and
+    narrative) when it is the section's first."""
     head: list[Flowable] = [Paragraph(_text(block.title), s["h2"])]
     if block.subtitle:
         head.append(Paragraph(_text(block.subtitle), s["subtitle"]))
-    for paragraph in head:
-        paragraph.keepWithNext = 1
-    parts: list[Flowable] = [
-        *head,
-        ChartSlot(block.chart_id, block.width_pt, block.height_pt, found),
-    ]
+    slot = ChartSlot(block.chart_id, block.width_pt, block.height_pt, found)
+    tail: list[Flowable] = []
     if block.source:
-        parts.append(Paragraph(_text(say("page.source", locale, source=block.source)), s["muted"]))
+        tail.append(Paragraph(_text(say("page.source", locale, source=block.source)), s["muted"]))
     if block.note:
-        parts.append(Paragraph(_text(block.note), s["muted"]))
+        tail.append(Paragraph(_text(block.note), s["muted"]))
     if block.description:
         label = _text(say("page.text_alternative", locale))
-        parts.append(Paragraph(f"<i>{label}</i> {_text(block.description)}", s["small"]))
-    parts.append(Paragraph(_text(block.check_line), s["muted"]))
-    return parts
+        tail.append(Paragraph(f"<i>{label}</i> {_text(block.description)}", s["small"]))
+    tail.append(Paragraph(_text(block.check_line), s["muted"]))
+    return ChartBox(lead or [], head, slot, tail)
 
 
 def _grid(

@@ -9,6 +9,7 @@ from collections.abc import Iterator
 import pytest
 from factories import (
     make_category_dataset,
+    make_column,
     make_compare_chart,
     make_definition,
     make_monthly,
@@ -215,3 +216,57 @@ def test_german_pack_speaks_german() -> None:
     assert "9. November 2026, 07:30 UTC" in cover
     assert "Inhalt" in cover
     assert "Seite 1 von" in cover
+
+
+def _six_depots() -> dict[str, object]:
+    """A six-series chart (drawn as six panels, taller than what is left of any page) between
+    sections of bars: today's layout left the page before it 90 % blank."""
+    names = ["north", "south", "east", "west", "centre", "airport"]
+    rows = [
+        {"month": m, **{n: 1000 + 37 * i + 91 * j for j, n in enumerate(names)}}
+        for i, m in enumerate(MONTHS)
+    ]
+    depots = {
+        "name": "depots",
+        "columns": [make_column("month", "date")]
+        + [make_column(n, "integer", "journeys") for n in names],
+        "time_column": "month",
+        "frequency": "month",
+        "rows": rows,
+    }
+    routes = make_category_dataset({"A": 91.0, "B": 88.5, "C": 95.2, "D": 90.1})
+    trend = {
+        "id": "depots",
+        "intent": "trend",
+        "title": "Journeys by depot",
+        "dataset": "depots",
+        "measures": names,
+    }
+    sections = [
+        {
+            "heading": "Punctuality",
+            "narrative": "Routes kept time. " * 30,
+            "charts": [make_compare_chart(), make_compare_chart(id="again", title="Again")],
+        },
+        {"heading": "Depots", "narrative": "Six depots. " * 20, "charts": [trend]},
+        {"heading": "After", "charts": [make_compare_chart(id="after", title="After")]},
+    ]
+    return make_definition(datasets=[depots, routes], sections=sections)
+
+
+def _fill(page: LTPage) -> float:
+    """The share of the body frame above the lowest text or chart drawn on the page."""
+    top = page.height - layout.MARGIN
+    lows = [item.y0 for item in page if item.y0 > layout.MARGIN - 1]
+    return (top - min(lows)) / (top - layout.MARGIN) if lows else 0.0
+
+
+def test_pages_are_filled_and_a_tall_chart_stays_with_its_heading() -> None:
+    pages = _pages(_render(_six_depots()))
+    headings = {"Punctuality", "Depots", "After", "Integrity checks"}
+    starts = [bool(_body(p)) and _body(p)[0].get_text().strip() in headings for p in pages] + [True]
+    for number in range(2, len(pages)):
+        last_of_section = starts[number]  # the next page (index ``number``) starts a section
+        if not last_of_section:
+            assert _fill(pages[number - 1]) >= 0.25, number
+    assert _page_of(pages, "Depots", 2) == _page_of(pages, "Journeys by depot", 2)
