@@ -21,7 +21,7 @@ from pdfminer.high_level import extract_pages
 from pdfminer.layout import LTPage, LTTextContainer, LTTextLine
 
 from service import pipeline
-from service.assemble import layout
+from service.assemble import figures, layout
 
 SEALED = (
     "Signed off by Demo Approver on 2026-12-03 13:12 UTC · signed with a DEVELOPMENT key, "
@@ -270,3 +270,20 @@ def test_pages_are_filled_and_a_tall_chart_stays_with_its_heading() -> None:
         if not last_of_section:
             assert _fill(pages[number - 1]) >= 0.25, number
     assert _page_of(pages, "Depots", 2) == _page_of(pages, "Journeys by depot", 2)
+
+
+def test_a_headline_figure_of_a_percentage_changes_in_percentage_points() -> None:
+    dataset = make_monthly(MONTHS, [float(90 + n % 3) for n in range(10)])
+    dataset["columns"][1]["unit"] = "%"
+    chart = make_trend_chart(key_figure="boardings", from_zero=False)
+    (found,) = figures.headline(
+        run_checks(make_definition(datasets=[dataset], charts=[chart])), "en-GB"
+    )
+    assert (found.value, found.change) == ("90%", "−2pp from Sept 2026")
+
+
+def test_a_key_figure_the_chart_does_not_have_is_said_so_on_the_cover() -> None:
+    chart = make_trend_chart(key_figure="journeys")
+    (found,) = figures.headline(run_checks(make_definition(charts=[chart])), "en-GB")
+    assert found.value == "—"
+    assert found.change == "The chart has no figure named “journeys”; it has: boardings."
