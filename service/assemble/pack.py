@@ -291,6 +291,9 @@ class Heading(Paragraph):  # type: ignore[misc]
         super().__init__(text, style)
         self._key, self._marks = key, marks
 
+    def split(self, avail_width: float, avail_height: float) -> list[Flowable]:
+        return []  # a heading is never split: it moves overleaf whole
+
     def draw(self) -> None:
         self._marks[self._key] = self.canv.getPageNumber()
         super().draw()

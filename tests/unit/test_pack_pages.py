@@ -21,7 +21,7 @@ from pdfminer.high_level import extract_pages
 from pdfminer.layout import LTPage, LTTextContainer, LTTextLine
 
 from service import pipeline
-from service.assemble import figures, layout
+from service.assemble import figures, layout, pack
 
 SEALED = (
     "Signed off by Demo Approver on 2026-12-03 13:12 UTC · signed with a DEVELOPMENT key, "
@@ -287,3 +287,14 @@ def test_a_key_figure_the_chart_does_not_have_is_said_so_on_the_cover() -> None:
     (found,) = figures.headline(run_checks(make_definition(charts=[chart])), "en-GB")
     assert found.value == "—"
     assert found.change == "The chart has no figure named “journeys”; it has: boardings."
+
+
+def test_a_heading_is_never_split_over_two_pages() -> None:
+    """A heading that does not fit at a page foot moves overleaf whole (reportlab would split a
+    paragraph of several lines, and a split copy of the heading would not record its page)."""
+    marks: dict[str, int] = {}
+    text = "A heading long enough to wrap over three lines on the page " * 3
+    heading = pack.Heading(text, layout.styles()["h1"], "section:0", marks)
+    _, height = heading.wrap(layout.FRAME_WIDTH, layout.PAGE[1])
+    assert height > 40  # several lines
+    assert heading.split(layout.FRAME_WIDTH, height - 5) == []
