@@ -70,7 +70,7 @@ def styles() -> dict[str, ParagraphStyle]:
             fontName=fonts.BOLD,
             fontSize=10.5,
             leading=14,
-            textColor=STATUS_COLOURS["passed"],
+            textColor=INK,
         ),
         "toc_major": ParagraphStyle(
             "toc_major", parent=base, fontName=fonts.BOLD, fontSize=9, leading=12, spaceAfter=0

@@ -389,7 +389,7 @@ def _pairs(rows: list[tuple[str, str]], s: dict[str, Any], status_row: int) -> T
         for k, v in rows
     ]
     status = rows[status_row][1]
-    style = s["cover_status"] if _draft(status) else s["cover_signed"]
+    style = s["cover_status"] if _unsealed(status) else s["cover_signed"]
     cells[status_row][1] = Paragraph(_text(status), style)
     table = Table(cells, colWidths=[layout.FRAME_WIDTH * 0.24, layout.FRAME_WIDTH * 0.76])
     table.hAlign = "LEFT"
@@ -397,9 +397,10 @@ def _pairs(rows: list[tuple[str, str]], s: dict[str, Any], status_row: int) -> T
     return table
 
 
-def _draft(status: str) -> bool:
-    """A draft's status line (red on the cover); a signed-off pack's is printed calmly."""
-    return "DRAFT" in status
+def _unsealed(status: str) -> bool:
+    """A draft's status line, or one sealed with a development key, is printed in red on the
+    cover; a pack sealed by an organisation's key is printed in the body's ink."""
+    return "DRAFT" in status or "DEVELOPMENT" in status
 
 
 _PLAIN: list[tuple[Any, ...]] = [
