@@ -95,7 +95,7 @@ def _period(checked: Checked, locale: str) -> str:
 
 
 def _chart_block(chart: CheckedChart, size: tuple[float, float], locale: str) -> ChartBlock:
-    line = say("page.checks_line", locale, counts=counts_text(chart.results, locale))
+    line = counts_text(chart.results, locale)
     failed = [r.check for r in chart.results if r.status is Status.failed]
     if failed:
         line = f"{say('page.failed', locale, checks=', '.join(failed))} · {line}"

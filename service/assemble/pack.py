@@ -326,7 +326,7 @@ def _build_once(content: PackContent, pages: Pages) -> tuple[bytes, list[Slot], 
     marks: dict[str, int] = {}
     story: list[Flowable] = [*_cover(content, s, pages), PageBreak()]
     for number, section in enumerate(content.sections):
-        story.extend(_section(number, section, s, found, marks, locale=content.locale))
+        story.extend(_section(number, section, s, found, marks, locale=content.locale, pages=pages))
     story.extend([PageBreak(), *_appendix(content, s, pages, marks)])
     buffer = io.BytesIO()
     doc = BaseDocTemplate(
@@ -507,6 +507,7 @@ def _section(
     marks: dict[str, int],
     *,
     locale: str,
+    pages: Pages,
 ) -> Iterable[Flowable]:
     """A section: its heading and narrative kept with its first chart (or a table's first rows),
     so a heading is never left at a page foot with what it introduces overleaf."""
@@ -517,14 +518,14 @@ def _section(
     blocks = list(section.blocks)
     first = blocks[0] if blocks else None
     if isinstance(first, ChartBlock):
-        yield _chart(first, s, found, locale, lead=intro)
+        yield _chart(first, s, found, (locale, pages), lead=intro)
         blocks = blocks[1:]
     else:
         yield CondPageBreak(_height(intro) + TABLE_START)
         yield from intro
     for block in blocks:
         if isinstance(block, ChartBlock):
-            yield _chart(block, s, found, locale)
+            yield _chart(block, s, found, (locale, pages))
         else:
             yield CondPageBreak(TABLE_START)
             yield from _table(block, s)
@@ -549,11 +550,13 @@ def _chart(
     block: ChartBlock,
     s: dict[str, Any],
     found: list[Slot],
-    locale: str,
+    where: tuple[str, Pages],
     lead: list[Flowable] | None = None,
 ) -> ChartBox:
     """A chart's block (see :class:`ChartBox`), after ``lead`` (a section's heading and
-    narrative) when it is the section's first."""
+    narrative) when it is the section's first. ``where`` is the locale and the pages of the
+    previous layout pass (the check line names the page of the chart's checks in the appendix)."""
+    locale, pages = where
     head: list[Flowable] = [Paragraph(_text(block.title), s["h2"])]
     if block.subtitle:
         head.append(Paragraph(_text(block.subtitle), s["subtitle"]))
@@ -566,7 +569,9 @@ def _chart(
     if block.description:
         label = _text(say("page.text_alternative", locale))
         tail.append(Paragraph(f"<i>{label}</i> {_text(block.description)}", s["small"]))
-    tail.append(Paragraph(_text(block.check_line), s["muted"]))
+    page = pages.mark(f"appendix:chart:{block.chart_id}")
+    line = say("page.checks_line", locale, counts=block.check_line, page=page)
+    tail.append(Paragraph(_text(line), s["muted"]))
     return ChartBox(lead or [], head, slot, tail)
 
 
@@ -666,7 +671,7 @@ def _appendix(
         Paragraph(_text(say("appendix.grid_intro", locale)), s["small"]),
     ]
     for chart in appendix.charts:  # the part's heading is kept with the first chart's grid
-        yield KeepTogether([*grid, *_passed(chart, s, pages, locale)])
+        yield KeepTogether([*grid, *_passed(chart, s, pages, marks, locale)])
         grid = []
 
     yield CondPageBreak(TABLE_START)
@@ -732,7 +737,9 @@ def _attention(appendix: Appendix, s: dict[str, Any], pages: Pages, locale: str)
 GRID_COLUMNS = 3
 
 
-def _passed(chart: ChartChecks, s: dict[str, Any], pages: Pages, locale: str) -> list[Flowable]:
+def _passed(
+    chart: ChartChecks, s: dict[str, Any], pages: Pages, marks: dict[str, int], locale: str
+) -> list[Flowable]:
     """One chart's passed checks, three to a row: the id, and under it what was measured."""
     line = say(
         "appendix.chart_line",
@@ -741,7 +748,8 @@ def _passed(chart: ChartChecks, s: dict[str, Any], pages: Pages, locale: str) ->
         page=pages.chart(chart.chart_id),
         counts=chart.counts,
     )
-    parts: list[Flowable] = [Paragraph(_text(line), s["grid_head"])]
+    key = f"appendix:chart:{chart.chart_id}"
+    parts: list[Flowable] = [Heading(_text(line), s["grid_head"], key, marks)]
     cells = [
         Paragraph(f"<b>{_text(check)}</b><br/>{_text(measured)}", s["cell"])
         for check, measured in chart.passed

@@ -27,7 +27,7 @@ WORDS: dict[str, str] = {
     "page.chart_on_page": "{title} (Seite {page})",
     "page.source": "Quelle: {source}",
     "page.text_alternative": "Textalternative:",
-    "page.checks_line": "{counts} (Einzelheiten im Anhang).",
+    "page.checks_line": "{counts} (Einzelheiten im Anhang, Seite {page}).",
     "page.failed": "NICHT BESTANDEN: {checks}",
     "page.caution": (
         "Diese Prüfungen unterstützen das Urteil der Berichtsverantwortlichen, die für diesen "

@@ -27,7 +27,7 @@ WORDS: dict[str, str] = {
     "page.chart_on_page": "{title} (page {page})",
     "page.source": "Source: {source}",
     "page.text_alternative": "Text alternative:",
-    "page.checks_line": "{counts} (details in the appendix).",
+    "page.checks_line": "{counts} (details in the appendix, page {page}).",
     "page.failed": "FAILED: {checks}",
     "page.caution": (
         "These checks support, but do not replace, the report owner's judgement, the reporting "

@@ -298,3 +298,15 @@ def test_a_heading_is_never_split_over_two_pages() -> None:
     _, height = heading.wrap(layout.FRAME_WIDTH, layout.PAGE[1])
     assert height > 40  # several lines
     assert heading.split(layout.FRAME_WIDTH, height - 5) == []
+
+
+def test_each_chart_names_the_appendix_page_of_its_checks(pack_pages: list[LTPage]) -> None:
+    chart = _page_of(pack_pages, "Departures on time by route", start=2)
+    text = " ".join(" ".join(_rows(pack_pages[chart - 1])).split())
+    start = _page_of(pack_pages, "Integrity checks", start=2)
+    grid = next(
+        number
+        for number, page in enumerate(pack_pages[start - 1 :], start=start)
+        if "Departures on time by route · page" in _text(page)
+    )
+    assert f"(details in the appendix, page {grid})." in text
