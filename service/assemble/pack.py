@@ -404,6 +404,7 @@ def _unsealed(status: str) -> bool:
 
 
 _PLAIN: list[tuple[Any, ...]] = [
+    ("FONT", (0, 0), (-1, -1), fonts.REGULAR, 7.5),  # else reportlab sets Helvetica
     ("VALIGN", (0, 0), (-1, -1), "TOP"),
     ("LEFTPADDING", (0, 0), (-1, -1), 0),
     ("RIGHTPADDING", (0, 0), (-1, -1), 6),
@@ -448,14 +449,18 @@ def _on_page(title: str, chart_id: str, pages: Pages, locale: str) -> str:
     return say("page.chart_on_page", locale, title=title, page=pages.chart(chart_id))
 
 
-_RULED: list[tuple[Any, ...]] = [
+_CELLS: list[tuple[Any, ...]] = [
+    ("FONT", (0, 0), (-1, -1), fonts.REGULAR, 7.5),  # else reportlab sets Helvetica
     ("VALIGN", (0, 0), (-1, -1), "TOP"),
-    ("LINEBELOW", (0, 0), (-1, 0), 0.8, layout.INK),
-    ("LINEBELOW", (0, 1), (-1, -1), 0.3, layout.RULE),
     ("TOPPADDING", (0, 0), (-1, -1), 2.5),
     ("BOTTOMPADDING", (0, 0), (-1, -1), 2.5),
     ("LEFTPADDING", (0, 0), (-1, -1), 3),
     ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+]
+_RULED: list[tuple[Any, ...]] = [
+    *_CELLS,
+    ("LINEBELOW", (0, 0), (-1, 0), 0.8, layout.INK),
+    ("LINEBELOW", (0, 1), (-1, -1), 0.3, layout.RULE),
 ]
 
 
@@ -764,10 +769,9 @@ def _passed(
         table.setStyle(
             TableStyle(
                 [
-                    *_RULED[0:1],
+                    *_CELLS,
                     ("INNERGRID", (0, 0), (-1, -1), 0.3, layout.RULE),
                     ("BOX", (0, 0), (-1, -1), 0.3, layout.RULE),
-                    *_RULED[3:],
                 ]
             )
         )

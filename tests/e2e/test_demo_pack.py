@@ -216,7 +216,8 @@ def test_check_command_json_and_exit_codes(tmp_path: Path) -> None:
     assert report["blocked"] is False
     assert report["summary"]["corrected"] == 3
     assert report["summary"]["failed"] == 0
-    assert report["summary"]["passed"] > 100
+    assert report["summary"]["passed"] > 80
+    assert report["summary"]["not_applicable"] > 0  # named, never counted among the passes
     source = tmp_path / "waived.json"
     source.write_text(json.dumps(_with_waiver()))
     assert plumbline("check", source).returncode == 1
