@@ -13,10 +13,12 @@ from __future__ import annotations
 
 import math
 import re
+from datetime import date, datetime
 from functools import lru_cache
 from typing import Literal
 
 from babel import Locale, UnknownLocaleError
+from babel.dates import format_date, format_time
 from babel.numbers import format_currency, format_decimal, get_currency_name
 from pydantic import BaseModel, ConfigDict
 
@@ -304,3 +306,25 @@ def in_sentence(label: str, locale: str) -> str:
     if len(label) > 1 and label[1].isupper():
         return label
     return label[0].lower() + label[1:]
+
+
+def moment(value: datetime, locale: str) -> str:
+    """A point in time as people write it in ``locale``: the long date and the short time on the
+    sender's own clock, with its offset from UTC ("9 November 2026, 07:30 UTC";
+    "9. November 2026, 07:30 UTC+01:00")."""
+    babel_locale = locale.replace("-", "_")
+    on = format_date(value.date(), "long", locale=babel_locale)
+    time = format_time(value.time(), "short", locale=babel_locale)
+    offset = value.utcoffset()
+    zone = "UTC"
+    if offset:
+        minutes = int(offset.total_seconds() // 60)
+        sign = "+" if minutes >= 0 else "−"
+        zone += f"{sign}{abs(minutes) // 60:02d}:{abs(minutes) % 60:02d}"
+    pattern = Locale.parse(babel_locale).datetime_formats["medium"]
+    return str(pattern).replace("{1}", on).replace("{0}", f"{time} {zone}")
+
+
+def day(value: date, locale: str) -> str:
+    """A calendar day as people write it in ``locale`` ("30 November 2026")."""
+    return str(format_date(value, "long", locale=locale.replace("-", "_")))

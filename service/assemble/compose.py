@@ -14,12 +14,14 @@ from collections.abc import Mapping
 
 import pikepdf
 
-from service.assemble import pack, place, tables
-from service.assemble.pack import AppendixRow, ChartBlock, PackContent, SectionBlock
+from service import formatting
+from service.assemble import appendix, figures, pack, place, tables
+from service.assemble.appendix import counts_text
+from service.assemble.pack import ChartBlock, PackContent, SectionBlock
 from service.assemble.tables import TableBlock
-from service.checks import registry
 from service.checks.outcome import Checked, CheckedChart
-from service.checks.results import CheckResult, summary, summary_line
+from service.checks.results import Status
+from service.wording import say
 
 Placement = Mapping[str, tuple[int, int]]
 """Where each chart was drawn, by chart id: (index of its file among the drawn PDFs, page)."""
@@ -51,40 +53,48 @@ def content_for(
 ) -> PackContent:
     definition = checked.definition
     report = definition.report
+    locale = report.locale
     by_id = {c.plan.chart_id: c for c in checked.charts}
     shown = {t.plan.table_id: t.plan for t in checked.shown_tables}
     sections: list[SectionBlock] = []
     for section in definition.sections:
         blocks: list[ChartBlock | TableBlock] = []
         for chart in section.charts:
-            blocks.append(_chart_block(by_id[chart.id], sizes[chart.id]))
+            blocks.append(_chart_block(by_id[chart.id], sizes[chart.id], locale))
         for table in section.tables:
-            blocks.append(tables.block(shown[table.id], report.locale))
+            blocks.append(tables.block(shown[table.id], locale))
         sections.append(SectionBlock(section.heading, section.narrative, blocks))
     results = checked.results
-    used = list(dict.fromkeys(r.check for r in results))
     return PackContent(
         title=report.title,
-        period=definition.period_text(),
-        as_of=report.as_of.isoformat(timespec="minutes"),
+        period=_period(checked, locale),
+        as_of=formatting.moment(report.as_of, locale),
         owner=report.owner,
         audience=report.audience,
         status_line=status_line,
-        summary_line=summary_line(results),
+        summary_line=counts_text(results, locale),
         sections=sections,
-        appendix=[_appendix_row(r, report.locale) for r in results],
-        sources=[(check, registry.source(check)) for check in used],
+        appendix=appendix.content(checked, locale),
         fingerprint=checked.fingerprint,
         report_id=report.id,
+        locale=locale,
+        figures=figures.headline(checked, locale),
     )
 
 
-def _chart_block(chart: CheckedChart, size: tuple[float, float]) -> ChartBlock:
-    counts = summary(chart.results)
-    line = "Checks: " + ", ".join(f"{n} {s}" for s, n in counts.items() if n)
-    failed = [r.check for r in chart.results if r.status.value == "failed"]
+def _period(checked: Checked, locale: str) -> str:
+    period = checked.definition.report.period
+    if period.label:
+        return period.label
+    start, end = formatting.day(period.start, locale), formatting.day(period.end, locale)
+    return say("cover.period_range", locale, start=start, end=end)
+
+
+def _chart_block(chart: CheckedChart, size: tuple[float, float], locale: str) -> ChartBlock:
+    line = counts_text(chart.results, locale)
+    failed = [r.check for r in chart.results if r.status is Status.failed]
     if failed:
-        line += f" — FAILED: {', '.join(failed)}"
+        line = f"{say('page.failed', locale, checks=', '.join(failed))} · {line}"
     return ChartBlock(
         chart_id=chart.plan.chart_id,
         title=chart.plan.title,
@@ -92,26 +102,7 @@ def _chart_block(chart: CheckedChart, size: tuple[float, float]) -> ChartBlock:
         note=chart.plan.note,
         width_pt=size[0],
         height_pt=size[1],
-        check_line=line + " (details in the appendix).",
+        check_line=line,
         source=chart.plan.source,
         description=chart.plan.description,
-    )
-
-
-def _appendix_row(result: CheckResult, locale: str) -> AppendixRow:
-    explanation = result.explanation
-    if result.waiver is not None:
-        expiry = f", until {result.waiver.expires.isoformat()}" if result.waiver.expires else ""
-        explanation += f" Reason: {result.waiver.reason} (waived by {result.waiver.by}{expiry})"
-    return AppendixRow(
-        chart=result.chart,
-        check=result.check,
-        status=result.status.value,
-        measured=(
-            f"{result.measured_text} → {result.corrected_to}"
-            if result.corrected_to
-            else result.measured_text
-        ),
-        threshold=result.threshold,
-        explanation=explanation,
     )

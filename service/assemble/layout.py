@@ -25,6 +25,7 @@ STATUS_COLOURS = {
     "corrected": colors.HexColor("#805a00"),
     "waived": colors.HexColor("#5a4a8a"),
     "failed": DRAFT,
+    "advice": colors.HexColor("#1f5f8b"),
 }
 
 
@@ -51,7 +52,41 @@ def styles() -> dict[str, ParagraphStyle]:
         "title": ParagraphStyle(
             "title", parent=base, fontName=fonts.BOLD, fontSize=24, leading=29, spaceAfter=10
         ),
-        "cover_meta": ParagraphStyle("cover_meta", parent=base, fontSize=11, leading=16),
+        "cover_meta": ParagraphStyle("cover_meta", parent=base, fontSize=10.5, leading=14),
+        "cover_label": ParagraphStyle(
+            "cover_label", parent=base, fontSize=10.5, leading=14, textColor=MUTED
+        ),
+        "cover_status": ParagraphStyle(
+            "cover_status",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=10.5,
+            leading=14,
+            textColor=DRAFT,
+        ),
+        "cover_signed": ParagraphStyle(
+            "cover_signed",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=10.5,
+            leading=14,
+            textColor=INK,
+        ),
+        "toc_major": ParagraphStyle(
+            "toc_major", parent=base, fontName=fonts.BOLD, fontSize=9, leading=12, spaceAfter=0
+        ),
+        "toc_minor": ParagraphStyle(
+            "toc_minor", parent=base, fontSize=8, leading=10.5, leftIndent=12, spaceAfter=0
+        ),
+        "grid_head": ParagraphStyle(
+            "grid_head",
+            parent=base,
+            fontName=fonts.BOLD,
+            fontSize=8.5,
+            leading=11,
+            spaceBefore=4,
+            spaceAfter=3,
+        ),
         "status": ParagraphStyle(
             "status",
             parent=base,

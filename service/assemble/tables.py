@@ -198,7 +198,7 @@ def grid_cells(
         style = (kinds or {}).get(r, s["cell"])
         cells.append(
             [
-                Paragraph(text(v), _right(style) if is_number else style)
+                Paragraph(text(v), right(style) if is_number else style)
                 for v, is_number in zip(row, numeric, strict=False)
             ]
         )
@@ -247,7 +247,8 @@ def taller_than_page(table: LongTable) -> bool:
     return bool(tallest > height - 40)
 
 
-def _right(style: Any) -> Any:
+def right(style: Any) -> Any:
+    """``style`` aligned right (numbers in a column)."""
     return ParagraphStyle(f"{style.name}_right", parent=style, alignment=TA_RIGHT)
 
 

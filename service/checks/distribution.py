@@ -86,7 +86,9 @@ def _fit(plan: ChartPlan, ctx: Context) -> Finding:
     locale = plan.locale
     if not chart.fit:
         if plan.fit is None:
-            return Finding(True, None, wording.say("finding.no_line", locale), "no line")
+            return Finding(
+                True, None, wording.say("finding.no_line", locale), "no line", applicable=False
+            )
         detail = wording.say("finding.line_not_asked", locale)
         return Finding(False, round(plan.fit.r2, 4), detail, "line not asked for")
     expected = relationship.fit_for(chart, ctx.table)

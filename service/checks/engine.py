@@ -56,6 +56,9 @@ def _run(
         if not spec.applies(plan):
             continue  # e.g. a pie corrected to bars is then measured as bars
         finding = spec.measure(plan, ctx)
+        if finding.ok and not finding.applicable:
+            results.append(_result(spec, plan, Status.not_applicable, finding, finding.detail))
+            continue
         if finding.ok:
             results.append(_result(spec, plan, Status.passed, finding, finding.detail))
             continue

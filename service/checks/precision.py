@@ -107,7 +107,9 @@ def _measure(plan: ChartPlan, ctx: Context) -> Finding:
     locale = ctx.locale
     if precision is None:
         detail = wording.say("finding.no_precision", locale)
-        return Finding(True, None, detail, wording.say("finding.not_asked", locale))
+        return Finding(
+            True, None, detail, wording.say("finding.not_asked", locale), applicable=False
+        )
     values = shown_values(plan)
     if not values:
         detail = wording.say("finding.no_values_to_read", locale)

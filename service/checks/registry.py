@@ -41,6 +41,9 @@ class Finding:
     detail: str
     shown: str | None = None
     """The measured value as a reader should see it ("8 of 30 days", "85%"); else ``measured``."""
+    applicable: bool = True
+    """False when the chart's form cannot break the rule at all (the result is *not applicable*,
+    not a pass)."""
 
 
 Measure = Callable[[ChartPlan, Context], Finding]
@@ -171,10 +174,16 @@ def register_table(spec: TableCheckSpec) -> TableCheckSpec:
     return spec
 
 
+def rule(check: str) -> CheckSpec | TableCheckSpec:
+    """The registered spec of a chart's or a table's check (id, title, threshold, source,
+    correction)."""
+    spec = CHECKS.get(check)
+    return spec if spec is not None else TABLE_CHECKS[check]
+
+
 def source(check: str) -> str:
     """Where the rule of a chart's or a table's check comes from."""
-    spec = CHECKS.get(check)
-    return spec.source if spec is not None else TABLE_CHECKS[check].source
+    return rule(check).source
 
 
 def applicable(plan: ChartPlan) -> list[CheckSpec]:
@@ -250,7 +259,9 @@ def markdown() -> str:
         "Every chart is measured by each check that applies to its intent and form. Statuses:",
         "`passed`; `corrected` (Plumbline changed the chart to meet the rule, recording before and",
         "after); `waived` (a breach accepted with a reason, by a named person); `failed` (blocks",
-        "the pack); `advice` (worth a reader's attention, never blocks).",
+        "the pack); `advice` (worth a reader's attention, never blocks); `not_applicable` (the",
+        "chart's form cannot break the rule, e.g. one value axis where no second can be drawn:",
+        "recorded, never counted as a pass).",
         "",
         "| id | rule | applies to | measures | threshold | corrects | waivable | source |",
         "|---|---|---|---|---|---|---|---|",

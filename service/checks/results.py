@@ -15,6 +15,9 @@ class Status(StrEnum):
     failed = "failed"
     advice = "advice"
     """Worth a reader's attention, but not a breach of a rule: never blocks."""
+    not_applicable = "not_applicable"
+    """The rule cannot be broken by this chart's form (one value axis where no second can be
+    drawn): recorded, never counted as a pass."""
 
 
 class WaiverRecord(BaseModel):
@@ -54,7 +57,12 @@ def summary(results: list[CheckResult]) -> dict[str, int]:
 
 def summary_line(results: list[CheckResult]) -> str:
     counts = summary(results)
-    shown = [f"{counts[s.value]} {s.value}" for s in Status if s is not Status.advice]
+    optional = (Status.advice, Status.not_applicable)
+    shown = [f"{counts[s.value]} {s.value}" for s in Status if s not in optional]
     if counts[Status.advice.value]:
         shown.append(f"{counts[Status.advice.value]} advice")
-    return f"{len(results)} checks: {', '.join(shown)}"
+    applicable = len(results) - counts[Status.not_applicable.value]
+    line = f"{applicable} checks: {', '.join(shown)}"
+    if counts[Status.not_applicable.value]:
+        line += f" ({counts[Status.not_applicable.value]} more not applicable to their chart)"
+    return line

@@ -142,7 +142,7 @@ def _axes(plan: ChartPlan, ctx: Context) -> Finding:
     else:
         shown = wording.say("finding.one_axis", locale)
     detail = wording.say("finding.no_second_axis", locale, shown=shown[:1].upper() + shown[1:])
-    return Finding(True, 1, detail, shown)
+    return Finding(True, 1, detail, shown, applicable=False)
 
 
 NO_DUAL_AXIS = register(

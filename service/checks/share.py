@@ -137,7 +137,9 @@ def _expected_measure(plan: ChartPlan, ctx: Context) -> Finding:
         return Finding(False, len(absent), detail, shown)
     if not expected:
         listed = wording.say("finding.none_listed", locale)
-        return Finding(True, 0, wording.say("finding.no_expected", locale), listed)
+        return Finding(
+            True, 0, wording.say("finding.no_expected", locale), listed, applicable=False
+        )
     flagged = [c.label for c in plan.categories if c.expected_missing]
     key = "finding.parts_shown_flagged" if flagged else "finding.parts_shown"
     detail = wording.say(key, locale, total=len(expected), names=", ".join(flagged[:6]))
@@ -233,7 +235,11 @@ def _pie_measure(plan: ChartPlan, ctx: Context) -> Finding:
     if plan.form != "pie":
         measured = wording.say("finding.bars_measured", locale, shown=shown)
         return Finding(
-            True, len(values), wording.say("finding.as_bars", locale, shown=shown), measured
+            True,
+            len(values),
+            wording.say("finding.as_bars", locale, shown=shown),
+            measured,
+            applicable=False,
         )
     problem = share.pie_problem(values, locale)
     if problem is None:

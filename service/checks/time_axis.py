@@ -114,7 +114,9 @@ def _log_noted(plan: ChartPlan, ctx: Context) -> Finding:
     logs = _log_axes(plan)
     locale = plan.locale
     if not logs:
-        return Finding(True, "linear", wording.say("finding.linear", locale), "linear")
+        return Finding(
+            True, "linear", wording.say("finding.linear", locale), "linear", applicable=False
+        )
     if _length_on_log(plan):
         form = wording.say(f"text.form_{plan.form}", locale)
         detail = wording.say("finding.log_lengths", locale, form=form)

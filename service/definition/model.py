@@ -255,6 +255,14 @@ class ChartBase(Input):
         description="A text alternative written by the author; otherwise one is generated.",
     )
     precision: Precision | None = None
+    key_figure: Label | None = Field(
+        None,
+        description=(
+            "The one figure of this chart the cover lists among the headline figures: a measure "
+            "or series as the chart names it (its latest value and change), a category's label, "
+            "or a summary such as 'median' or 'n'."
+        ),
+    )
 
     def columns(self) -> list[tuple[str, str, Role]]:
         """Every column this chart reads: (field path, column name, role)."""

@@ -27,13 +27,14 @@ STATUS_NAMES = {
     lifecycle.SIGNED_OFF: "Signed off",
     lifecycle.SUPERSEDED: "Superseded",
 }
-_ORDER = {"failed": 0, "waived": 1, "corrected": 2, "advice": 3, "passed": 4}
+_ORDER = {"failed": 0, "waived": 1, "corrected": 2, "advice": 3, "passed": 4, "not_applicable": 5}
 _LABELS = {
     "failed": "✗ Failed",
     "waived": "Waived",
     "corrected": "Corrected",
     "advice": "Advice",
     "passed": "✓ Passed",
+    "not_applicable": "Not applicable",
 }
 SIGNED = (lifecycle.SIGNED_OFF, lifecycle.SUPERSEDED)
 

@@ -97,9 +97,9 @@ def test_the_measure_fails_on_an_unlabelled_plan_and_passes_when_labelled() -> N
     assert precision.SPEC.measure(plan.model_copy(update={"value_labels": True}), ctx).ok
 
 
-def test_chart_without_precision_passes() -> None:
+def test_chart_without_precision_is_not_applicable() -> None:
     found = result_of(run_checks(close_values()), "precision")
-    assert (found.status, found.measured_text) == (Status.passed, "not asked")
+    assert (found.status, found.measured_text) == (Status.not_applicable, "not asked")
 
 
 def test_lines_use_the_plot_height_and_get_labelled() -> None:
