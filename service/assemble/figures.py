@@ -60,7 +60,9 @@ def _headline(item: CheckedChart, name: str, offered: list[KeyFigure], locale: s
     plan = item.plan
     status, checks = _checks(item, locale)
     wanted = name.strip().casefold()
-    figure = next((f for f in offered if f.label.casefold() == wanted), None)
+    figure = next(
+        (f for f in offered if wanted in (f.label.casefold(), (f.name or "").casefold())), None
+    )
     if figure is None:
         figure = next((f for f in offered if f.label.casefold().endswith(f": {wanted}")), None)
     if figure is None:
@@ -103,12 +105,13 @@ def _checks(item: CheckedChart, locale: str) -> tuple[str, str]:
 
 
 def _series(plan: ChartPlan, label: str) -> Series | None:
+    """The series a key figure was taken from, by the label ``forms`` gave it."""
     for series in plan.series:
-        if series.name == label:
+        if series.title == label:
             return series
     for panel in plan.panels:
         for series in panel.series:
-            if f"{panel.title}: {series.name}" == label:
+            if f"{panel.title}: {series.title}" == label:
                 return series
     return None
 

@@ -43,6 +43,9 @@ class KeyFigure:
     """The value of an estimate or projection series, not a measured one."""
     partial: bool = False
     """The value of a period only partly elapsed at ``as_of`` (only when no complete one exists)."""
+    name: str | None = None
+    """The column a series' figure belongs to, so a definition may name it by its identifier as
+    well as by its label."""
 
 
 @dataclass(frozen=True)
@@ -124,6 +127,7 @@ def _series(plan: ChartPlan, measure: Measure) -> list[KeyFigure]:
                 period=plan.periods[index],
                 estimate=series.estimate,
                 partial=partial and not series.estimate,
+                name=series.name,
             )
         )
     return found
