@@ -163,7 +163,11 @@ def key_figures(definition: bytes, limits: Limits) -> dict[str, list[Figure]]:
 
 def _figures(plan: ChartPlan, measure: np.ndarray[Any, Any] | None) -> list[Figure]:
     read = FORMS[plan.form].key_figures(plan, measure)
-    return [Figure(plan.chart_id, plan.title, **asdict(k)) for k in read]
+    # a figure is compared by its label; the column identifier behind it is not recorded
+    return [
+        Figure(plan.chart_id, plan.title, **{f: v for f, v in asdict(k).items() if f != "name"})
+        for k in read
+    ]
 
 
 def compare_packs(earlier: SignedPack, later: SignedPack) -> dict[str, Any]:
