@@ -18,7 +18,7 @@ from typing import Any, TextIO, TypeVar
 
 from pydantic import ValidationError
 
-from service import __version__
+from service import __version__, logs
 from service.config import Settings, get_settings
 from service.errors import (
     MAX_LISTED_PROBLEMS,
@@ -36,6 +36,7 @@ T = TypeVar("T")
 
 
 def main(argv: list[str] | None = None) -> int:
+    logs.route_warnings()  # a library's warning says what happened, not where it is installed
     parser = _parser()
     args = parser.parse_args(argv)
     settings = _settings() if hasattr(args, "run") else None
