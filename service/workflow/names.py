@@ -26,8 +26,6 @@ from collections.abc import Iterable
 from functools import cache
 from pathlib import Path
 
-from confusable_homoglyphs import categories
-
 from service.errors import InvalidRequest
 
 MAX_NAME = 200
@@ -78,6 +76,8 @@ def normalise(name: str) -> str:
 
 def scripts_of(text: str) -> set[str]:
     """The scripts of a text's letters (characters of every script, such as spaces, left out)."""
+    from confusable_homoglyphs import categories  # needed only where keys are made
+
     return {categories.alias(c) for c in text} - _NO_SCRIPT
 
 
