@@ -37,7 +37,9 @@ class BodyLimit:
             return
         headers = scope.get("headers") or []
         if self.header_limit is not None:
-            size = header_bytes(scope.get("method", ""), scope.get("raw_path") or b"", headers)
+            query = scope.get("query_string") or b""
+            target = (scope.get("raw_path") or b"") + (b"?" + query if query else b"")
+            size = header_bytes(scope.get("method", ""), target, headers)
             if size > self.header_limit:
                 await _answer(send, HeadersTooLarge(size=size, limit=self.header_limit))
                 return
