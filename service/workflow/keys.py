@@ -158,6 +158,14 @@ def person_of(sessions: sessionmaker[Any], key_id: str) -> str:
     return person
 
 
+def person_named(sessions: sessionmaker[Any], name: str) -> str | None:
+    """The id of the person of exactly this name (as stored: normalised), or ``None``."""
+    with sessions() as session:
+        found = session.scalars(select(PersonRow.id).where(PersonRow.name == names.normalise(name)))
+        person: str | None = found.first()
+    return person
+
+
 def _person_for(session: Session, name: str, person: str | None, by: Principal | None) -> str:
     """The person a new key belongs to: ``person`` if it exists, else a new person named ``name``;
     refused if ``name`` reads like the name of anyone else or of a key of anyone else."""
@@ -359,6 +367,7 @@ __all__ = [
     "can_see",
     "create",
     "end_session",
+    "person_named",
     "person_of",
     "principal_for",
     "revoke",

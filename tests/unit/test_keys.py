@@ -285,3 +285,17 @@ def test_names_are_stored_in_nfkc_with_single_spaces(sessions: sessionmaker[Any]
     assert authenticate(sessions, secret).name == "Bo Builder Jr."
     _, secret = _key(sessions, name="\u5c71\u7530 \u3072\u308d\u3057")  # Han with Hiragana
     assert authenticate(sessions, secret).name == "\u5c71\u7530 \u3072\u308d\u3057"
+
+
+def test_a_second_walkthrough_in_one_archive_gives_the_same_invented_person_a_new_key(
+    sessions: sessionmaker[Any],
+) -> None:
+    """``plumbline walkthrough`` (``make demo``) makes its keys in the configured archive on every
+    run; a second "Demo Author" would be refused as another person of the same name."""
+    from service.workflow import walkthrough
+
+    first = walkthrough._key(sessions, "Demo Author", Role.author, "test-pack")
+    second = walkthrough._key(sessions, "Demo Author", Role.author, "test-pack")
+    assert first.key_id != second.key_id
+    assert first.person == second.person == keys.person_named(sessions, "Demo  Author")
+    assert keys.person_named(sessions, "Demo Reviewer") is None
