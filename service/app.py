@@ -20,7 +20,7 @@ from fastapi.openapi.utils import get_openapi
 
 from service import __version__, logs, web
 from service.api import errors, ready, reports, routes
-from service.api.limits import BodyLimit
+from service.api.limits import BodyLimit, HeaderLimitH11
 from service.api.middleware import RequestIds
 from service.archive import db
 from service.archive.objects import open_store
@@ -78,7 +78,9 @@ def create_app(settings: Settings | None = None) -> FastAPI:
     app.include_router(reports.jobs_router)
     errors.install(app)
     web.install(app)
-    app.add_middleware(BodyLimit, limit=settings.limits.max_payload_bytes)
+    app.add_middleware(
+        BodyLimit, limit=settings.limits.max_payload_bytes, header_limit=settings.max_header_bytes
+    )
     app.add_middleware(RequestIds, handlers=app.exception_handlers)  # outermost: sees the 413s
 
     def openapi() -> dict[str, Any]:
@@ -117,6 +119,8 @@ def serve(settings: Settings, *, host: str | None = None, port: int | None = Non
             log_level=settings.log_level.lower(),
             access_log=False,
             timeout_graceful_shutdown=max(1, round(settings.shutdown_grace_s)),
+            http=HeaderLimitH11,
+            h11_max_incomplete_event_size=settings.max_header_bytes,
         )
     finally:
         signal.signal(signal.SIGTERM, previous)

@@ -18,7 +18,7 @@ from typing import Any, TextIO, TypeVar
 
 from pydantic import ValidationError
 
-from service import __version__
+from service import __version__, logs
 from service.config import Settings, get_settings
 from service.errors import (
     MAX_LISTED_PROBLEMS,
@@ -36,6 +36,7 @@ T = TypeVar("T")
 
 
 def main(argv: list[str] | None = None) -> int:
+    logs.route_warnings()  # a library's warning says what happened, not where it is installed
     parser = _parser()
     args = parser.parse_args(argv)
     settings = _settings() if hasattr(args, "run") else None
@@ -251,6 +252,12 @@ def _keys_actions(p: argparse.ArgumentParser) -> None:
         formatter_class=_Formatter,
     )
     c.add_argument("--name", required=True, help="the person or system the key belongs to")
+    c.add_argument(
+        "--person",
+        metavar="PERSON_ID",
+        help="give an existing person another key (the id printed with their first key); "
+        "default: the key is for a new person, whose name must not read like anyone else's",
+    )
     c.add_argument(
         "--role",
         action="append",
@@ -519,16 +526,19 @@ def _keys_create(args: argparse.Namespace, settings: Settings) -> int:
     from service.workflow import keys
 
     settings.data_dir.mkdir(parents=True, exist_ok=True)
+    sessions = db.connect(settings.database_url)
     key_id, secret = keys.create(
-        db.connect(settings.database_url),
+        sessions,
         name=args.name,
         roles={keys.Role(v) for v in args.role},
         families=set(args.family),
         expires=args.expires,
         allow_expired=args.allow_expired,
+        person=args.person,
     )
     print(f"key {key_id}")
     print(f"secret (shown once; store it now): {secret}")
+    print(f"person {keys.person_of(sessions, key_id)} (give them another key: --person)")
     return EXIT_OK
 
 

@@ -53,6 +53,9 @@ class Settings(BaseSettings):
     """PLUMBLINE_MAX_WAITING_REQUESTS: requests that wait for their answer (``POST /v1/reports``,
     ``POST /v1/check``) and wait for a worker in one process; past it a new one is refused with
     429 and Retry-After (a malformed definition is answered 422 first, without waiting)."""
+    max_header_bytes: int = Field(16_384, ge=4_096, le=1_048_576)
+    """PLUMBLINE_MAX_HEADER_BYTES: a request's line and header block; past it the request is
+    answered 431 with a problem document (``headers_too_large``) and not read further."""
     store_url: str = ""
     """PLUMBLINE_STORE_URL: where PDFs and definitions live — unset: files under the data folder;
     ``s3://bucket/prefix``: an S3-compatible object store; ``file:///path``: files there."""

@@ -6,6 +6,7 @@ Every error Plumbline raises on purpose derives from :class:`PlumblineError` and
     PlumblineError (500, internal_error)
     ├── InvalidDefinition (422, invalid_definition)   every problem found, each with a path
     ├── PayloadTooLarge (413, payload_too_large)       before the body is parsed
+    │   └── HeadersTooLarge (431, headers_too_large)   the request's header block, before routing
     ├── Unreadable (400, unreadable_input)            a file the CLI was given cannot be read
     ├── Unauthorized (401, unauthorized)               no key, or an unknown, revoked or expired one
     ├── Forbidden (403, forbidden)                     the key's roles do not allow the action
@@ -176,6 +177,21 @@ class PayloadTooLarge(PlumblineError):
             f"the request body is larger than the limit of {limit} bytes "
             f"(read {size} bytes before stopping); send less data, or raise "
             "PLUMBLINE_LIMITS__MAX_PAYLOAD_BYTES"
+        )
+        self.size = size
+        self.limit = limit
+
+
+class HeadersTooLarge(PayloadTooLarge):
+    code = "headers_too_large"
+    status = 431
+
+    def __init__(self, *, size: int, limit: int) -> None:
+        PlumblineError.__init__(
+            self,
+            f"the request's header block is larger than the limit of {limit} bytes (read {size} "
+            "bytes before stopping); send shorter headers (an API key is 61 characters), or "
+            "raise PLUMBLINE_MAX_HEADER_BYTES",
         )
         self.size = size
         self.limit = limit

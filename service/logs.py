@@ -20,6 +20,7 @@ import re
 import sys
 import traceback
 import uuid
+import warnings
 from contextvars import ContextVar
 from datetime import UTC, datetime
 from types import TracebackType
@@ -124,6 +125,29 @@ def incident(
     return found
 
 
+WARNINGS = logging.getLogger("plumbline.warnings")
+"""Python warnings (matplotlib's, pandas'), as their category and message only."""
+_PATH = re.compile(r"(?:[A-Za-z]:)?[\\/](?:[^\s'\":\\/]+[\\/])+([^\s'\":\\/]+)")
+
+
+def route_warnings() -> None:
+    """Show every Python warning through the log, as its category and message with any file path
+    cut to the file's name. Python's own display starts with the source file and line of the
+    library that warned: the installation's paths, on a user's terminal or in a log line."""
+    warnings.showwarning = _show_warning
+
+
+def _show_warning(  # noqa: PLR0917 (the signature of warnings.showwarning)
+    message: Warning | str,
+    category: type[Warning],
+    filename: str,
+    lineno: int,
+    file: TextIO | None = None,
+    line: str | None = None,
+) -> None:
+    WARNINGS.warning("%s: %s", category.__name__, _PATH.sub(r"\1", redact(str(message))))
+
+
 class _Ours(logging.StreamHandler[TextIO]):
     """The handler ``setup`` installs (found again and replaced on a second call)."""
 
@@ -139,6 +163,7 @@ def setup(format: str = "json", level: str = "info", stream: TextIO | None = Non
     handler.setFormatter(JsonFormatter() if format == "json" else TextFormatter())
     root.addHandler(handler)
     root.setLevel(level.upper())
+    route_warnings()
     for name in ("uvicorn", "uvicorn.error", "uvicorn.asgi"):
         server = logging.getLogger(name)
         server.handlers.clear()
@@ -157,5 +182,6 @@ __all__ = [
     "incident",
     "redact",
     "request_id",
+    "route_warnings",
     "setup",
 ]

@@ -28,6 +28,7 @@ SLOW = (
     "e2e/test_verify_cli.py",  # walkthrough, seal and verify, in fresh processes
     "faults/",  # servers killed and started again
     "fuzz/",  # hundreds of generated requests and definitions
+    "hostile/test_attacks.py",  # the outside attacker's round, re-run against a real service
     "hostile/test_injection.py",  # every payload in every field, rendered, sealed and read back
     "ops/",  # a `plumbline serve` of its own per test
     "quality/test_pack_quality.py::test_the_demo",  # the demo drafted and read back as pictures

@@ -169,12 +169,26 @@ def engine_of(factory: sessionmaker[Any]) -> Engine:
 # signed off which content hash.
 
 
+class PersonRow(Base):
+    """A person who holds one or more keys: separation of duties compares these ids, not names."""
+
+    __tablename__ = "persons"
+
+    id: Mapped[str] = mapped_column(String(40), primary_key=True)
+    name: Mapped[str] = mapped_column(String(200))
+    created_at: Mapped[datetime] = mapped_column(DateTime(timezone=True))
+
+
 class KeyRow(Base):
     """An API key: only a salted scrypt hash of its secret is stored."""
 
     __tablename__ = "keys"
 
     id: Mapped[str] = mapped_column(String(40), primary_key=True)
+    person_id: Mapped[str] = mapped_column(
+        ForeignKey("persons.id", name="fk_keys_person_id_persons"), index=True
+    )
+    """The person who holds the key (several keys may belong to one person)."""
     name: Mapped[str] = mapped_column(String(200))
     roles: Mapped[list[str]] = mapped_column(JSON)
     families: Mapped[list[str]] = mapped_column(JSON)
@@ -206,7 +220,7 @@ class ReviewRow(Base):
 
     pack_id: Mapped[str] = mapped_column(ForeignKey("packs.id"), primary_key=True)
     authors: Mapped[list[dict[str, str]]] = mapped_column(JSON)
-    """Every key that authored or submitted the pack: ``{"key_id": …, "name": …}``."""
+    """Every key that authored or submitted the pack: ``{"key_id", "name", "person_id"}``."""
     submitted_sha256: Mapped[str | None] = mapped_column(String(64), nullable=True)
     submitted_at: Mapped[datetime | None] = mapped_column(DateTime(timezone=True), nullable=True)
     signed_off_by: Mapped[str | None] = mapped_column(String(40), nullable=True)
@@ -215,14 +229,15 @@ class ReviewRow(Base):
     signed_off_sha256: Mapped[str | None] = mapped_column(String(64), nullable=True)
     superseded_by: Mapped[str | None] = mapped_column(String(40), nullable=True)
 
-    def is_author(self, key_id: str, name: str) -> bool:
-        """The same key, or a key in the same person's name (one person holding two keys)."""
-        folded = name.casefold()
-        return any(a["key_id"] == key_id or a["name"].casefold() == folded for a in self.authors)
+    def is_author(self, key_id: str, person_id: str) -> bool:
+        """The same key, or another key of the same person (never decided on a name: two people
+        may share one, and a look-alike name is not the same person)."""
+        return any(a["key_id"] == key_id or a.get("person_id") == person_id for a in self.authors)
 
-    def add_author(self, key_id: str, name: str) -> None:
-        if not self.is_author(key_id, name):
-            self.authors = [*self.authors, {"key_id": key_id, "name": name}]
+    def add_author(self, key_id: str, name: str, person_id: str) -> None:
+        if not any(a["key_id"] == key_id for a in self.authors):
+            entry = {"key_id": key_id, "name": name, "person_id": person_id}
+            self.authors = [*self.authors, entry]
 
 
 class WaiverRow(Base):

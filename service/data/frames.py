@@ -273,7 +273,7 @@ def _convert(
             wrong = pd.Series(False, index=values.index)
             numbers = pd.to_numeric(values, errors="coerce").astype(float)
         else:  # a JSON number, strictly: not true/false, and not "93.4" (text is CSV's business)
-            wrong = values.map(lambda v: isinstance(v, bool) or not isinstance(v, int | float))
+            wrong = values.map(_not_a_json_number)
             numbers = pd.to_numeric(values.where(~wrong, None), errors="coerce").astype(float)
         huge = numbers.abs() >= MAX_MAGNITUDE
         bad = given & (numbers.isna() | ~np.isfinite(numbers.fillna(0.0)) | wrong | huge)
@@ -288,6 +288,14 @@ def _convert(
         parsed = _on_senders_clock(text, zone)
     bad = given & parsed.isna()
     return parsed, bad
+
+
+def _not_a_json_number(value: object) -> bool:
+    """Not a number, or (true, false) not meant as one, or an integer past ``MAX_MAGNITUDE``
+    (10^309 and above cannot even be made a float)."""
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return True
+    return isinstance(value, int) and abs(value) >= MAX_MAGNITUDE
 
 
 _OFFSET = r"(?:Z|[+-]\d{2}:?\d{2})$"

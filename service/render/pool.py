@@ -22,6 +22,8 @@ from concurrent.futures import Future, ProcessPoolExecutor
 from multiprocessing import util
 from typing import TYPE_CHECKING
 
+from service import logs
+
 if TYPE_CHECKING:
     from service.intents.plan import ChartPlan
     from service.render.measured import LayoutReport
@@ -36,6 +38,7 @@ def _start() -> None:
     """Each worker: the house style and every drawer, loaded once before the first job."""
     from service.render import charts, style  # the drawing stack, in the worker only
 
+    logs.route_warnings()
     style.install()
     del charts
 

@@ -11,6 +11,7 @@ import os
 from collections.abc import Callable
 from typing import TYPE_CHECKING, Any, TypeVar
 
+from service import logs
 from service.runner.pool import Pool, Progress
 
 if TYPE_CHECKING:
@@ -28,6 +29,7 @@ def start_worker() -> None:
     from service.render import style
 
     os.nice(WORKER_NICENESS)
+    logs.route_warnings()
     style.install()
     # Loaded here, before the worker's memory limit applies: scipy's OpenBLAS reserves its
     # buffers as it loads and, refused, retries in a loop or exits instead of raising; native

@@ -17,7 +17,9 @@ initializer has run, and inherited by any process it starts). A job that reaches
 when Python raises ``MemoryError`` (or a library that could not be loaded for want of memory),
 when the worker dies as native code does when refused memory (exit 1, SIGABRT, SIGSEGV, SIGBUS),
 or dies or stalls with its peak address space near the limit (native code may abort, or retry
-a failed allocation in a loop, instead of raising).
+a failed allocation in a loop, instead of raising). A stall is judged at the job's deadline; a job
+with no deadline (``plumbline render --time-limit 0``) is judged stalled once it has said nothing
+for ``stall_s`` seconds with its peak near the limit, so it cannot wait for ever.
 """
 
 from __future__ import annotations
@@ -25,6 +27,7 @@ from __future__ import annotations
 import contextlib
 import errno
 import logging
+import math
 import multiprocessing
 import multiprocessing.connection
 import queue
@@ -62,9 +65,9 @@ class RenderMemory(PlumblineError):
     status = 422
 
 
-def memory_problem(memory_mb: int) -> RenderMemory:
+def memory_problem(memory_mb: int, task: str = "render") -> RenderMemory:
     return RenderMemory(
-        f"the render needed more memory than the {memory_mb} MB a render worker may use, and "
+        f"the {task} needed more memory than the {memory_mb} MB a render worker may use, and "
         f"was stopped; make the pack smaller (fewer rows or charts), or raise {MEMORY_SETTING}"
     )
 
@@ -170,9 +173,12 @@ class Pool:
         initializer: Callable[[], None] | None = None,
         timeout: float = 300.0,
         memory_mb: int | None = None,
+        stall_s: float = 60.0,
     ) -> None:
         self.size = size
         self.timeout = timeout
+        self.stall_s = stall_s
+        """With no deadline: how long a job near its memory limit may send nothing."""
         self.memory_mb = memory_mb or None
         """Each worker's address-space limit in MiB (None: no limit)."""
         self._initializer = initializer
@@ -255,10 +261,12 @@ class Pool:
         *args: Any,
         timeout: float | None = None,
         progress: Progress | None = None,
+        task: str = "render",
         **kwargs: Any,
     ) -> Any:
         """Run ``job(*args, **kwargs)`` in a worker; raise :class:`RenderTimeout` past the
-        deadline (the worker is killed and replaced) and :class:`RenderFailed` if it dies."""
+        deadline (the worker is killed and replaced) and :class:`RenderFailed` if it dies.
+        ``task`` names the job in those messages ("render", "check", "verification")."""
         if self._closed:
             raise RenderFailed("the service is shutting down; try again shortly")
         worker = self._idle.get()
@@ -269,15 +277,17 @@ class Pool:
         healthy = False
         try:
             worker.conn.send((job, args, kwargs, progress is not None))
-            kind, value = self._answer(worker, time.monotonic() + limit, limit, progress)
+            kind, value = self._answer(worker, time.monotonic() + limit, limit, progress, task)
             healthy = kind != "fatal"
+            if kind == "fatal" and isinstance(value, RenderMemory):
+                raise memory_problem(self.memory_mb or 0, task)
             if kind in ("error", "fatal"):
                 raise value
             if kind == "foreign":
                 raise foreign_failure(value)
             return value
         except (EOFError, OSError):
-            raise self._died(worker, _peak_bytes(worker.process.pid)) from None
+            raise self._died(worker, _peak_bytes(worker.process.pid), task) from None
         finally:
             if healthy and not self._closed:
                 self._idle.put(worker)
@@ -286,11 +296,11 @@ class Pool:
                 if not self._closed:
                     self._idle.put(self._start())
 
-    def _died(self, worker: _Worker, peak: int) -> PlumblineError:
+    def _died(self, worker: _Worker, peak: int, task: str) -> PlumblineError:
         worker.process.join(timeout=1)
         code = worker.process.exitcode
         if self._near_limit(peak) or (self.memory_mb and code in _OUT_OF_MEMORY_EXITS):
-            return memory_problem(self.memory_mb or 0)
+            return memory_problem(self.memory_mb or 0, task)
         if self.memory_mb:
             return RenderFailed(
                 "the render worker stopped unexpectedly (it may have needed more than the "
@@ -309,25 +319,31 @@ class Pool:
         return peak >= limit - max(limit // 20, 64 * 1024 * 1024)
 
     def _answer(
-        self, worker: _Worker, deadline: float, limit: float, progress: Progress | None
+        self, worker: _Worker, deadline: float, limit: float, progress: Progress | None, task: str
     ) -> tuple[str, Any]:
-        """Wait for the job's answer, passing progress on; raise past the deadline."""
+        """Wait for the job's answer, passing progress on; raise past the deadline, or (with no
+        deadline) once the job has stalled near its memory limit."""
         peak = 0
+        heard = time.monotonic()
         while True:
             left = deadline - time.monotonic()
             if left <= 0:
                 if self._near_limit(max(peak, _peak_bytes(worker.process.pid))):
-                    raise memory_problem(self.memory_mb or 0)
+                    raise memory_problem(self.memory_mb or 0, task)
                 raise RenderTimeout(
-                    f"the render took longer than its time budget of {limit:g} s and was "
+                    f"the {task} took longer than its time budget of {limit:g} s and was "
                     "stopped; make the pack smaller, or raise PLUMBLINE_RENDER_TIMEOUT_S"
                 )
             if not worker.conn.poll(min(left, 0.25)):
                 if not worker.process.is_alive():
-                    raise self._died(worker, peak)
+                    raise self._died(worker, peak, task)
                 if self.memory_mb:
                     peak = max(peak, _peak_bytes(worker.process.pid))
+                    silent = time.monotonic() - heard
+                    if math.isinf(deadline) and silent > self.stall_s and self._near_limit(peak):
+                        raise memory_problem(self.memory_mb, task)
                 continue
+            heard = time.monotonic()
             kind, value = worker.conn.recv()
             if kind != "progress":
                 return kind, value

@@ -77,11 +77,19 @@ class Workers:
             result: T = await run_in_threadpool(partial(self._pool.run, job, *args, **kwargs))
         return result
 
-    async def _answer(self, raw: bytes, limits: Limits, job: Callable[..., T], *args: Any) -> T:
+    async def _answer(
+        self, raw: bytes, limits: Limits, job: Callable[..., T], *args: Any, task: str
+    ) -> T:
         """Run ``job(raw, *args)`` for a request that waits for its answer: the definition is
         parsed and validated first (its shape problems are answered without a worker), then the
         request waits for a worker unless ``max_waiting`` requests already do."""
         await run_in_threadpool(validate.parse, raw, limits)
+        return await self._waited(job, raw, *args, task=task)
+
+    async def _waited(self, job: Callable[..., T], *args: Any, task: str) -> T:
+        """Run ``job(*args)`` for a request that waits for its answer, under the pool's time and
+        memory budget (``task`` names it in their messages): it waits for a worker unless
+        ``max_waiting`` requests already do (:class:`TooBusy`)."""
         if self._slots is None:
             self._slots = asyncio.Semaphore(self.size)
         full = self.max_waiting is not None and self._waiting >= self.max_waiting
@@ -97,17 +105,18 @@ class Workers:
         finally:
             self._waiting -= 1
         try:
-            return await run_in_threadpool(partial(self._pool.run, job, raw, *args))
+            return await run_in_threadpool(partial(self._pool.run, job, *args, task=task))
         finally:
             self._slots.release()
 
     async def build_now(self, raw: bytes, limits: Limits) -> pipeline.Built:
         """Build a definition for a request that waits for the draft (see :meth:`_answer`)."""
-        return await self._answer(raw, limits, partial(build_pack, options=self.render), limits)
+        build = partial(build_pack, options=self.render)
+        return await self._answer(raw, limits, build, limits, task="render")
 
     async def check(self, raw: bytes, limits: Limits) -> dict[str, Any]:
         """Check a definition in a worker, under the render budget (see :meth:`_answer`)."""
-        return await self._answer(raw, limits, check_definition, limits)
+        return await self._answer(raw, limits, check_definition, limits, task="check")
 
     async def build(
         self, raw: bytes, limits: Limits, progress: Progress | None = None
@@ -133,7 +142,9 @@ class Workers:
         return seal
 
     async def verify(self, pdf: bytes, roots: list[bytes], limits: Limits) -> VerifyReport:
-        return await self._run(verify_pack, pdf, roots, limits)
+        """Verify a sealed pack (its re-render draws every chart) in a worker, under the render
+        budget, waiting for a worker like a check (see :meth:`_waited`)."""
+        return await self._waited(verify_pack, pdf, roots, limits, task="verification")
 
     def missing(self) -> int:
         """How many render workers are dead and not replaced yet (0 when the pool is full)."""

@@ -64,8 +64,9 @@ def create(
         session.add(row)
         if author is not None:
             session.flush()
-            authors = [{"key_id": author.key_id, "name": author.name}]
-            session.add(ReviewRow(pack_id=row.id, authors=authors))
+            review = ReviewRow(pack_id=row.id, authors=[])
+            review.add_author(author.key_id, author.name, author.person)
+            session.add(review)
             audit.append(
                 session,
                 key_id=author.key_id,

@@ -16,6 +16,11 @@ Families are report-id prefixes on a word boundary: ``hollin-vale`` grants ``hol
 ``hollin-vale-ops-monthly`` (or ``hollin-vale_…``) but not ``hollin-valley``; ``*`` grants every
 report. Roles are explicit: ``admin`` manages keys and implies no other role (separation of duties
 would mean little if one role could do everything).
+
+Every key belongs to a person (``persons``): a new person unless the key is made for an existing
+one (``person=``; several keys may belong to one person). Separation of duties compares person ids,
+never names. A key's name is normalised and checked by :mod:`service.workflow.names`: one script, no
+invisible characters, and not confusable with the name of another person or another person's key.
 """
 
 from __future__ import annotations
@@ -33,12 +38,13 @@ from datetime import datetime
 from enum import StrEnum
 from typing import Any
 
-from sqlalchemy import update
+from sqlalchemy import select, update
 from sqlalchemy.orm import Session, sessionmaker
 
 from service.archive import audit
-from service.archive.db import KeyRow, SessionRow, now, utc
+from service.archive.db import KeyRow, PersonRow, SessionRow, now, utc
 from service.errors import Forbidden, InvalidRequest, NotFound, TooBusy, Unauthorized
+from service.workflow import names
 
 KDF = "scrypt-n16384-r8-p1"
 _N, _R, _P = 2**14, 8, 1
@@ -70,6 +76,13 @@ class Principal:
     name: str
     roles: frozenset[Role]
     families: frozenset[str]
+    person_id: str | None = None
+    """The person who holds the key; ``None`` only for a principal made without the archive."""
+
+    @property
+    def person(self) -> str:
+        """Who the key stands for in separation of duties: its person, else the key itself."""
+        return self.person_id or self.key_id
 
     def require(self, *roles: Role) -> None:
         """Raise :class:`Forbidden` unless the key holds one of ``roles``."""
@@ -89,16 +102,19 @@ def create(
     expires: datetime | None,
     by: Principal | None = None,
     allow_expired: bool = False,
+    person: str | None = None,
 ) -> tuple[str, str]:
     """A new key: returns ``(key_id, secret)``; the secret cannot be recovered later.
 
     ``by`` is the admin making it, or ``None`` from the command line (the operator's own console).
     A key that would be expired already is refused unless ``allow_expired`` (a key made to test
-    refusals).
+    refusals). ``person`` is the id of the person the key is for (another key of theirs); without
+    it the key is for a new person, whose name must not read like any other person's.
     """
     if by is not None:
         by.require(Role.admin)
     _validate(name=name, roles=roles, families=families, expires=expires)
+    name = names.normalise(name)
     if expires is not None and not allow_expired and utc(expires) <= now():
         raise InvalidRequest(
             f"the expiry time {utc(expires).isoformat()} has passed: the key could never be used; "
@@ -108,10 +124,12 @@ def create(
     secret = f"{key_id}.{secrets.token_urlsafe(32)}"
     salt = secrets.token_bytes(16)
     with sessions.begin() as session:
+        person_id = _person_for(session, name, person, by)
         session.add(
             KeyRow(
                 id=key_id,
-                name=name.strip(),
+                person_id=person_id,
+                name=name,
                 roles=sorted(r.value for r in roles),
                 families=sorted(families),
                 kdf=KDF,
@@ -122,12 +140,52 @@ def create(
                 revoked_at=None,
             )
         )
-        detail: dict[str, Any] = {"key": key_id, "name": name.strip()}
+        detail: dict[str, Any] = {"key": key_id, "name": name, "person": person_id}
         detail["roles"] = sorted(r.value for r in roles)
         detail["families"] = sorted(families)
         detail["expires"] = None if expires is None else utc(expires).isoformat()
         _audit(session, by, "key.created", detail)
     return key_id, secret
+
+
+def person_of(sessions: sessionmaker[Any], key_id: str) -> str:
+    """The id of the person who holds a key (to give them another key: ``create(person=…)``)."""
+    with sessions() as session:
+        row = session.get(KeyRow, key_id)
+    if row is None:
+        raise NotFound(f"there is no key '{key_id}'")
+    person: str = row.person_id
+    return person
+
+
+def person_named(sessions: sessionmaker[Any], name: str) -> str | None:
+    """The id of the person of exactly this name (as stored: normalised), or ``None``."""
+    with sessions() as session:
+        found = session.scalars(select(PersonRow.id).where(PersonRow.name == names.normalise(name)))
+        person: str | None = found.first()
+    return person
+
+
+def _person_for(session: Session, name: str, person: str | None, by: Principal | None) -> str:
+    """The person a new key belongs to: ``person`` if it exists, else a new person named ``name``;
+    refused if ``name`` reads like the name of anyone else or of a key of anyone else."""
+    if person is not None and session.get(PersonRow, person) is None:
+        raise NotFound(f"there is no person '{person}' (a key's person is printed with it)")
+    others = [(p.id, p.name) for p in session.scalars(select(PersonRow))]
+    others += [(k.person_id, k.name) for k in session.scalars(select(KeyRow))]
+    clash = names.confusable(name, [(pid, other) for pid, other in others if pid != person])
+    if clash is not None:
+        raise InvalidRequest(
+            f"the name '{name}' reads like '{clash[1]}', the name of person '{clash[0]}', who "
+            "holds a key already: a different person needs a name that cannot be taken for "
+            f"theirs; to give that person another key, make it for them (--person {clash[0]})"
+        )
+    if person is not None:
+        return person
+    person_id = f"person_{uuid.uuid4().hex[:16]}"
+    session.add(PersonRow(id=person_id, name=name, created_at=now()))
+    session.flush()
+    return person_id
 
 
 def authenticate(
@@ -207,6 +265,7 @@ def _principal(row: KeyRow, at: datetime | None) -> Principal:
         name=row.name,
         roles=frozenset(Role(r) for r in row.roles),
         families=frozenset(row.families),
+        person_id=row.person_id,
     )
 
 
@@ -277,8 +336,6 @@ def _grants(family: str, report_id: str) -> bool:
 
 
 def _validate(*, name: str, roles: set[Role], families: set[str], expires: datetime | None) -> None:
-    if not name.strip():
-        raise InvalidRequest("a key needs the name of the person or system that holds it")
     if not roles or not all(isinstance(r, Role) for r in roles):
         raise InvalidRequest(f"give one or more roles of: {', '.join(r.value for r in Role)}")
     bad = sorted(f for f in families if not _FAMILY.match(f))
@@ -310,6 +367,8 @@ __all__ = [
     "can_see",
     "create",
     "end_session",
+    "person_named",
+    "person_of",
     "principal_for",
     "revoke",
     "session_principal",

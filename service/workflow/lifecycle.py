@@ -103,7 +103,7 @@ def allowed(
 ) -> Allowed:
     """``waivable``: the pack has a failed check or standing waiver a reviewer may waive or
     confirm; ``blocked``: one is still open."""
-    is_author = review is not None and review.is_author(principal.key_id, principal.name)
+    is_author = review is not None and review.is_author(principal.key_id, principal.person)
     in_review = row.status == IN_REVIEW
     roles = principal.roles
     return Allowed(
@@ -122,7 +122,7 @@ def record_author(*, sessions: sessionmaker[Any], principal: Principal, pack_id:
         row = _visible(session, principal, pack_id)
         if row.status != DRAFT:
             raise Conflict(f"authors are recorded on drafts; this pack is {row.status}")
-        review_of(session, pack_id).add_author(principal.key_id, principal.name)
+        review_of(session, pack_id).add_author(principal.key_id, principal.name, principal.person)
         _record(session, principal, "pack.author_recorded", row, {})
 
 
@@ -132,7 +132,7 @@ def submit(*, sessions: sessionmaker[Any], principal: Principal, pack_id: str) -
     with sessions.begin() as session:
         row = _move(session, principal=principal, pack_id=pack_id, action="submit")
         review = review_of(session, pack_id)
-        review.add_author(principal.key_id, principal.name)
+        review.add_author(principal.key_id, principal.name, principal.person)
         review.submitted_sha256, review.submitted_at = row.pdf_sha256, now()
         _record(session, principal, "pack.submitted", row, _moved("submit"))
 
@@ -168,7 +168,7 @@ def waive(
         raise InvalidRequest(f"a waiver needs a reason of {MIN_REASON} to 2000 characters")
     with sessions.begin() as session:
         row = _move(session, principal=principal, pack_id=pack_id, action="waive")
-        if review_of(session, pack_id).is_author(principal.key_id, principal.name):
+        if review_of(session, pack_id).is_author(principal.key_id, principal.person):
             raise Forbidden("nobody waives checks on a pack they authored")
         if (check, chart) not in failed_checks(row) | standing_waived_checks(row):
             raise Conflict(
@@ -307,7 +307,7 @@ def sign_off(
 def _sign_off_rules(
     session: Session, principal: Principal, row: PackRow, review: ReviewRow, content_sha256: str
 ) -> None:
-    if review.is_author(principal.key_id, principal.name):
+    if review.is_author(principal.key_id, principal.person):
         raise Forbidden("an author cannot sign off their own pack (separation of duties)")
     if review.submitted_sha256 != content_sha256:
         raise Conflict(_CHANGED)

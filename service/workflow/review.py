@@ -274,7 +274,7 @@ def queue(*, sessions: sessionmaker[Any], principal: Principal) -> dict[str, lis
 
     def authored(row: PackRow) -> bool:
         review = drafts.review(sessions=sessions, pack_id=row.id)
-        return review is not None and review.is_author(principal.key_id, principal.name)
+        return review is not None and review.is_author(principal.key_id, principal.person)
 
     awaiting = [
         item(r, "You authored this pack." if authored(r) else "")

@@ -101,6 +101,8 @@ def review_and_seal(
 
 
 def _key(sessions: object, name: str, role: Role, report_id: str) -> Principal:
+    """A new key of the invented person ``name`` (the same person on every walkthrough in one
+    archive: a second person of that name would be refused)."""
     assert callable(sessions)
     key_id, secret = keys.create(
         sessions,  # type: ignore[arg-type]
@@ -108,6 +110,7 @@ def _key(sessions: object, name: str, role: Role, report_id: str) -> Principal:
         roles={role},
         families={report_id},
         expires=None,
+        person=keys.person_named(sessions, name),  # type: ignore[arg-type]
     )
     del key_id
     return keys.authenticate(sessions, secret)  # type: ignore[arg-type]

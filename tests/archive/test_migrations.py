@@ -4,6 +4,7 @@ reaches head with exactly the schema the models describe, downgrades to nothing 
 
 from __future__ import annotations
 
+import json
 import subprocess
 import sys
 import threading
@@ -15,7 +16,17 @@ from typing import Any
 import pytest
 from alembic.autogenerate import compare_metadata
 from alembic.migration import MigrationContext
-from sqlalchemy import Column, Engine, MetaData, String, create_engine, inspect, select, text
+from sqlalchemy import (
+    Column,
+    Engine,
+    MetaData,
+    String,
+    Table,
+    create_engine,
+    inspect,
+    select,
+    text,
+)
 
 from service.archive import migrate
 from service.archive.db import Base, KeyRow, connect, engine_of, now
@@ -33,6 +44,7 @@ TABLES = {
     "jobs",
     "audit",
     "sessions",
+    "persons",
 }
 
 
@@ -73,7 +85,7 @@ def expected_triggers(engine: Engine) -> set[str]:
 def test_an_empty_database_migrates_to_exactly_the_models(engine: Engine) -> None:
     assert migrate.current(engine) is None
     migrate.upgrade(engine)
-    assert migrate.current(engine) == migrate.head() == "0003"
+    assert migrate.current(engine) == migrate.head() == "0004"
     assert tables(engine) == TABLES
     assert drift(engine) == []
     assert triggers(engine) == expected_triggers(engine)
@@ -186,9 +198,10 @@ def test_connect_waits_for_a_migration_in_progress(database_url: str) -> None:
 def test_a_database_from_before_migrations_is_adopted(engine: Engine, database_url: str) -> None:
     """A database made by ``create_all`` of the first five tables (the archive before seals and
     idempotency existed) keeps its rows and gains the missing tables and the triggers."""
-    early = [
-        Base.metadata.tables[name] for name in ("packs", "keys", "reviews", "waivers", "audit")
-    ]
+    early = [Base.metadata.tables[name] for name in ("packs", "reviews", "waivers", "audit")]
+    keys_now = Base.metadata.tables["keys"]  # the keys table then had no person_id
+    columns = (c._copy() for c in keys_now.columns if c.name != "person_id")
+    Table("keys", MetaData(), *columns).create(engine)
     Base.metadata.create_all(engine, tables=early)
     with engine.begin() as connection:
         connection.execute(
@@ -218,3 +231,46 @@ def test_a_database_from_a_newer_version_is_refused_clearly(
         connect(database_url)
     assert "0999" in caught.value.message
     assert caught.value.status == 500
+
+
+def test_existing_keys_and_authors_gain_persons(engine: Engine) -> None:
+    """Each key made before persons gets a person; keys whose names were equal ignoring case
+    (until then "the same person") share one, and recorded authors gain their key's person."""
+    migrate.upgrade(engine, "0003")
+    key = (
+        "INSERT INTO keys (id, name, roles, families, kdf, salt, secret_hash, created_at) "
+        "VALUES (:id, :name, '[]', '[]', 'k', 's', 'h', :at)"
+    )
+    pack = (
+        "INSERT INTO packs (id, report_id, title, period, as_of, status, blocked, summary, "
+        "results, unused_waivers, definition_sha256, pdf_sha256, pdf_bytes, created_at) VALUES "
+        "('pk_1', 'r', 't', 'p', 'a', 'draft', false, '{}', '[]', '[]', 'd', 'p', 1, :at)"
+    )
+    authors = '[{"key_id": "key_ann", "name": "Ann Author"}, {"key_id": "key_ann2", "name": "ann author"}]'
+    with engine.begin() as connection:
+        for key_id, name in [
+            ("key_ann", "Ann Author"),
+            ("key_ann2", "ann author"),
+            ("key_rui", "Rui"),
+        ]:
+            connection.execute(text(key), {"id": key_id, "name": name, "at": now()})
+        connection.execute(text(pack), {"at": now()})
+        connection.execute(
+            text("INSERT INTO reviews (pack_id, authors) VALUES ('pk_1', :authors)"),
+            {"authors": authors},
+        )
+    migrate.upgrade(engine)
+    assert drift(engine) == []
+    with engine.connect() as connection:
+        person = dict(connection.execute(text("SELECT id, person_id FROM keys")).all())
+        names = dict(connection.execute(text("SELECT id, name FROM persons")).all())
+        recorded = connection.scalar(text("SELECT authors FROM reviews"))
+    assert person["key_ann"] == person["key_ann2"] != person["key_rui"]
+    assert names == {person["key_ann"]: "Ann Author", person["key_rui"]: "Rui"}
+    recorded = json.loads(recorded) if isinstance(recorded, str) else recorded
+    assert [a["person_id"] for a in recorded] == [person["key_ann"]] * 2
+    migrate.downgrade(engine, "0003")
+    with engine.connect() as connection:
+        recorded = connection.scalar(text("SELECT authors FROM reviews"))
+    recorded = json.loads(recorded) if isinstance(recorded, str) else recorded
+    assert recorded == json.loads(authors)

@@ -94,7 +94,9 @@ def test_a_job_posted_to_the_queue_ends_done_with_its_pdf_in_the_object_store(
     with stack.sessions() as session:
         review = session.get(ReviewRow, pack.id)
     assert review is not None
-    assert review.authors == [{"key_id": author.key_id, "name": "Ann Author"}]
+    assert review.authors == [
+        {"key_id": author.key_id, "name": "Ann Author", "person_id": author.person}
+    ]
     print(f"\njob end to end (demo pack, warm worker): {took:.2f} s")  # noqa: T201 - with -s
 
     # a second delivery of the finished job (as after a redelivery) does nothing

@@ -37,7 +37,8 @@ def test_create_prints_the_secret_once_and_stores_only_its_hash(tmp_path: Path) 
         data_dir=tmp_path,
     )
     assert made.returncode == 0, made.stderr
-    key_line, secret_line = made.stdout.splitlines()
+    key_line, secret_line, person_line = made.stdout.splitlines()
+    assert person_line.startswith("person person_")
     key_id = key_line.removeprefix("key ")
     secret = secret_line.rsplit(" ", 1)[-1]
     assert secret.startswith(key_id)
@@ -72,3 +73,29 @@ def test_an_unknown_role_or_a_zoneless_expiry_is_refused(tmp_path: Path) -> None
     )
     assert no_zone.returncode == 2
     assert "give a time zone" in no_zone.stderr
+
+
+def test_a_name_that_reads_like_another_persons_is_refused_and_a_person_gets_a_second_key(
+    tmp_path: Path,
+) -> None:
+    def create(name: str, *more: str) -> subprocess.CompletedProcess[str]:
+        return _cli("keys", "create", "--name", name, "--family", "*", *more, data_dir=tmp_path)
+
+    first = create("Alice Author", "--role", "author")
+    assert first.returncode == 0, first.stderr
+    person = first.stdout.splitlines()[2].split()[1]
+    look_alike = create("\u0410\u0406\u0456\u0441\u0435 Author", "--role", "approver")
+    assert look_alike.returncode == 2
+    assert "mixes scripts (Cyrillic, Latin)" in look_alike.stderr
+    hidden = create("Alice\u200b Author", "--role", "approver")
+    assert hidden.returncode == 2
+    assert "U+200B ZERO WIDTH SPACE" in hidden.stderr
+    same = create("alice author", "--role", "approver")
+    assert same.returncode == 2
+    assert f"reads like 'Alice Author', the name of person '{person}'" in same.stderr
+    assert f"--person {person}" in same.stderr
+    second = create("Alice Author", "--role", "approver", "--person", person)
+    assert second.returncode == 0, second.stderr
+    assert second.stdout.splitlines()[2].split()[1] == person
+    with sqlite3.connect(tmp_path / "plumbline.db") as db:
+        assert db.execute("SELECT count(*) FROM persons").fetchone() == (1,)

@@ -13,6 +13,7 @@ import socket
 import time
 from typing import Any
 
+import httpx
 from factories import (
     make_category_dataset,
     make_column,
@@ -158,6 +159,36 @@ def test_the_server_cuts_off_a_chunked_body_long_before_its_end(start_server: St
     # what was sent before the answer: the limit plus what the kernels' socket buffers held
     assert sent < 32 * 1024 * 1024, sent
     assert sent < offered // 8
+
+
+# --- header blocks: 431 with a problem document, never a reset connection ------------------------
+
+
+def test_an_oversized_header_block_is_answered_431_not_reset(start_server: Start) -> None:
+    """The issue's 200 kB Authorization header reset the connection. A block that arrives whole
+    (20 kB) is measured by the app; one still arriving is stopped by the parser: the same 431."""
+    server = start_server()
+    with httpx.Client(base_url=server.base, timeout=30) as http:
+        for size in (20_000, 200_000, 5_000_000):
+            answer = http.get("/v1/reports", headers={"Authorization": "Bearer " + "k" * size})
+            assert answer.status_code == 431, size
+            assert answer.headers["content-type"] == "application/problem+json"
+            problem = answer.json()
+            assert problem["code"] == "headers_too_large"
+            assert problem["setting"] == "PLUMBLINE_MAX_HEADER_BYTES"
+            assert problem["limit"] == 16_384
+            assert "larger than the limit of 16384 bytes" in problem["detail"]
+            assert "k" * 100 not in answer.text  # the header is not echoed
+        many = {f"X-Filler-{i}": "v" * 900 for i in range(40)}  # 36 kB in 40 headers
+        assert http.get("/v1/health", headers=many).status_code == 431
+        assert http.get("/v1/health").status_code == 200  # and the service serves on
+
+
+def test_a_header_block_within_the_limit_is_read(start_server: Start) -> None:
+    server = start_server(PLUMBLINE_MAX_HEADER_BYTES="65536")
+    with httpx.Client(base_url=server.base, timeout=30) as http:
+        answer = http.get("/v1/reports", headers={"Authorization": "Bearer " + "k" * 40_000})
+    assert answer.status_code == 401  # read, and refused as a key
 
 
 # --- definition limits ----------------------------------------------------------------------------

@@ -59,6 +59,7 @@ def test_create_returns_the_secret_once_and_authenticates(sessions: sessionmaker
         name="Ann Author",
         roles=frozenset({Role.author, Role.reviewer}),
         families=frozenset({"hollin-vale"}),
+        person_id=keys.person_of(sessions, key_id),
     )
 
 
@@ -217,3 +218,84 @@ def test_error_classes_are_product_errors() -> None:
     ]:
         assert issubclass(error, PlumblineError)
         assert (error.status, error.code) == (status, code)
+
+
+# --- persons: separation of duties compares people, and names that read alike are refused ---------
+
+
+def test_each_key_belongs_to_a_new_person_unless_made_for_one(sessions: sessionmaker[Any]) -> None:
+    ann_key, ann_secret = _key(sessions)
+    rui_key, _ = _key(sessions, name="Rui Reviewer")
+    ann = keys.person_of(sessions, ann_key)
+    assert ann.startswith("person_")
+    assert ann != keys.person_of(sessions, rui_key)
+    second, second_secret = _key(sessions, roles={Role.approver}, person=ann)
+    assert keys.person_of(sessions, second) == ann
+    assert authenticate(sessions, second_secret).person == authenticate(sessions, ann_secret).person
+    with pytest.raises(NotFound, match="no person 'person_nobody'"):
+        _key(sessions, name="Ann's laptop", person="person_nobody")
+
+
+@pytest.mark.parametrize(
+    ("name", "why"),
+    [
+        ("\u0410lice Author", "mixes scripts (Cyrillic, Latin)"),  # Cyrillic capital A
+        ("Alice\u200b Author", "U+200B ZERO WIDTH SPACE"),
+        ("Alice Author\u2066", "U+2066 LEFT-TO-RIGHT ISOLATE"),
+        ("Alice\ufe0f Author", "U+FE0F VARIATION SELECTOR-16"),
+        ("alice author", "reads like 'Alice Author'"),
+        ("A\u200clice Author", "U+200C ZERO WIDTH NON-JOINER"),
+        ("\u0391lice Author", "mixes scripts (Greek, Latin)"),
+    ],
+)
+def test_a_name_that_reads_like_another_persons_is_refused(
+    sessions: sessionmaker[Any], name: str, why: str
+) -> None:
+    """The issue's approver keys "Аlice Author" and "Alice\\u200b Author" are never made."""
+    _key(sessions, name="Alice Author")
+    with pytest.raises(InvalidRequest) as refused:
+        _key(sessions, name=name, roles={Role.approver})
+    assert why in refused.value.message
+
+
+def test_a_confusable_name_in_one_script_is_refused_by_its_skeleton(
+    sessions: sessionmaker[Any],
+) -> None:
+    alice, _ = _key(sessions, name="Asa Coe")
+    person = keys.person_of(sessions, alice)
+    look_alike = "\u0410\u0455\u0430 \u0421\u043e\u0435"  # every letter Cyrillic: "Аѕа Сое"
+    with pytest.raises(InvalidRequest) as refused:
+        _key(sessions, name=look_alike, roles={Role.approver})
+    assert refused.value.message == (
+        f"the name '{look_alike}' reads like 'Asa Coe', the name of person '{person}', who holds "
+        "a key already: a different person needs a name that cannot be taken for theirs; to give "
+        f"that person another key, make it for them (--person {person})"
+    )
+    with pytest.raises(InvalidRequest, match="reads like 'Asa Coe'"):
+        _key(sessions, name="Asa  Coe")  # the same name, spaced
+    with pytest.raises(InvalidRequest, match="reads like 'Asa Coe'"):
+        _key(sessions, name="\uff21\uff53\uff41 Coe")  # full-width letters: NFKC makes them plain
+    _key(sessions, name="Asa Coe (laptop)", person=person)
+    with pytest.raises(InvalidRequest, match=r"reads like 'Asa Coe \(laptop\)'"):
+        _key(sessions, name="Asa Coe (1aptop)")  # a key's own name counts too
+
+
+def test_names_are_stored_in_nfkc_with_single_spaces(sessions: sessionmaker[Any]) -> None:
+    _, secret = _key(sessions, name="  \uff22\uff4f  Builder\u00a0Jr. ")
+    assert authenticate(sessions, secret).name == "Bo Builder Jr."
+    _, secret = _key(sessions, name="\u5c71\u7530 \u3072\u308d\u3057")  # Han with Hiragana
+    assert authenticate(sessions, secret).name == "\u5c71\u7530 \u3072\u308d\u3057"
+
+
+def test_a_second_walkthrough_in_one_archive_gives_the_same_invented_person_a_new_key(
+    sessions: sessionmaker[Any],
+) -> None:
+    """``plumbline walkthrough`` (``make demo``) makes its keys in the configured archive on every
+    run; a second "Demo Author" would be refused as another person of the same name."""
+    from service.workflow import walkthrough
+
+    first = walkthrough._key(sessions, "Demo Author", Role.author, "test-pack")
+    second = walkthrough._key(sessions, "Demo Author", Role.author, "test-pack")
+    assert first.key_id != second.key_id
+    assert first.person == second.person == keys.person_named(sessions, "Demo  Author")
+    assert keys.person_named(sessions, "Demo Reviewer") is None

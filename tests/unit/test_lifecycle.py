@@ -45,11 +45,14 @@ class World:
             "Mo Elsewhere", Role.author, Role.reviewer, Role.approver, family="marsh-end"
         )
 
-    def key(self, name: str, *roles: Role, family: str = "hollin-vale") -> Principal:
+    def key(
+        self, name: str, *roles: Role, family: str = "hollin-vale", person: str | None = None
+    ) -> Principal:
         """A principal as ``keys.authenticate`` returns it (scrypt per key would slow every test;
         ``test_keys_made_and_authenticated_drive_the_lifecycle`` goes through the real keys)."""
         key_id = f"key_{uuid.uuid4().hex[:16]}"
-        return Principal(key_id, name, frozenset(roles), frozenset({family}))
+        person = person or f"person_{uuid.uuid4().hex[:16]}"
+        return Principal(key_id, name, frozenset(roles), frozenset({family}), person)
 
     def pack(
         self,
@@ -270,7 +273,7 @@ def test_nobody_waives_checks_on_a_pack_they_authored(w: World, tmp_path: Path) 
     w.submit(pack, w.all_rounder)
     with pytest.raises(Forbidden, match="authored"):
         w.waive(pack, "precision", "riders", principal=w.all_rounder)
-    twin = w.key("sam both", Role.reviewer)  # the same person's second key
+    twin = w.key("Sam's reviewer key", Role.reviewer, person=w.all_rounder.person)
     with pytest.raises(Forbidden, match="authored"):
         w.waive(pack, "precision", "riders", principal=twin)
     w.waive(pack, "precision", "riders")
@@ -491,4 +494,48 @@ def test_keys_made_and_authenticated_drive_the_lifecycle(w: World) -> None:
     w.submit(pack, made["Ann"])
     w.waive(pack, "precision", "riders", principal=made["Rui"])
     w.sign(pack, made["Pat"])
+    assert w.status(pack.id) == "signed_off"
+
+
+def test_two_keys_of_one_person_cannot_author_and_approve_or_review(w: World) -> None:
+    """Separation of duties compares persons: a second key of the author, whatever its name, is
+    still the author; another person is not, whatever their key is called."""
+    _, author_secret = create(
+        w.sessions, name="Alice Author", roles={Role.author}, families={"hollin-vale"}, expires=None
+    )
+    author = authenticate(w.sessions, author_secret)
+    made: dict[str, Principal] = {}
+    for role in (Role.approver, Role.reviewer):
+        _, secret = create(
+            w.sessions,
+            name=f"A. A. {role.value} key",
+            roles={role},
+            families={"hollin-vale"},
+            expires=None,
+            person=author.person,
+        )
+        made[role] = authenticate(w.sessions, secret)
+    pack = w.pack(failed=[("precision", "riders")])
+    w.submit(pack, author)
+    with pytest.raises(Forbidden, match="authored"):
+        w.waive(pack, "precision", "riders", principal=made[Role.reviewer])
+    w.waive(pack, "precision", "riders")
+    with pytest.raises(Forbidden, match="separation of duties"):
+        w.sign(pack, made[Role.approver])
+    with w.sessions() as session:
+        row = session.get(PackRow, pack.id)
+        review = session.get(ReviewRow, pack.id)
+    assert row is not None
+    assert review is not None
+    may = lifecycle.allowed(made[Role.approver], row, review, waivable=False, blocked=False)
+    assert may.is_author
+    assert not may.sign_off
+    namesake = Principal(
+        "key_namesake00001",
+        "Alice Author",
+        frozenset({Role.approver}),
+        frozenset({"hollin-vale"}),
+        person_id="person_someone_else",
+    )
+    w.sign(pack, namesake)  # a name is not a person: one who only shares it may sign off
     assert w.status(pack.id) == "signed_off"

@@ -39,6 +39,18 @@ def allocates(mb: int) -> int:
     return len(block)
 
 
+def stalls_at_the_limit() -> None:
+    """Take memory until refused, then wait for ever: as native code that retries a refused
+    allocation in a loop (OpenBLAS) behaves under the limit, neither failing nor finishing."""
+    held = []
+    try:
+        while True:
+            held.append(bytearray(16 * 1024 * 1024))
+    except MemoryError:
+        held.pop()
+    time.sleep(3600)
+
+
 def aborts() -> None:
     os.abort()  # as Rust code does when an allocation is refused
 
@@ -206,3 +218,22 @@ def test_a_short_pool_is_reported_and_makes_the_service_not_ready() -> None:
     )
     with pytest.raises(NotReady, match="1 of 1 render workers stopped"):
         Services.probe_workers(services)
+
+
+def test_with_no_time_budget_a_job_stalled_at_the_memory_limit_is_stopped() -> None:
+    """``plumbline render --time-limit 0 --memory-limit MB`` once waited for ever on a job stalled
+    at its memory limit: only the deadline, which it did not have, judged a stall."""
+    workers = Pool(1, timeout=float("inf"), memory_mb=400, stall_s=2)
+    try:
+        started = time.monotonic()
+        with pytest.raises(RenderMemory, match="400 MB"):
+            workers.run(stalls_at_the_limit)
+        assert time.monotonic() - started < 30
+        assert workers.run(pid) != 0  # a fresh worker serves the next job
+    finally:
+        workers.close()
+
+
+def test_the_stopped_job_is_named_in_the_message(pool: Pool) -> None:
+    with pytest.raises(RenderTimeout, match=r"^the verification took longer than its time budget"):
+        pool.run(time.sleep, 30, timeout=0.5, task="verification")

@@ -67,3 +67,15 @@ def test_an_integer_of_more_than_4300_digits_is_a_problem_not_a_crash() -> None:
     problems = problems_of(raw)
     assert [p.code for p in problems] == ["invalid_json"]
     assert "4,300 digits" in problems[0].message
+
+
+def test_a_json_integer_too_large_for_a_float_is_a_problem_not_a_crash() -> None:
+    """10^400 in a number column answered 500 (found by re-running the outside attacks):
+    pandas cannot make a float of it."""
+    for exponent in (18, 309, 400):
+        raw = encode(make_definition()).replace(
+            b'"boardings": 52010', f'"boardings": {10**exponent}'.encode()
+        )
+        problem = find(problems_of(raw), "unparseable_value")
+        assert problem.path == "datasets[0].rows[2].boardings"
+        assert "10^18" in problem.hint or "10^18" in problem.message

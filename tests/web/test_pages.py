@@ -178,10 +178,11 @@ def test_a_cookie_captured_before_the_session_ended_is_refused(site: Site, how: 
     revocation reads no page and waives nothing."""
     sessions = site.services.sessions
     pack = site.draft()
+    name = f"Rae Replay ({how})"  # one person per case: a second "Rae Replay" would be refused
     key_id, secret = keys.create(
-        sessions, name="Rae Replay", roles={Role.reviewer}, families={"hollin-vale"}, expires=None
+        sessions, name=name, roles={Role.reviewer}, families={"hollin-vale"}, expires=None
     )
-    person = Person(site.base, secret, "Rae Replay")
+    person = Person(site.base, secret, name)
     site.opened.append(person)
     assert person.sign_in().status_code == 303
     page = person.http.get(f"/review/packs/{pack['id']}").text
@@ -380,6 +381,7 @@ def test_the_author_cannot_sign_off(site: Site) -> None:
         roles={Role.approver},
         families={"hollin-vale"},
         expires=None,
+        person=keys.person_of(site.services.sessions, site.key_ids["author"]),
     )
     twin = Person(site.base, secret, "Ada Author")
     site.opened.append(twin)
