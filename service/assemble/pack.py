@@ -272,10 +272,25 @@ class Pages:
     marks: dict[str, int] = field(default_factory=dict)
 
     def chart(self, chart_id: str) -> str:
-        return str(self.charts.get(chart_id, "–"))
+        """The page of a chart, or of a table (the appendix lists both by id)."""
+        return str(self.charts.get(chart_id, self.marks.get(f"table:{chart_id}", "–")))
 
     def mark(self, key: str) -> str:
         return str(self.marks.get(key, "–"))
+
+
+class Mark(Flowable):  # type: ignore[misc]
+    """Nothing drawn: records the page it falls on under ``key`` (where a table starts)."""
+
+    def __init__(self, key: str, marks: dict[str, int]) -> None:
+        super().__init__()
+        self._key, self._marks = key, marks
+
+    def wrap(self, avail_width: float, avail_height: float) -> tuple[float, float]:
+        return 0.0, 0.0
+
+    def draw(self) -> None:
+        self._marks[self._key] = self.canv.getPageNumber()
 
 
 class Heading(Paragraph):  # type: ignore[misc]
@@ -467,6 +482,8 @@ def _contents(content: PackContent, s: dict[str, Any], pages: Pages) -> Table:
         for block in section.blocks:
             if isinstance(block, ChartBlock):
                 entries.append((block.title, pages.chart(block.chart_id), False))
+            else:
+                entries.append((block.title, pages.chart(block.table_id), False))
     entries.append((say("appendix.title", locale), pages.mark("appendix"), True))
     for part in _APPENDIX_PARTS:
         entries.append(
@@ -527,6 +544,7 @@ def _section(
             yield _chart(block, s, found, (locale, pages))
         else:
             yield CondPageBreak(TABLE_START)
+            yield Mark(f"table:{block.table_id}", marks)
             yield from tables.flowables(block, s)
     yield Spacer(1, 10)
 

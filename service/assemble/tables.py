@@ -42,6 +42,8 @@ class TableBlock:
     """The last row is the totals row."""
     continued: str = ""
     """The title over the rest of the table on a following page."""
+    table_id: str = ""
+    """The table's id in the definition (the contents and the appendix give its page)."""
 
 
 def block(plan: TablePlan, locale: str) -> TableBlock:
@@ -66,6 +68,7 @@ def block(plan: TablePlan, locale: str) -> TableBlock:
         quiet=[r for r, row in enumerate(plan.rows) if row.state == "missing"],
         totals=bool(plan.totals),
         continued=wording.say("table.continued", locale, title=plan.title),
+        table_id=plan.table_id,
     )
 
 
