@@ -74,7 +74,7 @@ def result(
     waiver, or None and the date an expired one ran out."""
     before = (
         f"{report.overlaps_before} overlaps, {report.clipped_before} cut off, "
-        f"{report.collisions_before} texts over data"
+        f"{report.collisions} texts over data"
     )
     after = (
         f"{report.overlaps} overlaps, {report.clipped} cut off, {report.collisions} texts over data"
@@ -82,7 +82,7 @@ def result(
     base = {
         "check": SPEC.id,
         "chart": plan.chart_id,
-        "measured": report.overlaps_before + report.clipped_before + report.collisions_before,
+        "measured": report.overlaps_before + report.clipped_before + report.collisions,
         "measured_text": before,
         "threshold": SPEC.threshold,
         "source": SPEC.source,
