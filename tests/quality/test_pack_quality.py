@@ -21,14 +21,18 @@ from service.checks.results import CheckResult, Status
 from service.config import Limits
 from tests.quality import pack_quality as quality
 
-MET: frozenset[str] = frozenset({"height_share", "text_over_data", "key_mismatches"})
+MET: frozenset[str] = frozenset(
+    {
+        "height_share",
+        "text_over_data",
+        "key_mismatches",
+        "raw_identifiers",
+        "missing_table_periods",
+    }
+)
 """Figures the demo meets today (asserted met)."""
-CEILINGS: dict[str, float] = {
-    "raw_identifiers": 22,
-    "missing_table_periods": 1,
-    "sparse_pages": 0,
-}
-"""Today's numbers of the figures the demo does not meet yet: they may only fall."""
+CEILINGS: dict[str, float] = {"sparse_pages": 0}
+"""Today's numbers of the figures the demo has no target for (reported): they may only fall."""
 FLOORS: dict[str, float] = {}
 """The same for figures that must rise (a share)."""
 
