@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 import uuid
 from collections.abc import Callable
@@ -23,7 +24,6 @@ from service.config import Settings, get_settings
 from service.errors import (
     MAX_LISTED_PROBLEMS,
     InvalidDefinition,
-    PayloadTooLarge,
     PlumblineError,
     RenderTimeout,
     Unreadable,
@@ -48,12 +48,12 @@ def main(argv: list[str] | None = None) -> int:
         return int(args.run(args, settings))
     except InvalidDefinition as exc:
         return _invalid(exc, json_out=getattr(args, "json", False))
-    except PayloadTooLarge as exc:
-        print(f"error: {exc.message}", file=sys.stderr)
-        return EXIT_INVALID
     except PlumblineError as exc:
         print(f"error: {exc.message}", file=sys.stderr)
         return EXIT_INVALID if exc.status < 500 else EXIT_INTERNAL
+    except BrokenPipeError:  # the reader stopped reading (``| head``): not a fault, nothing to say
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())  # no second error at exit
+        return EXIT_OK
     except Exception as exc:  # noqa: BLE001 - the one last-resort handler: no traceback for users
         incident = uuid.uuid4().hex[:12]
         print(

@@ -82,8 +82,8 @@ def _end_measure(plan: ChartPlan, ctx: Context) -> Finding:
 
 def _partial_measure(plan: ChartPlan, ctx: Context) -> Finding:
     share = off_scale.complete_share(plan, zero=_zero_based(ctx))
-    shown = f"{share:.0%}".replace("%", " %")
-    percent = round(share * 100)
+    percent = formatting.percent(round(share * 100), ctx.locale)
+    shown = percent
     if share < scales.MIN_COMPLETE_SHARE:
         detail = wording.say("scale.partial_squeezed", ctx.locale, share=percent)
         return Finding(False, round(share, 4), detail, shown)
@@ -177,7 +177,7 @@ PARTIAL = register(
         measures="the share of the plot height the complete periods use (with the references "
         "and the zero line the scale must show), and whether a partial value outside the scale "
         "is marked off-scale with its value and completeness",
-        threshold=f"at least {scales.MIN_COMPLETE_SHARE:.0%} of the height".replace("%", " %"),
+        threshold=f"at least {scales.MIN_COMPLETE_SHARE:.0%} of the height",
         source="Cleveland, 'The Elements of Graphing Data' (1994), p. 94 (fill the data region); "
         "common practice",
         waivable=False,

@@ -106,15 +106,15 @@ WORDS: dict[str, str] = {
         "Die Prozentachse reicht bis {hi}, über 100 % hinaus, obwohl kein Wert über {top} liegt."
     ),
     "scale.partial_ok": (
-        "Die vollständigen Zeiträume nutzen {share} % der Diagrammhöhe; die Werte des laufenden "
+        "Die vollständigen Zeiträume nutzen {share} der Diagrammhöhe; die Werte des laufenden "
         "Zeitraums liegen auf der Skala oder sind außerhalb markiert."
     ),
     "scale.partial_squeezed": (
-        "Die vollständigen Zeiträume nutzen nur {share} % der Diagrammhöhe: der laufende Zeitraum "
+        "Die vollständigen Zeiträume nutzen nur {share} der Diagrammhöhe: der laufende Zeitraum "
         "bestimmt die Skala."
     ),
     "scale.partial_unmarked": (
-        "Die vollständigen Zeiträume nutzen {share} % der Diagrammhöhe, aber ein Wert des laufenden "
+        "Die vollständigen Zeiträume nutzen {share} der Diagrammhöhe, aber ein Wert des laufenden "
         "Zeitraums liegt ohne Markierung außerhalb der Skala."
     ),
     # -- appendix ----------------------------------------------------------------------------------

@@ -94,17 +94,17 @@ WORDS: dict[str, str] = {
         "The value axis starts at {lo}, a whole tick step or more before the least value shown "
         "({bottom})."
     ),
-    "scale.end_percent": "The percentage axis runs to {hi}, past 100 %, though no value is above {top}.",
+    "scale.end_percent": "The percentage axis runs to {hi}, past 100%, though no value is above {top}.",
     "scale.partial_ok": (
-        "The complete periods use {share} % of the plot height; the partial period's values are on "
+        "The complete periods use {share} of the plot height; the partial period's values are on "
         "the scale or marked off it."
     ),
     "scale.partial_squeezed": (
-        "The complete periods use only {share} % of the plot height: the partial period decides the "
+        "The complete periods use only {share} of the plot height: the partial period decides the "
         "scale."
     ),
     "scale.partial_unmarked": (
-        "The complete periods use {share} % of the plot height, but a value of the partial period "
+        "The complete periods use {share} of the plot height, but a value of the partial period "
         "lies outside the scale with no off-scale mark."
     ),
     # -- appendix ----------------------------------------------------------------------------------

@@ -85,3 +85,30 @@ def test_each_command_help_is_plain_text(capsys: pytest.CaptureFixture[str], nam
     text = _help(capsys, [name])
     assert text.startswith(f"usage: plumbline {name}")
     assert not MARKUP.search(text), MARKUP.search(text)
+
+
+def test_a_reader_that_stops_reading_is_not_an_internal_error() -> None:
+    """``plumbline check … | head -1`` once printed "internal error … BrokenPipeError"."""
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[2]
+    command = [
+        sys.executable,
+        "-m",
+        "service.cli",
+        "check",
+        "sample_requests/first-definition.json",
+    ]
+    with subprocess.Popen(
+        command, cwd=root, stdout=subprocess.PIPE, stderr=subprocess.PIPE
+    ) as process:
+        assert process.stdout is not None
+        assert process.stderr is not None
+        process.stdout.readline()
+        process.stdout.close()  # as `head -1` does
+        errors = process.stderr.read().decode()
+        assert process.wait(timeout=120) == 0
+    assert "internal error" not in errors
+    assert "Traceback" not in errors
