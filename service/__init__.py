@@ -11,4 +11,4 @@ Each stage imports only stages to its left (and shared models); nothing imports 
 __version__ = "0.1.0"
 
 #: Bumped whenever a change to drawing or layout changes output bytes for the same input.
-STYLE_VERSION = "6"
+STYLE_VERSION = "7"

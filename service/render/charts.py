@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import io
-import textwrap
 import warnings
 from collections.abc import Callable
 from typing import Any
@@ -88,13 +87,8 @@ def figure_for(plan: ChartPlan) -> Figure:
         DRAWERS[plan.form](figure, plan)
         ax = figure.axes[0]
         if plan.notes:
-            ax.set_title(
-                "\n".join(textwrap.fill(note, NOTE_WIDTH) for note in plan.notes),
-                loc="left",
-                color=style.INK,
-                fontsize=7.5,
-                fontstyle="italic",
-                parse_math=False,
+            layout.set_notes(
+                ax, list(plan.notes), NOTE_WIDTH, color=style.INK, fontsize=7.5, fontstyle="italic"
             )
         if plan.flags:
             figure.suptitle(

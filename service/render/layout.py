@@ -8,10 +8,14 @@ check ``label-layout`` turns the report into a result.
 
 from __future__ import annotations
 
+import textwrap
 import warnings
+from typing import Any
+from weakref import WeakKeyDictionary
 
 from matplotlib.axes import Axes
 from matplotlib.axis import XAxis, YAxis
+from matplotlib.backend_bases import RendererBase
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 from matplotlib.text import Text
@@ -22,6 +26,42 @@ from service.render.measured import LayoutReport
 
 #: Text may reach this close to the figure's edge (pixels at the figure's dpi) before it is cut.
 EDGE_TOLERANCE_PX = 1.0
+
+_NOTES: WeakKeyDictionary[Text, tuple[list[str], int]] = WeakKeyDictionary()
+"""The notes over a chart, unwrapped, and the width they were wrapped to, by the title that
+shows them (so the mender can wrap them again to the room the layout left)."""
+
+
+def set_notes(ax: Axes, notes: list[str], width: int, **style: Any) -> None:
+    """Write the chart's notes over its plot, from the plot's left edge, wrapped to ``width``
+    characters; :func:`mend` wraps them narrower if the layout leaves them less room."""
+    title = ax.set_title(_wrapped(notes, width), loc="left", parse_math=False, **style)
+    _NOTES[title] = (notes, width)
+
+
+def _wrapped(notes: list[str], width: int) -> str:
+    return "\n".join(textwrap.fill(note, width) for note in notes)
+
+
+def _rewrap_notes(figure: Figure, renderer: RendererBase) -> bool:
+    """Wrap notes that run past the figure's right edge to the room they have; True if any did
+    (the figure must then be laid out again)."""
+    edge = figure.bbox.padded(EDGE_TOLERANCE_PX)
+    changed = False
+    for title, (notes, width) in list(_NOTES.items()):
+        if title.figure is not figure:
+            continue
+        box = title.get_window_extent(renderer)
+        if box.x1 <= edge.x1 or box.width <= 0:
+            continue
+        room = (edge.x1 - box.x0) / box.width  # the share of the widest line that fits
+        narrower = max(20, int(width * room) - 2)
+        if narrower >= width:
+            continue
+        title.set_text(_wrapped(notes, narrower))
+        _NOTES[title] = (notes, narrower)
+        changed = True
+    return changed
 
 
 def _visible(texts: list[Text]) -> list[Text]:
@@ -141,6 +181,10 @@ def mend(figure: Figure, *, attempts: int = 3, locale: str = "en-GB") -> LayoutR
             renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
         keyed += more
         report.actions += [f"moved the label '{k.text}' into the key" for k in keyed]
+    if _rewrap_notes(figure, renderer):  # the notes over a plot set far right (long category names)
+        collapsed = not lay_out(figure)
+        renderer = figure.canvas.get_renderer()  # type: ignore[attr-defined]
+        place.place(figure, renderer)
     report.overlaps_before, report.clipped_before = report.overlaps, report.clipped = measure(
         figure, laid_out=True, collapsed=collapsed
     )

@@ -139,3 +139,27 @@ def test_finishing_adds_label_layout_last_and_uses_its_waiver_once_drawn() -> No
     clean = engine.finish(checked, [LayoutReport()])
     assert clean.charts[0].results[-1].status is Status.passed
     assert clean.unused_waivers == ["label-layout on boardings-trend"]
+
+
+def test_notes_over_a_plot_set_far_right_are_wrapped_to_the_room_left() -> None:
+    """The German demo's rating chart: long route names push the plot (and the notes over it,
+    which start at its left edge) to the right, and the German notes are longer; they once ran
+    past the figure's edge, and label-layout failed with "1 cut off"."""
+    import json
+    from pathlib import Path
+
+    from service import pipeline
+    from service.config import Limits
+
+    demo = Path(__file__).resolve().parents[2] / "sample_requests" / "bus-cooperative-monthly.json"
+    definition = json.loads(demo.read_text())
+    definition["report"]["locale"] = "de-DE"
+    checked = pipeline.check(pipeline.intake(json.dumps(definition).encode(), Limits()))
+    plan = next(c.plan for c in checked.charts if c.plan.chart_id == "rating-by-route")
+    figure = charts.figure_for(plan)
+    title = figure.axes[0].get_title(loc="left")
+    report = layout.mend(figure, locale=plan.locale)
+    assert (report.overlaps, report.clipped) == (0, 0)
+    assert figure.axes[0].get_title(loc="left") != title  # wrapped again, narrower
+    longest = max(len(line) for line in figure.axes[0].get_title(loc="left").splitlines())
+    assert longest < max(len(line) for line in title.splitlines())
