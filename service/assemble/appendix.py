@@ -13,7 +13,7 @@ from __future__ import annotations
 from collections.abc import Iterable
 from dataclasses import dataclass
 
-from service.checks import registry
+from service.checks import engine, registry
 from service.checks.outcome import Checked
 from service.checks.results import CheckResult, Status, summary
 from service.wording import say
@@ -124,7 +124,7 @@ def _attention(result: CheckResult, title: str, locale: str) -> Attention:
     why = result.explanation
     measured = result.measured_text
     if result.status is Status.corrected:
-        correction = registry.rule(result.check).correction or ""
+        correction = engine.correction(registry.rule(result.check), locale)
         why = why.replace(correction, "").strip()
         done = say("appendix.done_corrected", locale, correction=correction)
         if result.corrected_to:

@@ -97,7 +97,7 @@ def _run(
     return plan
 
 
-def correction(spec: CheckSpec, locale: str) -> str:
+def correction(spec: CheckSpec | registry.TableCheckSpec, locale: str) -> str:
     """What a check's correction did, in the report's language (the registry holds the English)."""
     key = f"finding.correction.{spec.id}"
     return wording.say(key, locale) if key in wording.CATALOGUES["en"] else spec.correction or ""
