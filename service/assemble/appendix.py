@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from service.checks import engine, registry
 from service.checks.outcome import Checked
 from service.checks.results import CheckResult, Status, summary
-from service.wording import say
+from service.wording import CATALOGUES, say
 
 ATTENTION = (Status.failed, Status.waived, Status.corrected, Status.advice)
 """The statuses a reviewer must look at, worst first."""
@@ -62,6 +62,14 @@ class Appendix:
     rules: list[Rule]
 
 
+def counted(count: int, status: Status, locale: str) -> str:
+    """``count`` results of a status, in the locale's words ("3 Hinweise", "1 Hinweis")."""
+    key = f"appendix.status_{status.value}_many"
+    if count != 1 and key in CATALOGUES["en"]:
+        return f"{count} {say(key, locale)}"
+    return f"{count} {status_text(status, locale)}"
+
+
 def status_text(status: Status, locale: str) -> str:
     return say(f"appendix.status_{status.value}", locale)
 
@@ -72,13 +80,13 @@ def counts_text(results: Iterable[CheckResult], locale: str) -> str:
     counts = summary(list(results))
     inapplicable = counts.pop(Status.not_applicable.value)
     shown = [
-        f"{n} {status_text(Status(s), locale)}"
+        counted(n, Status(s), locale)
         for s, n in counts.items()
         if n or s in (Status.passed.value, Status.failed.value)
     ]
     text = f"{say('appendix.count', locale, count=sum(counts.values()))}: {', '.join(shown)}"
     if inapplicable:
-        text += f"; {inapplicable} {status_text(Status.not_applicable, locale)}"
+        text += f"; {counted(inapplicable, Status.not_applicable, locale)}"
     return text
 
 

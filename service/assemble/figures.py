@@ -16,7 +16,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from service import formatting
-from service.assemble.appendix import counts_text, status_text
+from service.assemble.appendix import counted, counts_text
 from service.checks.outcome import Checked, CheckedChart
 from service.checks.results import Status
 from service.definition.model import DistributionChart
@@ -97,7 +97,7 @@ def _checks(item: CheckedChart, locale: str) -> tuple[str, str]:
     counts = {s: sum(r.status is s for r in item.results) for s in Status}
     for status in _WORST:
         if counts[status]:
-            shown = [f"{counts[s]} {status_text(s, locale)}" for s in _WORST if counts[s]]
+            shown = [counted(counts[s], s, locale) for s in _WORST if counts[s]]
             return status.value, ", ".join(shown)
     if counts[Status.passed]:
         return Status.passed.value, say("cover.all_passed", locale, count=counts[Status.passed])

@@ -178,6 +178,7 @@ WORDS: dict[str, str] = {
     "appendix.status_waived": "ausgenommen",
     "appendix.status_failed": "nicht bestanden",
     "appendix.status_advice": "Hinweis",
+    "appendix.status_advice_many": "Hinweise",
     "appendix.status_not_applicable": "nicht anwendbar",
     # -- checks' findings --------------------------------------------------------------------------
     "finding.same_measure.alone": "Kein anderer Datensatz des Berichts enthält diese Messgröße; es "

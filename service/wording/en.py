@@ -157,6 +157,7 @@ WORDS: dict[str, str] = {
     "appendix.status_waived": "waived",
     "appendix.status_failed": "failed",
     "appendix.status_advice": "advice",
+    "appendix.status_advice_many": "advice",
     "appendix.status_not_applicable": "not applicable",
     # -- checks' findings --------------------------------------------------------------------------
     "finding.same_measure.alone": "No other dataset of the pack carries this measure, so there is "

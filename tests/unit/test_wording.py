@@ -46,3 +46,13 @@ def test_sentence_has_single_spaces_and_single_punctuation(
     parts: tuple[str, ...], expected: str
 ) -> None:
     assert wording.sentence(*parts) == expected
+
+
+def test_counts_of_advice_take_the_plural_in_german() -> None:
+    from service.assemble.appendix import counted
+    from service.checks.results import Status
+
+    # German nouns take a plural ("Hinweise"); the English "advice" has none (common practice)
+    assert counted(3, Status.advice, "de-DE") == "3 Hinweise"
+    assert counted(1, Status.advice, "de-DE") == "1 Hinweis"
+    assert counted(2, Status.advice, "en-GB") == "2 advice"
