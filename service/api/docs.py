@@ -76,7 +76,10 @@ _MEANING = {
     413: "The request body is larger than the configured limit.",
     415: "The body was sent as another media type than application/json (UTF-8).",
     422: "The request is not valid; each problem is listed with its path.",
-    429: "The background queue is full; retry after the time given in Retry-After.",
+    429: (
+        "Too busy (the queue is full, too many requests wait, or this address sent too many "
+        "wrong keys); retry after the time given in Retry-After."
+    ),
     500: "Something failed on the service's side; the detail names an incident id.",
     503: "The archive's database could not be reached or was busy; nothing was saved, send the "
     "request again.",
@@ -93,11 +96,12 @@ def refusals(*statuses: int) -> dict[int | str, dict[str, Any]]:
     """The OpenAPI ``responses`` entries of these error statuses, each a problem-details body.
 
     A route that takes a key reads the archive's database, so it can also answer 503 when that
-    is unreachable (``archive.db.DatabaseUnavailable``); one that can write files (413 listed:
-    it takes a body) can answer 507 when the store's disk is full."""
+    is unreachable (``archive.db.DatabaseUnavailable``), and 429 to an address that sent too
+    many wrong keys; one that can write files (413 listed: it takes a body) can answer 507 when
+    the store's disk is full."""
     wanted = set(statuses)
     if 401 in wanted:
-        wanted.add(503)
+        wanted |= {429, 503}
     if 413 in wanted or 409 in wanted:
         wanted.add(507)
     out: dict[int | str, dict[str, Any]] = {}
