@@ -112,6 +112,7 @@ def _appendix_rows(path: Path, source: Path = DEMO) -> dict[tuple[str, str], str
     applicable to it (a sentence under the grid)."""
     definition = json.loads(source.read_text())
     ids = {c["title"]: c["id"] for s in definition["sections"] for c in s.get("charts", [])}
+    ids |= {t["title"]: t["id"] for s in definition["sections"] for t in s.get("tables", [])}
     known = {r["id"] for r in json.loads(plumbline("checks", "--json").stdout)}
     found: dict[tuple[str, str], str] = {}
     with pdfplumber.open(path) as pdf:
