@@ -100,28 +100,24 @@ def content(checked: Checked, locale: str) -> Appendix:
         for r in results
         if r.status is status
     ]
-    charts = [
-        ChartChecks(
-            chart_id=c.plan.chart_id,
-            title=c.plan.title,
-            counts=counts_text(c.results, locale),
-            passed=[(r.check, r.measured_text) for r in c.results if r.status is Status.passed],
-            not_applicable=[r.check for r in c.results if r.status is Status.not_applicable],
-        )
-        for c in checked.charts
-    ] + [
-        ChartChecks(
-            chart_id=t.plan.table_id,
-            title=t.plan.title,
-            counts=counts_text(t.results, locale),
-            passed=[(r.check, r.measured_text) for r in t.results if r.status is Status.passed],
-            not_applicable=[r.check for r in t.results if r.status is Status.not_applicable],
-        )
-        for t in checked.shown_tables
+    charts = [_checks_of(c.plan.chart_id, c.plan.title, c.results, locale) for c in checked.charts]
+    charts += [
+        _checks_of(t.plan.table_id, t.plan.title, t.results, locale) for t in checked.shown_tables
     ]
     used = list(dict.fromkeys(r.check for r in results))
     rules = [_rule(registry.rule(check)) for check in used]
     return Appendix(attention=attention, charts=charts, rules=rules)
+
+
+def _checks_of(block_id: str, title: str, results: list[CheckResult], locale: str) -> ChartChecks:
+    """One chart's or table's passed checks and the checks its form cannot break."""
+    return ChartChecks(
+        chart_id=block_id,
+        title=title,
+        counts=counts_text(results, locale),
+        passed=[(r.check, r.measured_text) for r in results if r.status is Status.passed],
+        not_applicable=[r.check for r in results if r.status is Status.not_applicable],
+    )
 
 
 def _rule(spec: registry.CheckSpec | registry.TableCheckSpec) -> Rule:
